@@ -1,0 +1,50 @@
+namespace FlowSolve.Core.Numerics;
+
+/// <summary>Why a root solve stopped.</summary>
+public enum SolveStatus
+{
+    /// <summary>The last step (Newton or bisection) was smaller than the step tolerance.</summary>
+    ConvergedOnStep,
+
+    /// <summary>The function value fell to or below the residual tolerance.</summary>
+    ConvergedOnResidual,
+
+    /// <summary>The iteration cap was reached before either tolerance was met; the best iterate is returned.</summary>
+    IterationCapReached,
+
+    /// <summary>The function has the same sign at both ends of the bracket, so no root is known to lie inside it.</summary>
+    NoSignChange,
+
+    /// <summary>The function returned NaN or an infinity at a point inside the bracket.</summary>
+    NonFiniteValue,
+}
+
+/// <summary>Human-readable reasons for <see cref="SolveStatus"/> values (static strings; no allocation).</summary>
+public static class SolveStatusExtensions
+{
+    /// <summary>A sentence that says why the solve stopped.</summary>
+    public static string Reason(this SolveStatus status) => status switch
+    {
+        SolveStatus.ConvergedOnStep => "converged: the last step was below the step tolerance",
+        SolveStatus.ConvergedOnResidual => "converged: the residual was below the residual tolerance",
+        SolveStatus.IterationCapReached => "stopped: the iteration cap was reached before convergence",
+        SolveStatus.NoSignChange => "stopped: the function has the same sign at both ends of the bracket",
+        SolveStatus.NonFiniteValue => "stopped: the function returned a non-finite value",
+        _ => "unknown",
+    };
+
+    /// <summary>A stable kebab-case code for the status, for wire formats.</summary>
+    public static string Code(this SolveStatus status) => status switch
+    {
+        SolveStatus.ConvergedOnStep => "converged-on-step",
+        SolveStatus.ConvergedOnResidual => "converged-on-residual",
+        SolveStatus.IterationCapReached => "iteration-cap-reached",
+        SolveStatus.NoSignChange => "no-sign-change",
+        SolveStatus.NonFiniteValue => "non-finite-value",
+        _ => "unknown",
+    };
+
+    /// <summary>True for the two converged statuses.</summary>
+    public static bool IsConverged(this SolveStatus status) =>
+        status is SolveStatus.ConvergedOnStep or SolveStatus.ConvergedOnResidual;
+}

@@ -116,6 +116,13 @@ public static class SafeguardedNewton
             {
                 double newtonStep = fx / dfx;
                 next = x - newtonStep;
+                if (Math.Abs(newtonStep) <= tolerance)
+                {
+                    // Converged: test this before the bracket, because a step below the spacing of doubles can
+                    // round onto the bracket end that x itself is, which would look like leaving the bracket.
+                    trace?.Add(new TraceStep(iteration, x, fx, dfx, -newtonStep, StepKind.Newton, BisectionReason.None, lo, hi));
+                    return new RootResult(x, iteration, evaluations, fx, lo, hi, Math.Abs(newtonStep), SolveStatus.ConvergedOnStep);
+                }
                 if (!(next > lo && next < hi))
                     why = BisectionReason.LeftBracket;
                 else if (bracketed && Math.Abs(newtonStep) > 0.5 * Math.Abs(stepBeforeLast))

@@ -1,0 +1,160 @@
+using FlowSolve.Core.Numerics;
+
+namespace FlowSolve.Core.Friction;
+
+/// <summary>Regime limits for <see cref="DarcyFriction"/>.</summary>
+/// <param name="LaminarLimit">Below this Reynolds number flow is laminar (2000: common practice).</param>
+/// <param name="TurbulentLimit">At or above this Reynolds number flow is turbulent (4000: common practice).</param>
+public readonly record struct FrictionOptions(double LaminarLimit, double TurbulentLimit)
+{
+    /// <summary>2000 and 4000 (common practice).</summary>
+    public static FrictionOptions Default { get; } = new(2000, 4000);
+}
+
+/// <summary>A Darcy friction factor with the record of how it was obtained.</summary>
+/// <param name="FrictionFactor">Darcy friction factor f (dimensionless).</param>
+/// <param name="Regime">The regime that chose the relation.</param>
+/// <param name="Relation">The relation actually used: <c>laminar</c> (64/Re), or a <see cref="FrictionMethodInfo.Code"/>.</param>
+/// <param name="Iterations">Solver steps (0 for explicit relations).</param>
+/// <param name="Residual">Colebrook-White residual in 1/sqrt(f) for the exact solve; 0 for explicit relations.</param>
+/// <param name="Status">Solver status; <see cref="SolveStatus.ConvergedOnResidual"/> for explicit relations, which are exact by definition.</param>
+/// <param name="Warnings">Warning flags.</param>
+/// <param name="DerivativeReynolds">df/dRe of the relation used (analytic for the laminar law and Colebrook-White).</param>
+public readonly record struct FrictionResult(
+    double FrictionFactor, FlowRegime Regime, string Relation, int Iterations, double Residual,
+    SolveStatus Status, FrictionWarnings Warnings, double DerivativeReynolds)
+{
+    /// <summary>True when the relation's value is trustworthy as a solve (always true for explicit relations).</summary>
+    public bool Converged => Status.IsConverged();
+}
+
+/// <summary>
+/// The Darcy friction factor in every regime: Hagen-Poiseuille f = 64/Re in laminar flow, Churchill (1977) in the
+/// transition zone (with a warning: no relation is reliable there), and the chosen turbulent method above it
+/// (exact Colebrook-White by default).
+/// </summary>
+public static class DarcyFriction
+{
+    /// <summary>The relation name for the laminar law.</summary>
+    public const string LaminarRelation = "laminar";
+
+    /// <summary>The largest Reynolds number accepted (far beyond any pipe; keeps the known bracket valid).</summary>
+    public const double MaximumReynolds = 1e15;
+
+    /// <summary>Computes the friction factor.</summary>
+    /// <param name="reynolds">Reynolds number; finite, positive, at most <see cref="MaximumReynolds"/>.</param>
+    /// <param name="relativeRoughness">Relative roughness e/D in [0, 1).</param>
+    /// <param name="method">The turbulent method; Churchill also applies in laminar and transitional flow.</param>
+    /// <param name="options">Regime limits; <see cref="FrictionOptions.Default"/> when omitted.</param>
+    /// <param name="trace">Optional per-iteration record of the Colebrook-White solve.</param>
+    /// <exception cref="ArgumentOutOfRangeException">An argument is outside its domain.</exception>
+    public static FrictionResult Compute(double reynolds, double relativeRoughness,
+        FrictionMethod method = FrictionMethod.ColebrookWhite, FrictionOptions? options = null, SolverTrace? trace = null)
+    {
+        var limits = options ?? FrictionOptions.Default;
+        if (!(reynolds > 0) || !(reynolds <= MaximumReynolds))
+            throw new ArgumentOutOfRangeException(nameof(reynolds), reynolds, $"must be in (0, {MaximumReynolds:0e0}]");
+        if (!(relativeRoughness >= 0) || !(relativeRoughness < 1))
+            throw new ArgumentOutOfRangeException(nameof(relativeRoughness), relativeRoughness, "must be in [0, 1)");
+        if (!(limits.LaminarLimit > 0) || !(limits.TurbulentLimit >= limits.LaminarLimit) || !double.IsFinite(limits.TurbulentLimit))
+            throw new ArgumentOutOfRangeException(nameof(options), "need 0 < laminar limit <= turbulent limit");
+
+        var warnings = FrictionWarnings.None;
+        if (relativeRoughness > FrictionMethodInfo.ColebrookWhite.RelativeRoughnessMaximum)
+            warnings |= FrictionWarnings.RelativeRoughnessAboveRange;
+
+        if (method == FrictionMethod.Churchill)
+        {
+            // Churchill's single expression spans every regime, so it is used as asked even below the turbulent limit.
+            var regime = reynolds < limits.LaminarLimit ? FlowRegime.Laminar
+                : reynolds < limits.TurbulentLimit ? FlowRegime.Transitional : FlowRegime.Turbulent;
+            if (regime == FlowRegime.Transitional) warnings |= FrictionWarnings.TransitionalFlow;
+            if (reynolds > 1e8) warnings |= FrictionWarnings.ReynoldsAboveRange;
+            return Explicit(FrictionMethodInfo.Churchill, reynolds, relativeRoughness, regime, warnings);
+        }
+
+        if (reynolds < limits.LaminarLimit)
+        {
+            if (method != FrictionMethod.ColebrookWhite) warnings |= FrictionWarnings.MethodNotApplicableInRegime;
+            return new FrictionResult(64.0 / reynolds, FlowRegime.Laminar, LaminarRelation, 0, 0.0,
+                SolveStatus.ConvergedOnResidual, warnings, -64.0 / (reynolds * reynolds));
+        }
+
+        if (reynolds < limits.TurbulentLimit)
+        {
+            warnings |= FrictionWarnings.TransitionalFlow;
+            if (method != FrictionMethod.ColebrookWhite) warnings |= FrictionWarnings.MethodNotApplicableInRegime;
+            return Explicit(FrictionMethodInfo.Churchill, reynolds, relativeRoughness, FlowRegime.Transitional, warnings);
+        }
+
+        if (reynolds > FrictionMethodInfo.ColebrookWhite.ReynoldsMaximum) warnings |= FrictionWarnings.ReynoldsAboveRange;
+
+        if (method == FrictionMethod.ColebrookWhite)
+        {
+            var exact = ColebrookWhite.Solve(reynolds, relativeRoughness, trace);
+            if (!exact.Converged) warnings |= FrictionWarnings.NotConverged;
+            return new FrictionResult(exact.FrictionFactor, FlowRegime.Turbulent, FrictionMethodInfo.ColebrookWhite.Code,
+                exact.Iterations, exact.Residual, exact.Status, warnings, exact.DerivativeReynolds);
+        }
+
+        return Explicit(FrictionMethodInfo.For(method), reynolds, relativeRoughness, FlowRegime.Turbulent, warnings);
+    }
+
+    /// <summary>The exact value in every regime: what explicit approximations are compared with.</summary>
+    /// <param name="reynolds">Reynolds number.</param>
+    /// <param name="relativeRoughness">Relative roughness e/D.</param>
+    /// <param name="options">Regime limits.</param>
+    public static FrictionResult Exact(double reynolds, double relativeRoughness, FrictionOptions? options = null) =>
+        Compute(reynolds, relativeRoughness, FrictionMethod.ColebrookWhite, options);
+
+    private static FrictionResult Explicit(FrictionMethodInfo info, double reynolds, double relativeRoughness,
+        FlowRegime regime, FrictionWarnings warnings)
+    {
+        if (regime == FlowRegime.Turbulent && !info.InRange(reynolds, relativeRoughness))
+            warnings |= FrictionWarnings.ApproximationOutOfRange;
+        double f = ExplicitFriction.Evaluate(info.Method, reynolds, relativeRoughness);
+        // A central difference is accurate to about 1e-10 relative here; explicit relations are cheap.
+        double h = reynolds * 1e-5;
+        double dfdRe = (ExplicitFriction.Evaluate(info.Method, reynolds + h, relativeRoughness)
+                      - ExplicitFriction.Evaluate(info.Method, reynolds - h, relativeRoughness)) / (2 * h);
+        return new FrictionResult(f, regime, info.Code, 0, 0.0, SolveStatus.ConvergedOnResidual, warnings, dfdRe);
+    }
+
+    /// <summary>Expands warning flags into coded messages (allocates; for reports and the API, not the hot path).</summary>
+    /// <param name="warnings">The flags.</param>
+    /// <param name="reynolds">Reynolds number, quoted in the messages.</param>
+    /// <param name="relativeRoughness">Relative roughness, quoted in the messages.</param>
+    /// <param name="relation">The relation used, quoted in the messages.</param>
+    /// <param name="options">Regime limits.</param>
+    public static IReadOnlyList<CalculationWarning> Describe(FrictionWarnings warnings, double reynolds,
+        double relativeRoughness, string relation, FrictionOptions? options = null)
+    {
+        var limits = options ?? FrictionOptions.Default;
+        var list = new List<CalculationWarning>();
+        var c = System.Globalization.CultureInfo.InvariantCulture;
+        if (warnings.HasFlag(FrictionWarnings.TransitionalFlow))
+            list.Add(new("transitional-flow", string.Format(c,
+                "Reynolds number {0:G6} lies in the transition zone ({1:G4} to {2:G4}), where flow may be laminar or turbulent " +
+                "and no relation is reliable; the value is Churchill's (1977) interpolation. Design for the worse case.",
+                reynolds, limits.LaminarLimit, limits.TurbulentLimit)));
+        if (warnings.HasFlag(FrictionWarnings.ReynoldsAboveRange))
+            list.Add(new("reynolds-above-range", string.Format(c,
+                "Reynolds number {0:G6} is above 1e8, the top of Colebrook-White's stated range; the value is an extrapolation.", reynolds)));
+        if (warnings.HasFlag(FrictionWarnings.RelativeRoughnessAboveRange))
+            list.Add(new("relative-roughness-above-range", string.Format(c,
+                "Relative roughness {0:G6} is above 0.05, the top of Colebrook-White's stated range; the value is an extrapolation.", relativeRoughness)));
+        if (warnings.HasFlag(FrictionWarnings.ApproximationOutOfRange))
+        {
+            FrictionMethodInfo.TryParse(relation, out var info);
+            list.Add(new("approximation-out-of-range", string.Format(c,
+                "The inputs are outside {0}'s stated range (Re {1:G3} to {2:G3}, e/D {3:G3} to {4:G3}); compare with the exact value.",
+                relation, info.ReynoldsMinimum, info.ReynoldsMaximum, info.RelativeRoughnessMinimum, info.RelativeRoughnessMaximum)));
+        }
+        if (warnings.HasFlag(FrictionWarnings.MethodNotApplicableInRegime))
+            list.Add(new("method-not-applicable", string.Format(c,
+                "The requested method is a turbulent-flow approximation; at Reynolds number {0:G6} the value comes from {1}.", reynolds, relation)));
+        if (warnings.HasFlag(FrictionWarnings.NotConverged))
+            list.Add(new("not-converged", "The Colebrook-White solve did not converge; the value is the best iterate and must not be used."));
+        return list;
+    }
+}

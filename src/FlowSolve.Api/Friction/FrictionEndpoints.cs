@@ -1,0 +1,135 @@
+using System.Globalization;
+using FlowSolve.Api.Contracts;
+using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Problems;
+using FlowSolve.Core;
+using FlowSolve.Core.Friction;
+using FlowSolve.Core.Numerics;
+using Microsoft.AspNetCore.Http.HttpResults;
+
+namespace FlowSolve.Api.Friction;
+
+/// <summary>The Darcy friction-factor calculation: <c>GET</c> and <c>POST /v1/friction-factor</c>.</summary>
+public static class FrictionEndpoints
+{
+    public static IEndpointRouteBuilder MapFrictionEndpoints(this IEndpointRouteBuilder routes)
+    {
+        var group = routes.MapGroup("/v1/friction-factor").WithTags("Friction factor");
+
+        group.MapGet("/", ([AsParameters] FrictionFactorRequest request) => Calculate(request))
+            .WithName("GetFrictionFactor")
+            .WithSummary("Darcy friction factor (query parameters)")
+            .WithDescription(Description)
+            .WithQueryExample(("reynolds", "75000"), ("relativeRoughness", "0.005"));
+
+        group.MapPost("/", (FrictionFactorRequest request) => Calculate(request))
+            .WithName("PostFrictionFactor")
+            .WithSummary("Darcy friction factor (JSON body)")
+            .WithDescription(Description)
+            .WithBodyExample(new FrictionFactorRequest(Reynolds: 250000, Roughness: 0.00026, Diameter: 0.3, Method: "haaland"));
+
+        return routes;
+    }
+
+    private static string Description => FrictionDocs.Description;
+
+    public static Results<Ok<FrictionFactorResponse>, ValidationProblem> Calculate(FrictionFactorRequest request)
+    {
+        var errors = new FieldErrors();
+        double reynolds = errors.Required("reynolds", request.Reynolds, 0, DarcyFriction.MaximumReynolds, minExclusive: true);
+        double laminarLimit = errors.Optional("laminarLimit", request.LaminarLimit, 1000, 4000) ?? FrictionOptions.Default.LaminarLimit;
+        var assumptions = new List<AssumptionDto>();
+
+        double relativeRoughness = double.NaN;
+        if (request.RelativeRoughness is not null)
+        {
+            relativeRoughness = errors.Required("relativeRoughness", request.RelativeRoughness, 0, 1);
+            if (relativeRoughness >= 1) errors.Add("relativeRoughness", "must be below 1 (roughness smaller than the diameter)");
+            if (request.Roughness is not null || request.Diameter is not null)
+                errors.Add("relativeRoughness", "give either relativeRoughness, or roughness and diameter, not both");
+        }
+        else if (request.Roughness is null && request.Diameter is null)
+        {
+            errors.Add("relativeRoughness", "is required (or give roughness and diameter)");
+        }
+        else
+        {
+            double roughness = errors.Required("roughness", request.Roughness, 0, double.MaxValue);
+            double diameter = errors.Required("diameter", request.Diameter, 0, double.MaxValue, minExclusive: true);
+            if (!errors.Has("roughness") && !errors.Has("diameter"))
+            {
+                relativeRoughness = roughness / diameter;
+                if (!(relativeRoughness < 1)) errors.Add("roughness", "must be smaller than the diameter");
+                else assumptions.Add(new("relativeRoughness", relativeRoughness.ToString("R", CultureInfo.InvariantCulture),
+                    "computed as roughness / diameter (both in the same length unit)"));
+            }
+        }
+
+        var method = FrictionMethodInfo.ColebrookWhite;
+        if (request.Method is null)
+            assumptions.Add(new("method", method.Code, "the exact Colebrook-White equation (default)"));
+        else if (!FrictionMethodInfo.TryParse(request.Method, out method))
+            errors.Add("method", "must be one of: " + string.Join(", ", FrictionMethodInfo.All.Select(m => m.Code)));
+
+        if (errors.Any) return ProblemResults.BadInput(errors);
+
+        if (request.LaminarLimit is null)
+            assumptions.Add(new("laminarLimit", "2000", "laminar below Re 2000 and turbulent from Re 4000 (common practice)"));
+        var options = new FrictionOptions(laminarLimit, Math.Max(laminarLimit, FrictionOptions.Default.TurbulentLimit));
+        SolverTrace? trace = request.Trace == true ? new SolverTrace() : null;
+
+        var exact = DarcyFriction.Compute(reynolds, relativeRoughness, FrictionMethod.ColebrookWhite, options, trace);
+        var chosen = method.Method == FrictionMethod.ColebrookWhite
+            ? exact
+            : DarcyFriction.Compute(reynolds, relativeRoughness, method.Method, options);
+
+        var approximations = FrictionMethodInfo.Approximations.Select(a =>
+        {
+            double f = ExplicitFriction.Evaluate(a.Method, reynolds, relativeRoughness);
+            return new ApproximationDto(a.Code, f, (f / exact.FrictionFactor - 1) * 100, a.InRange(reynolds, relativeRoughness),
+                a.MeasuredMaxDeviationPercent);
+        }).ToArray();
+
+        var warnings = DarcyFriction.Describe(chosen.Warnings | exact.Warnings & ~FrictionWarnings.ApproximationOutOfRange,
+            reynolds, relativeRoughness, chosen.Relation, options).Select(WarningDto.From).ToArray();
+
+        var response = new FrictionFactorResponse(
+            chosen.FrictionFactor, chosen.Relation, RegimeCode(chosen.Regime), exact.FrictionFactor,
+            reynolds, relativeRoughness,
+            exact.Iterations, exact.Converged && chosen.Converged, exact.Residual, exact.Status.Code(), "1/sqrt(f)",
+            Validity(chosen, reynolds, relativeRoughness, options), warnings, assumptions, approximations,
+            TraceStepDto.From(trace));
+        return TypedResults.Ok(response);
+    }
+
+    private static string RegimeCode(FlowRegime regime) => regime switch
+    {
+        FlowRegime.Laminar => "laminar",
+        FlowRegime.Transitional => "transitional",
+        _ => "turbulent",
+    };
+
+    private static IReadOnlyList<ValidityDto> Validity(FrictionResult result, double reynolds, double relativeRoughness, FrictionOptions options)
+    {
+        var list = new List<ValidityDto>();
+        if (result.Relation == DarcyFriction.LaminarRelation)
+        {
+            list.Add(ValidityDto.From(new ValidityCheck("laminar", "Hagen-Poiseuille law; laminar limit as configured (common practice)",
+                "reynolds", 0, options.LaminarLimit, reynolds)));
+            return list;
+        }
+        FrictionMethodInfo.TryParse(result.Relation, out var info);
+        string source = info.Source + "; range: " + info.RangeProvenance;
+        if (result.Regime == FlowRegime.Transitional || (info.Method == FrictionMethod.Churchill && result.Regime != FlowRegime.Turbulent))
+        {
+            list.Add(ValidityDto.From(new ValidityCheck(info.Code, source + " (all regimes)", "reynolds", 0, double.PositiveInfinity, reynolds)));
+        }
+        else
+        {
+            list.Add(ValidityDto.From(new ValidityCheck(info.Code, source, "reynolds", info.ReynoldsMinimum, info.ReynoldsMaximum, reynolds)));
+        }
+        list.Add(ValidityDto.From(new ValidityCheck(info.Code, source, "relativeRoughness",
+            info.RelativeRoughnessMinimum, info.RelativeRoughnessMaximum, relativeRoughness)));
+        return list;
+    }
+}

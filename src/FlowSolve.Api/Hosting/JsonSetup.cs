@@ -1,0 +1,22 @@
+using System.Text.Json;
+using System.Text.Json.Serialization;
+
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>The API's JSON conventions, shared by the HTTP pipeline and by example rendering.</summary>
+public static class JsonSetup
+{
+    public static JsonSerializerOptions Options { get; } = Configure(new JsonSerializerOptions(JsonSerializerDefaults.Web));
+
+    /// <summary>camelCase names; nulls omitted; unknown fields rejected so a misspelt field name is a 400, not a silent default;
+    /// numbers only as JSON numbers (no "NaN" strings); a nesting limit that stops hostile deeply nested bodies.</summary>
+    public static JsonSerializerOptions Configure(JsonSerializerOptions o)
+    {
+        o.PropertyNamingPolicy = JsonNamingPolicy.CamelCase;
+        o.DefaultIgnoreCondition = JsonIgnoreCondition.WhenWritingNull;
+        o.UnmappedMemberHandling = JsonUnmappedMemberHandling.Disallow;
+        o.NumberHandling = JsonNumberHandling.Strict;
+        o.MaxDepth = 32;
+        return o;
+    }
+}

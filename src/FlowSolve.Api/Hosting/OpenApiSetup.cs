@@ -1,0 +1,108 @@
+using System.ComponentModel;
+using System.Reflection;
+using System.Text.Json.Nodes;
+using Microsoft.OpenApi;
+using Swashbuckle.AspNetCore.SwaggerGen;
+
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>Swashbuckle configuration: the document at /openapi/v1.json, the UI at /docs, descriptions and examples.</summary>
+public static class OpenApiSetup
+{
+    public const string DocumentName = "v1";
+    public const string DocumentPath = "/openapi/v1.json";
+
+    public const string Cautions =
+        "Results are engineering estimates to be checked by a qualified engineer before they are used in design; local codes, " +
+        "standards and licensed practice govern. FlowSolve does not cover water hammer and surge (transients), structural design " +
+        "of pipes or channels, or any safety-critical decision on its own.";
+
+    public static IServiceCollection AddFlowSolveOpenApi(this IServiceCollection services)
+    {
+        services.AddEndpointsApiExplorer();
+        services.AddSwaggerGen(c =>
+        {
+            c.SwaggerDoc(DocumentName, new OpenApiInfo
+            {
+                Title = "FlowSolve",
+                Version = "v1",
+                Description =
+                    "Hydraulic relations solved to full precision by safeguarded Newton iteration. Every value comes with its " +
+                    "iteration count, residual, the published validity range of each correlation used, warnings, and the defaults " +
+                    "that were applied. SI units by default (m, m/s, m3/s, m2/s, Pa, Pa s, kg/m3, degrees C); units=us switches " +
+                    "a request and its response to US customary. Gravity is standard gravity, 9.80665 m/s2. Bad input answers 400 " +
+                    "with an RFC 9457 problem whose errors map names each bad field; a well-formed request with no physical answer " +
+                    "answers 422.\n\n" + Cautions,
+                License = new OpenApiLicense { Name = "MIT" },
+            });
+            string xml = Path.Combine(AppContext.BaseDirectory, "FlowSolve.Api.xml");
+            if (File.Exists(xml)) c.IncludeXmlComments(xml);
+            c.SchemaFilter<DescriptionSchemaFilter>();
+            c.OperationFilter<ParameterAndExampleFilter>();
+            c.SupportNonNullableReferenceTypes();
+        });
+        return services;
+    }
+
+    public static WebApplication UseFlowSolveOpenApi(this WebApplication app)
+    {
+        app.UseSwagger(o => o.RouteTemplate = "openapi/{documentName}.json");
+        app.UseSwaggerUI(o =>
+        {
+            o.RoutePrefix = "docs";
+            o.SwaggerEndpoint(DocumentPath, "FlowSolve v1");
+            o.DocumentTitle = "FlowSolve API";
+        });
+        return app;
+    }
+
+    /// <summary>Puts each <see cref="DescriptionAttribute"/> on a record property into the schema of that property.</summary>
+    private sealed class DescriptionSchemaFilter : ISchemaFilter
+    {
+        public void Apply(IOpenApiSchema schema, SchemaFilterContext context)
+        {
+            if (schema is not OpenApiSchema concrete || concrete.Properties is null) return;
+            foreach (var property in context.Type.GetProperties(BindingFlags.Public | BindingFlags.Instance))
+            {
+                var description = property.GetCustomAttribute<DescriptionAttribute>()?.Description;
+                if (description is null) continue;
+                string name = char.ToLowerInvariant(property.Name[0]) + property.Name[1..];
+                if (concrete.Properties.TryGetValue(name, out var p) && p is OpenApiSchema ps) ps.Description = description;
+            }
+        }
+    }
+
+    /// <summary>Describes query parameters from their record properties' descriptions, and attaches examples.</summary>
+    private sealed class ParameterAndExampleFilter : IOperationFilter
+    {
+        public void Apply(OpenApiOperation operation, OperationFilterContext context)
+        {
+            foreach (var parameter in operation.Parameters ?? [])
+            {
+                if (parameter is not OpenApiParameter p) continue;
+                var description = context.ApiDescription.ParameterDescriptions
+                    .FirstOrDefault(d => string.Equals(d.Name, p.Name, StringComparison.OrdinalIgnoreCase))?
+                    .PropertyInfo()?.GetCustomAttribute<DescriptionAttribute>()?.Description;
+                if (description is not null) p.Description = description;
+            }
+
+            var example = context.ApiDescription.ActionDescriptor.EndpointMetadata.OfType<RequestExample>().FirstOrDefault();
+            if (example is null) return;
+            foreach (var (name, value) in example.Query)
+            {
+                var p = operation.Parameters?.OfType<OpenApiParameter>().FirstOrDefault(x => x.Name == name);
+                if (p is not null) p.Example = double.TryParse(value, System.Globalization.CultureInfo.InvariantCulture, out var d) ? JsonValue.Create(d) : JsonValue.Create(value);
+            }
+            if (example.Body is not null && operation.RequestBody?.Content is { } content)
+            {
+                foreach (var media in content.Values)
+                    if (media is OpenApiMediaType m) m.Example = example.Body.DeepClone();
+            }
+        }
+    }
+
+    private static PropertyInfo? PropertyInfo(this Microsoft.AspNetCore.Mvc.ApiExplorer.ApiParameterDescription d) =>
+        d.ParameterDescriptor is { } pd && d.ModelMetadata?.ContainerType is { } container
+            ? container.GetProperty(d.ModelMetadata.PropertyName ?? pd.Name, BindingFlags.Public | BindingFlags.Instance | BindingFlags.IgnoreCase)
+            : null;
+}

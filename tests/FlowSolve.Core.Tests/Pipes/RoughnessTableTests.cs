@@ -1,0 +1,41 @@
+using FlowSolve.Core.Pipes;
+
+namespace FlowSolve.Core.Tests.Pipes;
+
+public sealed class RoughnessTableTests
+{
+    [Fact]
+    public void Roughness_CastIron_MatchesWhiteExample6_7()
+    {
+        // White, Fluid Mechanics, Example 6.7 (found) takes 0.26 mm for cast iron, the value of his Table 6.1.
+        Assert.Equal(0.26e-3, RoughnessTable.Roughness("cast-iron"), 1e-12);
+    }
+
+    [Fact]
+    public void All_CitesSourceAndProvenance()
+    {
+        Assert.Contains("White", RoughnessTable.Source);
+        Assert.Contains("from memory", RoughnessTable.Provenance);
+        Assert.All(RoughnessTable.All, m => Assert.True(m.New >= 0 && m.New < 0.01));
+    }
+
+    [Fact]
+    public void TryGet_AgedSteel_IsRougherThanNew()
+    {
+        Assert.True(RoughnessTable.TryGet("commercial-steel", out var steel));
+        Assert.True(steel.TryGet(SurfaceCondition.Aged, out double aged));
+        Assert.True(aged > steel.New);
+        Assert.True(RoughnessTable.TryGet("glass", out var glass));
+        Assert.False(glass.TryGet(SurfaceCondition.Aged, out _));
+        Assert.Equal("condition", Assert.Throws<ArgumentException>(() => RoughnessTable.Roughness("glass", SurfaceCondition.Aged)).ParamName);
+    }
+
+    [Fact]
+    public void Roughness_UnknownMaterial_ThrowsNamingIt()
+    {
+        Assert.False(RoughnessTable.TryGet("unobtainium", out _));
+        var ex = Assert.Throws<ArgumentException>(() => RoughnessTable.Roughness("unobtainium"));
+        Assert.Equal("material", ex.ParamName);
+        Assert.Contains("unobtainium", ex.Message);
+    }
+}

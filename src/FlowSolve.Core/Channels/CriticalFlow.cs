@@ -59,9 +59,12 @@ public static class CriticalFlow
             case SectionShape.Circular:
             {
                 var circle = (CircularSection)section;
-                var function = new CriticalResidual(circle, logTarget);
-                var root = SafeguardedNewton.Solve(function, Bracket.KnownIncreasing(0.0, circle.Diameter),
-                    circle.CriticalDepthGuess(flow * flow / StandardGravity), LogDepthSolve.DepthOptions);
+                // Solved in x = ln(y/(D - y)); the checked bracket x in [-30, 30] spans y/D from 1e-13 to 1 - 1e-13
+                // (a flow beyond it is reported as no sign change, never silently clamped).
+                var function = new LogitDepthCriticalResidual(circle, logTarget);
+                double start = LogitDepthCriticalResidual.LogitOf(circle.CriticalDepthGuess(flow * flow / StandardGravity), circle.Diameter);
+                var inLogit = SafeguardedNewton.Solve(function, Bracket.Checked(-30.0, 30.0), start, LogDepthSolve.Options);
+                var root = inLogit with { Root = LogitDepthCriticalResidual.DepthOf(inLogit.Root, circle.Diameter) };
                 return Build(section, flow, defaultN, root.Root, root, root.Iterations, root.Converged, Array.Empty<double>(), null);
             }
             case SectionShape.Surveyed:

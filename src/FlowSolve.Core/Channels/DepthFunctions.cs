@@ -135,6 +135,36 @@ internal readonly struct LogDepthCriticalResidual : IDifferentiableFunction
     }
 }
 
+/// <summary>
+/// The critical-flow residual of a circle in x = ln(y / (D - y)): ln(A^3/T) behaves as 5 x near the invert and as x/2 near
+/// the crown, where it grows without bound, so it is nearly linear in x at both ends and Newton needs few steps.
+/// </summary>
+internal readonly struct LogitDepthCriticalResidual : IDifferentiableFunction
+{
+    private readonly CircularSection _section;
+    private readonly double _logTarget;
+
+    public LogitDepthCriticalResidual(CircularSection section, double logTarget)
+    {
+        _section = section;
+        _logTarget = logTarget;
+    }
+
+    public static double DepthOf(double x, double diameter) => diameter / (1.0 + Math.Exp(-x));
+
+    public static double LogitOf(double depth, double diameter) => Math.Log(depth / (diameter - depth));
+
+    public (double Value, double Derivative) Evaluate(double x)
+    {
+        double d = _section.Diameter;
+        double depth = DepthOf(x, d);
+        var g = _section.Evaluate(depth);
+        double dydx = depth * (d - depth) / d;
+        return (3.0 * Math.Log(g.Area) - Math.Log(g.TopWidth) - _logTarget,
+            dydx * (3.0 * g.TopWidth / g.Area - g.TopWidthDerivative / g.TopWidth));
+    }
+}
+
 internal static class Quadratic
 {
     /// <summary>Real roots of c2 s^2 + c1 s + c0 = 0, shifted by <paramref name="origin"/>, that lie strictly inside (lower, upper), ascending.</summary>

@@ -183,7 +183,8 @@ public static class ManningSolver
         double fraction = Math.Exp(-atFull);
         double start = Math.Clamp(0.5 * d * Math.Pow(2.0 * fraction, 0.6), 1e-6 * d, 0.999 * peak);
         var lower = SafeguardedNewton.Solve(function, Bracket.KnownIncreasing(0.0, peak), start, LogDepthSolve.DepthOptions);
-        if (!(atFull < 0.0))
+        // At or below the full-pipe flow (to the same margin) the only other depth is the full pipe itself.
+        if (!(atFull < -touch))
             return Build(circle, flow, slope, n, lower.Root, lower, lower.Iterations, lower.Converged, Array.Empty<double>(), capacity, null);
 
         // Upper branch: ln K falls on (peak, D); start by linear interpolation of the residual.

@@ -130,7 +130,8 @@ public sealed class SurveyedSection : ChannelSection
     /// <summary>Depths, m, where the geometry changes form (a survey point reaches the surface), ascending; the last is <see cref="MaximumDepth"/>.</summary>
     internal ReadOnlySpan<double> BreakDepths => _breakDepths;
 
-    internal override SectionGeometry Evaluate(double depth) => Evaluate(depth, fromBelow: false);
+    // From above inside the section; at the bank top from below (there is no section above it).
+    internal override SectionGeometry Evaluate(double depth) => Evaluate(depth, fromBelow: depth >= MaximumDepth);
 
     internal override SectionGeometry Evaluate(double depth, bool fromBelow)
     {

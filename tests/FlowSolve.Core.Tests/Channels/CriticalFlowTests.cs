@@ -128,6 +128,31 @@ public class CriticalFlowTests
     }
 
     [Fact]
+    public void CriticalDepth_CompoundSection_FindsEveryCriticalDepth()
+    {
+        // Compound section (fictional): main channel 10 m wide, 2 m deep, 1 : 1 sides; overbanks 1 in 500, 100 m wide.
+        double[] x = [0, 10, 110, 112, 122, 124, 224, 234];
+        double[] z = [4, 2.2, 2.0, 0.0, 0.0, 2.0, 2.2, 4];
+        var points = x.Zip(z, (a, b) => (a, b)).ToList();
+        Func<double, double> cube = y => { var s = ChannelReference.Polygon(points, y); return s.A * s.A * s.A / s.T; };
+        // A^3/T falls as the overbanks flood; take the flow halfway (in A^3/T) between bank-full and the dip above it.
+        double bankFull = cube(2.0);
+        double dip = Enumerable.Range(1, 400).Select(i => cube(2.0 + 0.2 * i / 400)).Min();
+        Assert.True(dip < bankFull, "the fixture must have a dip in A^3/T above bank-full");
+        double flow = Math.Sqrt(ChannelReference.G * 0.5 * (bankFull + dip));
+
+        // Independent: dense sign-change scan of Q^2 T - g A^3 on polygon geometry, refined by MathNet's Brent.
+        var roots = ChannelReference.AllRoots(y => Math.Log(ChannelReference.G * cube(y) / (flow * flow)), 1e-6, 3.99, 40000);
+        var result = CriticalFlow.CriticalDepth(new SurveyedSection(x, z), flow);
+        Assert.Equal(3, roots.Count);
+        Assert.Equal(DepthSolution.Multiple, result.Solution);
+        Assert.Equal(roots[0], result.CriticalDepth, 1e-9);
+        Assert.Equal(roots.Skip(1).ToArray(), result.AlternateCriticalDepths.ToArray(), (a, b) => Math.Abs(a - b) < 1e-9);
+        Assert.Equal("multiple-critical-depths", Assert.Single(result.Warnings).CodeText);
+        Assert.True(result.Converged);
+    }
+
+    [Fact]
     public void CriticalDepth_SurveyedTooSmall_HasNoDepthAndWarns()
     {
         var result = CriticalFlow.CriticalDepth(SurveyedSectionTests.DrawnTrapezoid(), 5000.0);

@@ -289,6 +289,51 @@ public class ManningSolverTests
     }
 
     [Fact]
+    public void NormalDepth_CompoundSectionDipBetweenSurveyPoints_FindsBothDepthsInsideOneSegment()
+    {
+        // A flow just above the least conveyance of the dip, which lies between the survey points at 2.0 and 2.2 m:
+        // the residual is positive at both points and negative between them, so only a split at the conveyance's
+        // stationary point finds the two depths there.
+        const double slope = 0.0005, n = 0.03;
+        var section = new SurveyedSection(CompoundX, CompoundZ);
+        double dip = Enumerable.Range(1, 2000).Select(i => ChannelReference.Manning(CompoundReference(2.0 + 0.2 * i / 2000), slope, n)).Min();
+        double atUpperPoint = ChannelReference.Manning(CompoundReference(2.2), slope, n);
+        double flow = dip + 0.25 * (atUpperPoint - dip);
+        var roots = ChannelReference.AllRoots(y => ChannelReference.Manning(CompoundReference(y), slope, n) - flow, 1e-6, 3.99, 40000);
+        var result = ManningSolver.NormalDepth(section, flow, slope, n);
+
+        Assert.Equal(3, roots.Count);
+        Assert.InRange(roots[1], 2.0, 2.2);
+        Assert.InRange(roots[2], 2.0, 2.2);
+        Assert.Equal(roots[0], result.NormalDepth, 1e-9);
+        Assert.Equal(roots.Skip(1).ToArray(), result.AlternateNormalDepths.ToArray(), (a, b) => Math.Abs(a - b) < 1e-9);
+        Assert.True(result.Converged);
+    }
+
+    [Fact]
+    public void NormalDepth_FlowBetweenTheConveyancesEitherSideOfAFlatOverbank_IsTheOverbankLevelWithWarning()
+    {
+        // Rectangle 4 m wide and 2 m deep with a horizontal overbank 36 m wide at its top (fictional). At depth 2 the
+        // conveyance falls at once from A = 8, P = 8 (just below) to A = 8, P = 44 (just above). A flow between them has
+        // a normal depth in the rectangle, crosses at the overbank level without a root there (reported as the level,
+        // with a warning), and another above once the overbank's conveyance has grown enough.
+        var section = new SurveyedSection([0, 0, 4, 4, 40, 40], [5, 0, 0, 2, 2, 5]);
+        const double slope = 0.001, n = 0.02;
+        double below = ChannelReference.Manning(new(8, 8, 4), slope, n);
+        double above = ChannelReference.Manning(new(8, 44, 40), slope, n);
+        double flow = 0.5 * (below + above);
+        var result = ManningSolver.NormalDepth(section, flow, slope, n);
+
+        // Independent: Brent on the rectangle below the overbank, and on rectangle + overbank (A = 8 + 40 (y - 2),
+        // P = 44 + 2 (y - 2) with both outer walls) above it.
+        double lower = ChannelReference.Brent(y => ChannelReference.Manning(ChannelReference.Trapezoid(4, 0, 0, y), slope, n) - flow, 1e-6, 2.0);
+        double upper = ChannelReference.Brent(y => ChannelReference.Manning(new(8 + 40 * (y - 2), 44 + 2 * (y - 2), 40), slope, n) - flow, 2.0, 5.0);
+        Assert.Equal(lower, result.NormalDepth, 1e-10);
+        Assert.Equal([2.0, upper], result.AlternateNormalDepths.ToArray(), (a, b) => Math.Abs(a - b) < 1e-10);
+        Assert.Contains(result.Warnings, w => w.CodeText == "conveyance-jump");
+    }
+
+    [Fact]
     public void NormalDepth_SurveyedOvertopped_HasNoDepthAndStatesCapacity()
     {
         const double slope = 0.0005, n = 0.03;

@@ -96,11 +96,19 @@ public static class FrictionEndpoints
         var response = new FrictionFactorResponse(
             chosen.FrictionFactor, chosen.Relation, RegimeCode(chosen.Regime), exact.FrictionFactor,
             reynolds, relativeRoughness,
-            exact.Iterations, exact.Converged && chosen.Converged, exact.Residual, exact.Status.Code(), "1/sqrt(f)",
+            exact.Iterations, exact.Converged && chosen.Converged, ReportedResidual(exact, reynolds, relativeRoughness),
+            exact.Status.Code(), "1/sqrt(f)",
             Validity(chosen, reynolds, relativeRoughness, options), warnings, assumptions, approximations,
             TraceStepDto.From(trace));
         return TypedResults.Ok(response);
     }
+
+    /// <summary>The Colebrook-White residual at the returned factor itself. The Core reports it at the last evaluated
+    /// iterate, one predicted Newton step earlier, to save a logarithm on the hot path; a reviewer wants it at the answer.</summary>
+    private static double ReportedResidual(FrictionResult exact, double reynolds, double relativeRoughness) =>
+        exact.Relation == FrictionMethodInfo.ColebrookWhite.Code
+            ? ColebrookWhite.Residual(exact.FrictionFactor, reynolds, relativeRoughness)
+            : 0.0;
 
     private static string RegimeCode(FlowRegime regime) => regime switch
     {

@@ -80,6 +80,7 @@ public static class SafeguardedNewton
         // Sizes of the last two steps; initialised to the interval width so the first Newton step is not
         // mistaken for a stall (the same start as rtsafe).
         double previousStep = hi - lo, stepBeforeLast = hi - lo;
+        bool previousWasNewton = false;
 
         for (int iteration = 1; ; iteration++)
         {
@@ -147,6 +148,16 @@ public static class SafeguardedNewton
 
             double step = next - x;
             trace?.Add(new TraceStep(iteration, x, fx, dfx, step, kind, why, lo, hi));
+
+            if (options.PredictQuadraticConvergence && kind == StepKind.Newton && previousWasNewton
+                && Math.Abs(step) <= 0.1 * Math.Abs(previousStep))
+            {
+                // e(k+1) ~ C e(k)^2 with C ~ |step| / previousStep^2; the error left after this step is C step^2.
+                double predicted = Math.Abs(step) * (step / previousStep) * (step / previousStep);
+                if (predicted <= tolerance)
+                    return new RootResult(next, iteration, evaluations, fx, lo, hi, Math.Abs(step), SolveStatus.ConvergedOnPredictedStep);
+            }
+            previousWasNewton = kind == StepKind.Newton;
             stepBeforeLast = previousStep;
             previousStep = step;
 

@@ -9,6 +9,13 @@ public enum SolveStatus
     /// <summary>The function value fell to or below the residual tolerance.</summary>
     ConvergedOnResidual,
 
+    /// <summary>
+    /// Quadratic convergence predicted that the last Newton step, taken but not evaluated, leaves an error below the
+    /// step tolerance (see <see cref="SolverOptions.PredictQuadraticConvergence"/>). The root is one step past the
+    /// last evaluated point, so the reported residual (at that point) overstates the root's own.
+    /// </summary>
+    ConvergedOnPredictedStep,
+
     /// <summary>The iteration cap was reached before either tolerance was met; the best iterate is returned.</summary>
     IterationCapReached,
 
@@ -27,6 +34,7 @@ public static class SolveStatusExtensions
     {
         SolveStatus.ConvergedOnStep => "converged: the last step was below the step tolerance",
         SolveStatus.ConvergedOnResidual => "converged: the residual was below the residual tolerance",
+        SolveStatus.ConvergedOnPredictedStep => "converged: quadratic convergence puts the error after the last Newton step below the step tolerance",
         SolveStatus.IterationCapReached => "stopped: the iteration cap was reached before convergence",
         SolveStatus.NoSignChange => "stopped: the function has the same sign at both ends of the bracket",
         SolveStatus.NonFiniteValue => "stopped: the function returned a non-finite value",
@@ -38,6 +46,7 @@ public static class SolveStatusExtensions
     {
         SolveStatus.ConvergedOnStep => "converged-on-step",
         SolveStatus.ConvergedOnResidual => "converged-on-residual",
+        SolveStatus.ConvergedOnPredictedStep => "converged-on-predicted-step",
         SolveStatus.IterationCapReached => "iteration-cap-reached",
         SolveStatus.NoSignChange => "no-sign-change",
         SolveStatus.NonFiniteValue => "non-finite-value",
@@ -46,5 +55,5 @@ public static class SolveStatusExtensions
 
     /// <summary>True for the two converged statuses.</summary>
     public static bool IsConverged(this SolveStatus status) =>
-        status is SolveStatus.ConvergedOnStep or SolveStatus.ConvergedOnResidual;
+        status is SolveStatus.ConvergedOnStep or SolveStatus.ConvergedOnResidual or SolveStatus.ConvergedOnPredictedStep;
 }

@@ -5,11 +5,20 @@ namespace FlowSolve.Core.Numerics;
 /// <param name="StepRelativeTolerance">Relative part of the step tolerance.</param>
 /// <param name="ResidualTolerance">A function value of at most this magnitude ends the solve as converged; 0 disables the test.</param>
 /// <param name="MaxIterations">The iteration cap; the solve never throws when it is reached.</param>
+/// <param name="PredictQuadraticConvergence">
+/// When true, a Newton step may end the solve before it is evaluated: if the last two steps were Newton steps, the
+/// latest is under a tenth of the one before (convergence is clearly superlinear), and the quadratic model
+/// e(k+1) = C e(k)^2, with C estimated from those two steps, puts the error after the step below the step tolerance.
+/// This saves the one evaluation that would only confirm convergence. Use it only for relations whose quadratic
+/// convergence is established (the relation's remarks must say why); the status is then
+/// <see cref="SolveStatus.ConvergedOnPredictedStep"/>.
+/// </param>
 public readonly record struct SolverOptions(
     double StepAbsoluteTolerance,
     double StepRelativeTolerance,
     double ResidualTolerance,
-    int MaxIterations)
+    int MaxIterations,
+    bool PredictQuadraticConvergence = false)
 {
     /// <summary>
     /// Defaults for a well-scaled problem: a relative step of 4 machine epsilons (about 9e-16) and 100 iterations,

@@ -54,6 +54,24 @@ public sealed class ColebrookWhiteTests
         Assert.InRange(worst, 1, 6);
     }
 
+    [Fact]
+    public void Solve_RandomInputsOverRange_ErrorBoundBelow1e14()
+    {
+        // 20 000 log-uniform random (Re, e/D) pairs, an eighth of them smooth: the same error bound as above.
+        var random = new Random(7);
+        for (int i = 0; i < 20_000; i++)
+        {
+            double re = 4e3 * Math.Pow(1e8 / 4e3, random.NextDouble());
+            double r = i % 8 == 0 ? 0.0 : 1e-6 * Math.Pow(0.05 / 1e-6, random.NextDouble());
+            var result = ColebrookWhite.Solve(re, r);
+            Assert.True(result.Converged);
+            Assert.InRange(result.Iterations, 1, 6);
+            double x = 1 / Math.Sqrt(result.FrictionFactor);
+            double bound = 2 * Math.Abs(ColebrookWhite.Residual(result.FrictionFactor, re, r)) / x + 4 * SolverOptions.MachineEpsilon;
+            Assert.True(bound <= 1e-14, $"Re {re}, e/D {r}: error bound {bound}");
+        }
+    }
+
     public static TheoryData<double, double> WhiteTable => new()
     {
         // F. M. White, Fluid Mechanics, chapter on dimensional analysis: Moody-type tabulation at e/D = 0.005

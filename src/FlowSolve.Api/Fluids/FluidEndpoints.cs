@@ -47,7 +47,9 @@ public static class FluidEndpoints
             .WithDescription("Density, dynamic and kinematic viscosity and vapour pressure of liquid water at 1 standard atmosphere " +
                 "(101325 Pa), 0 to 100 degrees C, from IAPWS-IF97 and the IAPWS 2008 viscosity release. At 1 atm water boils at " +
                 "99.974 degrees C: from there to 100 degrees C the properties are those of saturated liquid, with a warning.")
-            .WithQueryExample(("temperature", "20"));
+            .WithQueryExample(("temperature", "20"))
+            .AsCalculation("fluids/water", "kinematicViscosity");
+        routes.AddCalculation<WaterRequest, WaterResponse>("fluids/water", "kinematicViscosity", r => Calculate(r));
         return routes;
     }
 

@@ -20,14 +20,17 @@ public static class FrictionEndpoints
             .WithName("GetFrictionFactor")
             .WithSummary("Darcy friction factor (query parameters)")
             .WithDescription(Description)
-            .WithQueryExample(("reynolds", "75000"), ("relativeRoughness", "0.005"));
+            .WithQueryExample(("reynolds", "75000"), ("relativeRoughness", "0.005"))
+            .AsCalculation("friction-factor", "frictionFactor");
 
         group.MapPost("/", (FrictionFactorRequest request) => Calculate(request))
             .WithName("PostFrictionFactor")
             .WithSummary("Darcy friction factor (JSON body)")
             .WithDescription(Description)
-            .WithBodyExample(new FrictionFactorRequest(Reynolds: 250000, Roughness: 0.00026, Diameter: 0.3, Method: "haaland"));
+            .WithBodyExample(new FrictionFactorRequest(Reynolds: 250000, Roughness: 0.00026, Diameter: 0.3, Method: "haaland"))
+            .AsCalculation("friction-factor", "frictionFactor");
 
+        routes.AddCalculation<FrictionFactorRequest, FrictionFactorResponse>("friction-factor", "frictionFactor", r => Calculate(r));
         return routes;
     }
 

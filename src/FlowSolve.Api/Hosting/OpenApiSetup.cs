@@ -83,7 +83,33 @@ public static class OpenApiSetup
                 var description = context.ApiDescription.ParameterDescriptions
                     .FirstOrDefault(d => string.Equals(d.Name, p.Name, StringComparison.OrdinalIgnoreCase))?
                     .PropertyInfo()?.GetCustomAttribute<DescriptionAttribute>()?.Description;
+                description ??= (context.ApiDescription.ParameterDescriptions
+                    .FirstOrDefault(d => string.Equals(d.Name, p.Name, StringComparison.OrdinalIgnoreCase))?.ParameterDescriptor
+                    as Microsoft.AspNetCore.Mvc.Infrastructure.IParameterInfoParameterDescriptor)?.ParameterInfo.GetCustomAttribute<DescriptionAttribute>()?.Description;
                 if (description is not null) p.Description = description;
+            }
+
+            if (context.ApiDescription.ActionDescriptor.EndpointMetadata.OfType<CalculationMetadata>().FirstOrDefault() is { } calc)
+            {
+                operation.Parameters ??= [];
+                operation.Parameters.Add(new OpenApiParameter
+                {
+                    Name = "format", In = ParameterLocation.Query,
+                    Description = "json (default) or text: text returns only the primary output (" + calc.PrimaryOutput +
+                        ") as plain text, invariant culture, full precision, for a spreadsheet cell; an error is one line 'error: ...' with the same status.",
+                    Schema = new OpenApiSchema { Type = JsonSchemaType.String },
+                });
+                operation.Parameters.Add(new OpenApiParameter
+                {
+                    Name = "select", In = ParameterLocation.Query,
+                    Description = "With format=text: the output field to return instead of " + calc.PrimaryOutput + " (dotted for nested fields).",
+                    Schema = new OpenApiSchema { Type = JsonSchemaType.String },
+                });
+                if (operation.Responses?.TryGetValue("200", out var ok) == true && ok is OpenApiResponse okResponse)
+                {
+                    okResponse.Content ??= new Dictionary<string, IOpenApiMediaType>();
+                    okResponse.Content["text/plain"] = new OpenApiMediaType { Schema = new OpenApiSchema { Type = JsonSchemaType.String } };
+                }
             }
 
             var example = context.ApiDescription.ActionDescriptor.EndpointMetadata.OfType<RequestExample>().FirstOrDefault();

@@ -28,12 +28,18 @@ public static class ServiceSetup
         services.Configure<JsonOptions>(o => JsonSetup.Configure(o.SerializerOptions));
         services.AddHealthChecks().AddCheck("self", () => HealthCheckResult.Healthy("calculations available"), tags: ["ready"]);
         services.AddFlowSolveOpenApi();
+        services.AddSingleton<CalculationCatalog>();
+        services.AddOptions<Batch.BatchOptions>().BindConfiguration("FlowSolve:Limits");
         return services;
     }
 
     public static WebApplication UseFlowSolvePipeline(this WebApplication app)
     {
-        app.UseExceptionHandler();
+        app.UseExceptionHandler(new ExceptionHandlerOptions
+        {
+            // Bad input is the caller's, not ours: answered as a 400 without an error-level log entry and stack trace.
+            SuppressDiagnosticsCallback = c => c.Exception is BadHttpRequestException,
+        });
         app.UseStatusCodePages();
         app.UseFlowSolveRequestLogging();
         app.UseFlowSolveOpenApi();

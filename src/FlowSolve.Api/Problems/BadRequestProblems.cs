@@ -30,6 +30,14 @@ public sealed partial class BadRequestProblems(IProblemDetailsService problems, 
         if (exception is BadHttpRequestException bad)
         {
             var (field, message) = Describe(bad);
+            if (string.Equals(context.Request.Query["format"], "text", StringComparison.OrdinalIgnoreCase))
+            {
+                // A spreadsheet cell shows the body as it is: one short line, the right status.
+                context.Response.StatusCode = bad.StatusCode;
+                context.Response.ContentType = "text/plain; charset=utf-8";
+                await context.Response.WriteAsync($"error: {field}: {message}", cancellationToken);
+                return true;
+            }
             var errors = new Dictionary<string, string[]> { [field] = [message] };
             context.Response.StatusCode = bad.StatusCode;
             var details = new HttpValidationProblemDetails(errors)
@@ -74,36 +82,37 @@ public sealed partial class BadRequestProblems(IProblemDetailsService problems, 
 
         for (Exception? e = bad.InnerException; e is not null; e = e.InnerException)
         {
-            if (e is JsonException json)
-            {
-                string path = json.Path ?? "$";
-                string field = JsonPathToField(path);
-                if (json.Message.Contains("could not be mapped", StringComparison.Ordinal))
-                {
-                    // UnmappedMemberHandling.Disallow: a misspelt or unknown field. The path points at the object
-                    // holding it; the name itself is quoted in the message.
-                    // The path already ends at the unknown member's name.
-                    return (field.Length == 0 ? "body" : field, "is not a field of this request (check the spelling against the documentation)");
-                }
-                if (json.InnerException is not null && json.InnerException.GetType().Name == "JsonReaderException")
-                {
-                    // A syntax error. Name the field whose value broke the JSON when there is one (NaN or Infinity
-                    // typed as a bare word lands here), else the body as a whole.
-                    string where = $"line {json.LineNumber + 1}, byte {json.BytePositionInLine + 1}";
-                    return field.Length == 0
-                        ? ("body", $"is not well-formed JSON ({where})")
-                        : (field, $"is not well-formed JSON at or after this field ({where}); numbers must be finite JSON numbers, so NaN and Infinity are not allowed");
-                }
-                return field.Length == 0
-                    ? ("body", "the body is not valid JSON for this request (it must be a JSON object with the documented fields)")
-                    : (field, "has a value of the wrong type, or the JSON around it is malformed");
-            }
+            if (e is JsonException json) return DescribeJson(json);
         }
 
         if (bad.StatusCode == StatusCodes.Status413PayloadTooLarge) return ("body", "the request body exceeds the configured size limit");
         if (bad.Message.Contains("body", StringComparison.OrdinalIgnoreCase))
             return ("body", "a JSON body is required (Content-Type: application/json)");
         return ("request", "the request could not be read");
+    }
+
+    /// <summary>The field and message for a JSON binding failure; shared with the batch endpoint so a row's error reads
+    /// exactly like the single call's.</summary>
+    public static (string Field, string Message) DescribeJson(JsonException json)
+    {
+        string field = JsonPathToField(json.Path ?? "$");
+        if (json.Message.Contains("could not be mapped", StringComparison.Ordinal))
+        {
+            // UnmappedMemberHandling.Disallow: a misspelt or unknown field; the path ends at its name.
+            return (field.Length == 0 ? "body" : field, "is not a field of this request (check the spelling against the documentation)");
+        }
+        if (json.InnerException is not null && json.InnerException.GetType().Name == "JsonReaderException")
+        {
+            // A syntax error. Name the field whose value broke the JSON when there is one (NaN or Infinity
+            // typed as a bare word lands here), else the body as a whole.
+            string where = $"line {json.LineNumber + 1}, byte {json.BytePositionInLine + 1}";
+            return field.Length == 0
+                ? ("body", $"is not well-formed JSON ({where})")
+                : (field, $"is not well-formed JSON at or after this field ({where}); numbers must be finite JSON numbers, so NaN and Infinity are not allowed");
+        }
+        return field.Length == 0
+            ? ("body", "the body is not valid JSON for this request (it must be a JSON object with the documented fields)")
+            : (field, "has a value of the wrong type, or the JSON around it is malformed");
     }
 
     /// <summary>"$.section.points[2].station" to "section.points[2].station"; "$" to "".</summary>

@@ -1,0 +1,213 @@
+using System.Text;
+using System.Text.Json;
+using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Problems;
+using Microsoft.AspNetCore.Mvc;
+
+namespace FlowSolve.Api.Batch;
+
+/// <summary>Settings for batches (section <c>FlowSolve:Limits</c>).</summary>
+public sealed class BatchOptions
+{
+    /// <summary>Most rows one batch may hold; more answers 413. Default 100 000.</summary>
+    public int BatchRows { get; set; } = 100_000;
+}
+
+/// <summary><c>POST /v1/batch/{calculation}</c>: many cases of one calculation in one request, as a JSON array or CSV.</summary>
+public static class BatchEndpoints
+{
+    public static IEndpointRouteBuilder MapBatchEndpoints(this IEndpointRouteBuilder routes)
+    {
+        routes.MapPost("/v1/batch/{**calculation}", Run)
+            .WithTags("Batch")
+            .WithName("PostBatch")
+            .WithSummary("Run many cases of one calculation (JSON array or CSV)")
+            .WithDescription(
+                "calculation is the calculation's route below /v1, for example friction-factor or pipes/head-loss. The body is " +
+                "either a JSON array of request objects (Content-Type: application/json) or CSV (Content-Type: text/csv) with a " +
+                "header row of request field names (dotted names such as section.shape nest) and one case per row. The answer " +
+                "comes in the same format, one row per case in the same order: every output field, or that row's error. One bad " +
+                "row never fails the others. JSON rows are {row, status, result} or {row, status, error, problem}; CSV rows start " +
+                "with row, httpStatus and error columns, then every scalar output field (nested objects flattened with dots; " +
+                "warnings as their codes separated by spaces; lists such as validity are left out of CSV: use JSON for them). " +
+                "Above the configured row limit (default 100 000) the answer is 413.")
+            .Accepts<JsonElement[]>("application/json", "text/csv")
+            .Produces(200, contentType: "application/json")
+            .Produces(200, contentType: "text/csv")
+            .ProducesProblem(400)
+            .ProducesProblem(404)
+            .ProducesProblem(413)
+            .ProducesProblem(415)
+            .WithMetadata(new RequestExample([], JsonSerializer.SerializeToNode(new object[]
+            {
+                new { reynolds = 75000, relativeRoughness = 0.005 },
+                new { reynolds = 250000, roughness = 0.00026, diameter = 0.3 },
+            }, JsonSetup.Options)));
+        return routes;
+    }
+
+    private static async Task<IResult> Run(
+        [System.ComponentModel.Description("The calculation's route below /v1: friction-factor, fluids/water, pipes/head-loss, pipes/flow, pipes/diameter, channels/normal-depth, channels/critical-depth, pumps/duty-point.")] string calculation, HttpContext http, CalculationCatalog catalog,
+        Microsoft.Extensions.Options.IOptions<BatchOptions> options, ILoggerFactory loggers)
+    {
+        var logger = loggers.CreateLogger("FlowSolve.Batch");
+        if (!catalog.TryGet(calculation, out var descriptor))
+        {
+            return TypedResults.Problem(statusCode: 404, title: "No such calculation.",
+                detail: $"'{calculation}' is not a calculation. Available: {string.Join(", ", catalog.All.Select(c => c.Name).Order())}.");
+        }
+        string mediaType = http.Request.ContentType?.Split(';')[0].Trim().ToLowerInvariant() ?? "";
+        int limit = options.Value.BatchRows;
+        var ct = http.RequestAborted;
+        return mediaType switch
+        {
+            "application/json" => await RunJson(descriptor, http, limit, logger, ct),
+            "text/csv" => await RunCsv(descriptor, http, limit, logger, ct),
+            _ => TypedResults.Problem(statusCode: 415, title: "Unsupported media type.",
+                detail: "Send a JSON array (Content-Type: application/json) or CSV with a header row (Content-Type: text/csv)."),
+        };
+    }
+
+    private static IResult TooMany(int limit) =>
+        TypedResults.Problem(statusCode: 413, title: "Too many rows.",
+            detail: $"The batch holds more than {limit} rows, the configured limit (FlowSolve:Limits:BatchRows). Split it.",
+            extensions: new Dictionary<string, object?> { ["limit"] = "batchRows", ["maximumRows"] = limit });
+
+    private static async Task<IResult> RunJson(CalculationDescriptor descriptor, HttpContext http, int limit, ILogger logger, CancellationToken ct)
+    {
+        // Rows are read one element at a time; at most `limit` of them are held before the answer starts.
+        var rows = new List<JsonElement>();
+        try
+        {
+            await foreach (var element in JsonSerializer.DeserializeAsyncEnumerable<JsonElement>(http.Request.Body, JsonSetup.Options, ct))
+            {
+                if (rows.Count == limit) return TooMany(limit);
+                rows.Add(element);
+            }
+        }
+        catch (JsonException e)
+        {
+            return ProblemResults.BadInput("body", $"must be a JSON array of request objects ({e.Message.Split('.')[0]})");
+        }
+
+        http.Response.ContentType = "application/json; charset=utf-8";
+        // The pipe writer takes the serializer's synchronous flushes as buffer commits; FlushAsync sends them.
+        var pipe = http.Response.BodyWriter;
+        await using var writer = new Utf8JsonWriter(pipe);
+        writer.WriteStartArray();
+        long flushed = 0;
+        for (int i = 0; i < rows.Count; i++)
+        {
+            ct.ThrowIfCancellationRequested();
+            var (status, value) = RunRow(descriptor, rows[i], logger);
+            writer.WriteStartObject();
+            writer.WriteNumber("row", i + 1);
+            writer.WriteNumber("status", status);
+            if (status is >= 200 and < 300)
+            {
+                writer.WritePropertyName("result");
+                JsonSerializer.Serialize(writer, value, value!.GetType(), JsonSetup.Options);
+            }
+            else
+            {
+                writer.WriteString("error", TextFormatFilter.ErrorLine(value)["error: ".Length..]);
+                writer.WritePropertyName("problem");
+                JsonSerializer.Serialize(writer, value, value?.GetType() ?? typeof(object), JsonSetup.Options);
+            }
+            writer.WriteEndObject();
+            if (writer.BytesCommitted + writer.BytesPending > flushed + 32_768)
+            {
+                writer.Flush();
+                await pipe.FlushAsync(ct);
+                flushed = writer.BytesCommitted;
+            }
+        }
+        writer.WriteEndArray();
+        writer.Flush();
+        await pipe.FlushAsync(ct);
+        return Results.Empty;
+    }
+
+    private static async Task<IResult> RunCsv(CalculationDescriptor descriptor, HttpContext http, int limit, ILogger logger, CancellationToken ct)
+    {
+        using var reader = new StreamReader(http.Request.Body, Encoding.UTF8);
+        var header = await Csv.ReadRecordAsync(reader, ct);
+        if (header is null || header.All(h => h.Trim().Length == 0))
+            return ProblemResults.BadInput("body", "CSV needs a header row of request field names");
+        for (int i = 0; i < header.Count; i++) header[i] = header[i].Trim().TrimStart('\uFEFF');
+
+        var rows = new List<List<string>>();
+        while (await Csv.ReadRecordAsync(reader, ct) is { } record)
+        {
+            if (record.All(f => f.Trim().Length == 0)) continue; // blank line
+            if (rows.Count == limit) return TooMany(limit);
+            rows.Add(record);
+        }
+
+        http.Response.ContentType = "text/csv; charset=utf-8";
+        await using var writer = new StreamWriter(http.Response.Body, new UTF8Encoding(false), 65_536);
+        var columns = descriptor.Columns;
+        await writer.WriteAsync("row,httpStatus,error");
+        foreach (var c in columns) { await writer.WriteAsync(','); await writer.WriteAsync(c); }
+        await writer.WriteAsync("\r\n");
+        var line = new StringBuilder();
+        for (int i = 0; i < rows.Count; i++)
+        {
+            ct.ThrowIfCancellationRequested();
+            var request = Csv.ToJson(header, rows[i]);
+            var (status, value) = RunRow(descriptor, JsonSerializer.SerializeToElement(request, JsonSetup.Options), logger);
+            line.Clear().Append(i + 1).Append(',').Append(status).Append(',');
+            if (status is >= 200 and < 300)
+            {
+                var json = JsonSerializer.SerializeToElement(value, value!.GetType(), JsonSetup.Options);
+                foreach (var c in columns) line.Append(',').Append(Csv.Escape(Cell(json, c)));
+            }
+            else
+            {
+                line.Append(Csv.Escape(TextFormatFilter.ErrorLine(value)["error: ".Length..]));
+                for (int c = 0; c < columns.Count; c++) line.Append(',');
+            }
+            line.Append("\r\n");
+            await writer.WriteAsync(line, ct);
+        }
+        await writer.FlushAsync(ct);
+        return Results.Empty;
+    }
+
+    private static string Cell(JsonElement json, string column)
+    {
+        if (column == "warnings" && json.TryGetProperty("warnings", out var w) && w.ValueKind == JsonValueKind.Array)
+            return string.Join(' ', w.EnumerateArray().Select(x => x.GetProperty("code").GetString()));
+        return TextFormatFilter.TryRead(json, column, out var text) ? text : "";
+    }
+
+    /// <summary>Runs one case; a row's failure is that row's answer, never the batch's.</summary>
+    private static (int Status, object? Value) RunRow(CalculationDescriptor descriptor, JsonElement json, ILogger logger)
+    {
+        object? request;
+        try
+        {
+            if (json.ValueKind != JsonValueKind.Object) return (400, Problem("row", "must be a JSON object of request fields"));
+            request = descriptor.Bind(json);
+            if (request is null) return (400, Problem("row", "must be a JSON object of request fields"));
+        }
+        catch (JsonException e)
+        {
+            var (field, message) = BadRequestProblems.DescribeJson(e);
+            return (400, Problem(field == "body" ? "row" : field, message));
+        }
+        try
+        {
+            return descriptor.Invoke(request).Unwrap();
+        }
+        catch (Exception e)
+        {
+            logger.LogError(e, "Batch row failed in {Calculation}", descriptor.Name);
+            // A defect, not the row's fault: report it on the row and carry on with the others.
+            return (500, new ProblemDetails { Status = 500, Title = "An internal error occurred.", Detail = "this row could not be calculated (a defect in FlowSolve; it has been logged)" });
+        }
+    }
+
+    private static HttpValidationProblemDetails Problem(string field, string message) =>
+        new(new Dictionary<string, string[]> { [field] = [message] }) { Status = 400, Title = "One or more fields are invalid." };
+}

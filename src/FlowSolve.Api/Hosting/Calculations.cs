@@ -1,0 +1,84 @@
+using System.Text.Json;
+using Microsoft.AspNetCore.Http.HttpResults;
+
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>Endpoint metadata naming a calculation and its primary output (what <c>format=text</c> returns).</summary>
+/// <param name="Name">The calculation's route below /v1, for example <c>pipes/head-loss</c>.</param>
+/// <param name="PrimaryOutput">The response field returned by <c>format=text</c> when no <c>select</c> is given.</param>
+public sealed record CalculationMetadata(string Name, string PrimaryOutput);
+
+/// <summary>One calculation as the batch and text machinery see it: a request type, a response type, and a handler.</summary>
+public sealed class CalculationDescriptor(string name, string primaryOutput, Type requestType, Type responseType, Func<object, IResult> invoke)
+{
+    public string Name { get; } = name;
+    public string PrimaryOutput { get; } = primaryOutput;
+    public Type RequestType { get; } = requestType;
+    public Type ResponseType { get; } = responseType;
+
+    /// <summary>Runs the calculation on a request already bound from JSON.</summary>
+    public IResult Invoke(object request) => invoke(request);
+
+    /// <summary>Binds a JSON object to the request type with the API's JSON rules (unknown fields rejected).</summary>
+    public object? Bind(JsonElement json) => json.Deserialize(RequestType, JsonSetup.Options);
+
+    /// <summary>The CSV columns of a response: scalar fields, nested records flattened with dots, warnings as codes.</summary>
+    public IReadOnlyList<string> Columns { get; } = ResponseColumns.For(responseType);
+}
+
+/// <summary>Every calculation the service offers, registered by each area when it maps its endpoints.</summary>
+public sealed class CalculationCatalog
+{
+    private readonly Dictionary<string, CalculationDescriptor> _byName = new(StringComparer.OrdinalIgnoreCase);
+
+    public IEnumerable<CalculationDescriptor> All => _byName.Values;
+
+    public bool TryGet(string name, out CalculationDescriptor descriptor) => _byName.TryGetValue(name.Trim('/'), out descriptor!);
+
+    public void Add<TRequest, TResponse>(string name, string primaryOutput, Func<TRequest, IResult> calculate) where TRequest : class =>
+        _byName[name] = new CalculationDescriptor(name, primaryOutput, typeof(TRequest), typeof(TResponse), r => calculate((TRequest)r));
+}
+
+public static class CalculationExtensions
+{
+    /// <summary>Marks an endpoint as a calculation: it answers <c>format=text</c> with <paramref name="primaryOutput"/> (or <c>select</c>).</summary>
+    public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput) =>
+        builder.WithMetadata(new CalculationMetadata(name, primaryOutput)).AddEndpointFilter<TextFormatFilter>();
+
+    /// <summary>Registers a calculation for <c>POST /v1/batch/{name}</c>.</summary>
+    public static void AddCalculation<TRequest, TResponse>(this IEndpointRouteBuilder routes, string name, string primaryOutput,
+        Func<TRequest, IResult> calculate) where TRequest : class =>
+        routes.ServiceProvider.GetRequiredService<CalculationCatalog>().Add<TRequest, TResponse>(name, primaryOutput, calculate);
+
+    /// <summary>The status and value inside a typed result (unwrapping <c>Results&lt;...&gt;</c>).</summary>
+    public static (int Status, object? Value) Unwrap(this IResult result)
+    {
+        while (result is INestedHttpResult nested) result = nested.Result;
+        int status = result is IStatusCodeHttpResult s ? s.StatusCode ?? 200 : 200;
+        object? value = result is IValueHttpResult v ? v.Value : null;
+        return (status, value);
+    }
+}
+
+/// <summary>Works out the flat column list of a response type.</summary>
+internal static class ResponseColumns
+{
+    public static IReadOnlyList<string> For(Type type)
+    {
+        var columns = new List<string>();
+        Walk(type, "", columns, 0);
+        return columns;
+    }
+
+    private static void Walk(Type type, string prefix, List<string> columns, int depth)
+    {
+        foreach (var p in type.GetProperties())
+        {
+            string name = prefix + JsonNamingPolicy.CamelCase.ConvertName(p.Name);
+            var t = Nullable.GetUnderlyingType(p.PropertyType) ?? p.PropertyType;
+            if (t.IsPrimitive || t == typeof(string) || t == typeof(decimal)) columns.Add(name);
+            else if (name == "warnings") columns.Add(name);
+            else if (!typeof(System.Collections.IEnumerable).IsAssignableFrom(t) && t.IsClass && depth < 3) Walk(t, name + ".", columns, depth + 1);
+        }
+    }
+}

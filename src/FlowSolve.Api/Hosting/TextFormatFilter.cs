@@ -1,0 +1,79 @@
+using System.Globalization;
+using System.Text;
+using System.Text.Json;
+using Microsoft.AspNetCore.Http.HttpResults;
+using Microsoft.AspNetCore.Mvc;
+
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>
+/// <c>format=text</c> for spreadsheet cells: the calculation's primary output (or the field named by <c>select</c>)
+/// as plain text in invariant culture with round-trip precision; an error as one short readable line with the
+/// same HTTP status.
+/// </summary>
+public sealed class TextFormatFilter : IEndpointFilter
+{
+    public async ValueTask<object?> InvokeAsync(EndpointFilterInvocationContext context, EndpointFilterDelegate next)
+    {
+        var http = context.HttpContext;
+        string? format = http.Request.Query["format"];
+        if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase)) return await next(context);
+        if (!format.Equals("text", StringComparison.OrdinalIgnoreCase))
+        {
+            return TypedResults.ValidationProblem(new Dictionary<string, string[]> { ["format"] = ["must be json or text"] },
+                title: "One or more fields are invalid.", type: "https://flowsolve.example/problems/invalid-input");
+        }
+
+        var metadata = http.GetEndpoint()?.Metadata.GetMetadata<CalculationMetadata>();
+        object? result = await next(context);
+        if (result is not IResult typed || metadata is null) return result;
+        var (status, value) = typed.Unwrap();
+        string field = http.Request.Query["select"].FirstOrDefault() ?? metadata.PrimaryOutput;
+
+        if (status is >= 200 and < 300 && value is not null)
+        {
+            var json = JsonSerializer.SerializeToElement(value, value.GetType(), JsonSetup.Options);
+            if (TryRead(json, field, out string? text)) return TypedResults.Text(text, "text/plain", Encoding.UTF8, status);
+            var names = string.Join(", ", TextFields(json));
+            return TypedResults.Text($"error: select: no output field named '{field}' (fields: {names})", "text/plain", Encoding.UTF8, 400);
+        }
+        return TypedResults.Text(ErrorLine(value), "text/plain", Encoding.UTF8, status);
+    }
+
+    /// <summary>One line for a problem: "error: field: message; field: message" or "error: title: detail".</summary>
+    public static string ErrorLine(object? problem)
+    {
+        if (problem is HttpValidationProblemDetails v && v.Errors.Count > 0)
+            return "error: " + string.Join("; ", v.Errors.Select(e => e.Key + ": " + string.Join(", ", e.Value)));
+        if (problem is ProblemDetails p) return "error: " + (p.Detail ?? p.Title ?? "the request failed");
+        return "error: the request failed";
+    }
+
+    /// <summary>Reads a (dotted) field as cell text: numbers round-trip in invariant culture, strings as they are.</summary>
+    public static bool TryRead(JsonElement json, string path, out string text)
+    {
+        var e = json;
+        foreach (var part in path.Split('.'))
+        {
+            if (e.ValueKind != JsonValueKind.Object || !e.TryGetProperty(part, out e))
+            {
+                text = "";
+                return false;
+            }
+        }
+        text = e.ValueKind switch
+        {
+            // The JSON writer already produced the shortest round-trip form in invariant culture; keep it digit for digit.
+            JsonValueKind.Number => e.GetRawText(),
+            JsonValueKind.String => e.GetString() ?? "",
+            JsonValueKind.True => "TRUE",
+            JsonValueKind.False => "FALSE",
+            JsonValueKind.Null => "",
+            _ => e.GetRawText(),
+        };
+        return e.ValueKind is not (JsonValueKind.Array or JsonValueKind.Object);
+    }
+
+    private static IEnumerable<string> TextFields(JsonElement json) =>
+        json.EnumerateObject().Where(p => p.Value.ValueKind is not (JsonValueKind.Array or JsonValueKind.Object)).Select(p => p.Name);
+}

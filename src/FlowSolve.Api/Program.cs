@@ -4,13 +4,18 @@ using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
 using Serilog;
 
-// Two-stage Serilog start: a bootstrap logger until the host is built, so start-up failures are logged too.
-Log.Logger = new LoggerConfiguration().WriteTo.Console().CreateBootstrapLogger();
+// Two-stage Serilog start: a console logger until the configuration is read, so start-up failures are logged too.
+Log.Logger = new LoggerConfiguration().WriteTo.Console().CreateLogger();
 try
 {
     var builder = WebApplication.CreateBuilder(args);
-    builder.Services.AddSerilog((services, logger) => Logging.Configure(builder.Configuration, logger));
-    builder.Services.AddFlowSolveServices();
+    // The configured logger replaces the bootstrap one; built here rather than through the reloadable bootstrap logger,
+    // which can be frozen only once per process (several hosts run in one test process).
+    var logger = new LoggerConfiguration();
+    Logging.Configure(builder.Configuration, logger);
+    Log.Logger = logger.CreateLogger();
+    builder.Services.AddSerilog();
+    builder.Services.AddFlowSolveServices(builder.Configuration);
 
     var app = builder.Build();
     app.UseFlowSolvePipeline();

@@ -1,17 +1,11 @@
 using System.Text;
 using System.Text.Json;
 using FlowSolve.Api.Hosting;
+using Microsoft.AspNetCore.Http.Timeouts;
 using FlowSolve.Api.Problems;
 using Microsoft.AspNetCore.Mvc;
 
 namespace FlowSolve.Api.Batch;
-
-/// <summary>Settings for batches (section <c>FlowSolve:Limits</c>).</summary>
-public sealed class BatchOptions
-{
-    /// <summary>Most rows one batch may hold; more answers 413. Default 100 000.</summary>
-    public int BatchRows { get; set; } = 100_000;
-}
 
 /// <summary><c>POST /v1/batch/{calculation}</c>: many cases of one calculation in one request, as a JSON array or CSV.</summary>
 public static class BatchEndpoints
@@ -38,6 +32,7 @@ public static class BatchEndpoints
             .ProducesProblem(404)
             .ProducesProblem(413)
             .ProducesProblem(415)
+            .DisableRequestTimeout()
             .WithMetadata(new RequestExample([], JsonSerializer.SerializeToNode(new object[]
             {
                 new { reynolds = 75000, relativeRoughness = 0.005 },
@@ -48,7 +43,7 @@ public static class BatchEndpoints
 
     private static async Task<IResult> Run(
         [System.ComponentModel.Description("The calculation's route below /v1: friction-factor, fluids/water, pipes/head-loss, pipes/flow, pipes/diameter, channels/normal-depth, channels/critical-depth, pumps/duty-point.")] string calculation, HttpContext http, CalculationCatalog catalog,
-        Microsoft.Extensions.Options.IOptions<BatchOptions> options, ILoggerFactory loggers)
+        Microsoft.Extensions.Options.IOptions<FlowSolveOptions> options, ILoggerFactory loggers)
     {
         var logger = loggers.CreateLogger("FlowSolve.Batch");
         if (!catalog.TryGet(calculation, out var descriptor))
@@ -57,23 +52,40 @@ public static class BatchEndpoints
                 detail: $"'{calculation}' is not a calculation. Available: {string.Join(", ", catalog.All.Select(c => c.Name).Order())}.");
         }
         string mediaType = http.Request.ContentType?.Split(';')[0].Trim().ToLowerInvariant() ?? "";
-        int limit = options.Value.BatchRows;
-        var ct = http.RequestAborted;
+        int limit = options.Value.Limits.BatchRows;
+        // The batch keeps its own time budget (the general request timeout is off for this route) so that, once rows
+        // are streaming, it can end the answer with a row that says where and why it stopped instead of a torn body.
+        using var budget = CancellationTokenSource.CreateLinkedTokenSource(http.RequestAborted);
+        budget.CancelAfter(TimeSpan.FromSeconds(options.Value.Limits.RequestTimeoutSeconds));
+        var ct = budget.Token;
+        try
+        {
         return mediaType switch
         {
-            "application/json" => await RunJson(descriptor, http, limit, logger, ct),
-            "text/csv" => await RunCsv(descriptor, http, limit, logger, ct),
+            "application/json" => await RunJson(descriptor, http, limit, options.Value.Limits.RequestTimeoutSeconds, logger, ct),
+            "text/csv" => await RunCsv(descriptor, http, limit, options.Value.Limits.RequestTimeoutSeconds, logger, ct),
             _ => TypedResults.Problem(statusCode: 415, title: "Unsupported media type.",
                 detail: "Send a JSON array (Content-Type: application/json) or CSV with a header row (Content-Type: text/csv)."),
         };
+        }
+        catch (OperationCanceledException) when (!http.RequestAborted.IsCancellationRequested && !http.Response.HasStarted)
+        {
+            return TypedResults.Problem(statusCode: 503, title: "The batch ran past its time budget.",
+                detail: TimeBudgetMessage(options.Value.Limits.RequestTimeoutSeconds, 0),
+                extensions: new Dictionary<string, object?> { ["limit"] = "requestTimeoutSeconds" });
+        }
     }
+
+    private static string TimeBudgetMessage(double seconds, int row) =>
+        $"time budget of {seconds} s (FlowSolve:Limits:RequestTimeoutSeconds) exceeded" +
+        (row > 0 ? $"; rows from {row} on were not calculated: split the batch" : "; split the batch");
 
     private static IResult TooMany(int limit) =>
         TypedResults.Problem(statusCode: 413, title: "Too many rows.",
             detail: $"The batch holds more than {limit} rows, the configured limit (FlowSolve:Limits:BatchRows). Split it.",
             extensions: new Dictionary<string, object?> { ["limit"] = "batchRows", ["maximumRows"] = limit });
 
-    private static async Task<IResult> RunJson(CalculationDescriptor descriptor, HttpContext http, int limit, ILogger logger, CancellationToken ct)
+    private static async Task<IResult> RunJson(CalculationDescriptor descriptor, HttpContext http, int limit, double timeBudget, ILogger logger, CancellationToken ct)
     {
         // Rows are read one element at a time; at most `limit` of them are held before the answer starts.
         var rows = new List<JsonElement>();
@@ -98,8 +110,19 @@ public static class BatchEndpoints
         long flushed = 0;
         for (int i = 0; i < rows.Count; i++)
         {
-            ct.ThrowIfCancellationRequested();
+            if (ct.IsCancellationRequested)
+            {
+                if (http.RequestAborted.IsCancellationRequested) return Results.Empty;
+                writer.WriteStartObject();
+                writer.WriteNumber("row", i + 1);
+                writer.WriteNumber("status", 503);
+                writer.WriteString("error", TimeBudgetMessage(timeBudget, i + 1));
+                writer.WriteEndObject();
+                SolverMetrics.BatchRows.WithLabels(descriptor.Name, "cut-off").Inc(rows.Count - i);
+                break;
+            }
             var (status, value) = RunRow(descriptor, rows[i], logger);
+            SolverMetrics.BatchRows.WithLabels(descriptor.Name, status < 300 ? "ok" : "error").Inc();
             writer.WriteStartObject();
             writer.WriteNumber("row", i + 1);
             writer.WriteNumber("status", status);
@@ -118,17 +141,17 @@ public static class BatchEndpoints
             if (writer.BytesCommitted + writer.BytesPending > flushed + 32_768)
             {
                 writer.Flush();
-                await pipe.FlushAsync(ct);
+                await pipe.FlushAsync(http.RequestAborted);
                 flushed = writer.BytesCommitted;
             }
         }
         writer.WriteEndArray();
         writer.Flush();
-        await pipe.FlushAsync(ct);
+        await pipe.FlushAsync(http.RequestAborted);
         return Results.Empty;
     }
 
-    private static async Task<IResult> RunCsv(CalculationDescriptor descriptor, HttpContext http, int limit, ILogger logger, CancellationToken ct)
+    private static async Task<IResult> RunCsv(CalculationDescriptor descriptor, HttpContext http, int limit, double timeBudget, ILogger logger, CancellationToken ct)
     {
         using var reader = new StreamReader(http.Request.Body, Encoding.UTF8);
         var header = await Csv.ReadRecordAsync(reader, ct);
@@ -153,9 +176,16 @@ public static class BatchEndpoints
         var line = new StringBuilder();
         for (int i = 0; i < rows.Count; i++)
         {
-            ct.ThrowIfCancellationRequested();
+            if (ct.IsCancellationRequested)
+            {
+                if (http.RequestAborted.IsCancellationRequested) return Results.Empty;
+                await writer.WriteAsync($"{i + 1},503,{Csv.Escape(TimeBudgetMessage(timeBudget, i + 1))}{new string(',', columns.Count)}\r\n");
+                SolverMetrics.BatchRows.WithLabels(descriptor.Name, "cut-off").Inc(rows.Count - i);
+                break;
+            }
             var request = Csv.ToJson(header, rows[i]);
             var (status, value) = RunRow(descriptor, JsonSerializer.SerializeToElement(request, JsonSetup.Options), logger);
+            SolverMetrics.BatchRows.WithLabels(descriptor.Name, status < 300 ? "ok" : "error").Inc();
             line.Clear().Append(i + 1).Append(',').Append(status).Append(',');
             if (status is >= 200 and < 300)
             {
@@ -168,9 +198,9 @@ public static class BatchEndpoints
                 for (int c = 0; c < columns.Count; c++) line.Append(',');
             }
             line.Append("\r\n");
-            await writer.WriteAsync(line, ct);
+            await writer.WriteAsync(line, http.RequestAborted);
         }
-        await writer.FlushAsync(ct);
+        await writer.FlushAsync(http.RequestAborted);
         return Results.Empty;
     }
 

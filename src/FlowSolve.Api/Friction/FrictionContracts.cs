@@ -53,4 +53,4 @@ public sealed record FrictionFactorResponse(
     double Reynolds, double RelativeRoughness,
     int Iterations, bool Converged, double Residual, string Status, string SolveVariable,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<ApproximationDto> Approximations, IReadOnlyList<TraceStepDto>? Trace);
+    IReadOnlyList<ApproximationDto> Approximations, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary;

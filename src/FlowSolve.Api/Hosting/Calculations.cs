@@ -43,7 +43,7 @@ public static class CalculationExtensions
 {
     /// <summary>Marks an endpoint as a calculation: it answers <c>format=text</c> with <paramref name="primaryOutput"/> (or <c>select</c>).</summary>
     public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput) =>
-        builder.WithMetadata(new CalculationMetadata(name, primaryOutput)).AddEndpointFilter<TextFormatFilter>();
+        builder.WithMetadata(new CalculationMetadata(name, primaryOutput)).AddEndpointFilter<SolverMetricsFilter>().AddEndpointFilter<TextFormatFilter>();
 
     /// <summary>Registers a calculation for <c>POST /v1/batch/{name}</c>.</summary>
     public static void AddCalculation<TRequest, TResponse>(this IEndpointRouteBuilder routes, string name, string primaryOutput,

@@ -7,8 +7,9 @@ namespace FlowSolve.Api.Hosting;
 /// <summary>Registration of the built-in services the API relies on.</summary>
 public static class ServiceSetup
 {
-    public static IServiceCollection AddFlowSolveServices(this IServiceCollection services)
+    public static IServiceCollection AddFlowSolveServices(this IServiceCollection services, IConfiguration configuration)
     {
+        services.AddFlowSolveProtection(configuration);
         services.AddProblemDetails(o => o.CustomizeProblemDetails = ctx =>
         {
             // Never leak internals: the exception handler already chose the public text.
@@ -29,12 +30,12 @@ public static class ServiceSetup
         services.AddHealthChecks().AddCheck("self", () => HealthCheckResult.Healthy("calculations available"), tags: ["ready"]);
         services.AddFlowSolveOpenApi();
         services.AddSingleton<CalculationCatalog>();
-        services.AddOptions<Batch.BatchOptions>().BindConfiguration("FlowSolve:Limits");
         return services;
     }
 
     public static WebApplication UseFlowSolvePipeline(this WebApplication app)
     {
+        app.UseFlowSolveSecurityHeaders();
         app.UseExceptionHandler(new ExceptionHandlerOptions
         {
             // Bad input is the caller's, not ours: answered as a 400 without an error-level log entry and stack trace.
@@ -42,6 +43,8 @@ public static class ServiceSetup
         });
         app.UseStatusCodePages();
         app.UseFlowSolveRequestLogging();
+        app.UseFlowSolveProtection();
+        app.UseFlowSolveMetrics();
         app.UseFlowSolveOpenApi();
         app.MapHealthChecks("/health/live", new() { Predicate = _ => false });
         app.MapHealthChecks("/health/ready", new() { Predicate = c => c.Tags.Contains("ready") });

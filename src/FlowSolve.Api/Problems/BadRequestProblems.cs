@@ -47,6 +47,7 @@ public sealed partial class BadRequestProblems(IProblemDetailsService problems, 
                 Detail = message,
                 Type = "https://flowsolve.example/problems/invalid-input",
             };
+            if (bad.StatusCode == StatusCodes.Status413PayloadTooLarge) details.Extensions["limit"] = "maxRequestBodyBytes";
             return await problems.TryWriteAsync(new ProblemDetailsContext { HttpContext = context, ProblemDetails = details, Exception = null });
         }
 

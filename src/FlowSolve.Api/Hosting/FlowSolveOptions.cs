@@ -1,0 +1,40 @@
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>Operational settings, section <c>FlowSolve</c> of appsettings.json or <c>FlowSolve__...</c> environment variables.</summary>
+public sealed class FlowSolveOptions
+{
+    public const string Section = "FlowSolve";
+
+    /// <summary>When set, every calculation route requires the header <c>X-Api-Key</c> with this value; health, metrics and docs stay open.</summary>
+    public string? ApiKey { get; set; }
+
+    public CorsSettings Cors { get; set; } = new();
+
+    public LimitSettings Limits { get; set; } = new();
+
+    public RateLimitSettings RateLimit { get; set; } = new();
+
+    public sealed class CorsSettings
+    {
+        /// <summary>Origins allowed to call from a browser (comma-separated in one environment variable is accepted). Empty: no CORS.</summary>
+        public string[] Origins { get; set; } = [];
+    }
+
+    public sealed class LimitSettings
+    {
+        /// <summary>Largest request body in bytes (default 32 MiB); larger answers 413.</summary>
+        public long MaxRequestBodyBytes { get; set; } = 32 * 1024 * 1024;
+
+        /// <summary>Most rows in one batch (default 100 000); more answers 413.</summary>
+        public int BatchRows { get; set; } = 100_000;
+
+        /// <summary>Time budget of one request in seconds (default 30); a request over it answers 503, a batch is cut off with a final error row.</summary>
+        public double RequestTimeoutSeconds { get; set; } = 30;
+    }
+
+    public sealed class RateLimitSettings
+    {
+        /// <summary>Requests per client address per minute on calculation routes; 0 (default) turns rate limiting off.</summary>
+        public int PermitsPerMinute { get; set; }
+    }
+}

@@ -1,0 +1,53 @@
+using Prometheus;
+
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>A response that came from a solve: what the solver metrics read, without serialising the response.</summary>
+public interface ISolveSummary
+{
+    int Iterations { get; }
+    bool Converged { get; }
+}
+
+/// <summary>
+/// Prometheus metrics at <c>/metrics</c> (prometheus-net): HTTP requests, latency histogram and status codes from its
+/// middleware, plus solver iterations, non-converged solves and batch rows from FlowSolve.
+/// </summary>
+public static class SolverMetrics
+{
+    public static readonly Histogram Iterations = Prometheus.Metrics.CreateHistogram(
+        "flowsolve_solver_iterations", "Solver iterations per calculation.",
+        new HistogramConfiguration { LabelNames = ["calculation"], Buckets = [0, 1, 2, 3, 4, 5, 6, 8, 10, 15, 20, 30, 50, 100] });
+
+    public static readonly Counter NotConverged = Prometheus.Metrics.CreateCounter(
+        "flowsolve_solver_not_converged_total", "Calculations whose solve did not converge.", "calculation");
+
+    public static readonly Counter BatchRows = Prometheus.Metrics.CreateCounter(
+        "flowsolve_batch_rows_total", "Rows processed by batch requests.", "calculation", "outcome");
+
+    public static void Record(string calculation, object? value)
+    {
+        if (value is not ISolveSummary s) return;
+        Iterations.WithLabels(calculation).Observe(s.Iterations);
+        if (!s.Converged) NotConverged.WithLabels(calculation).Inc();
+    }
+
+    public static WebApplication UseFlowSolveMetrics(this WebApplication app)
+    {
+        app.UseHttpMetrics(o => o.ReduceStatusCodeCardinality());
+        app.MapMetrics("/metrics");
+        return app;
+    }
+}
+
+/// <summary>Records solver metrics for every calculation endpoint (added by <c>AsCalculation</c>).</summary>
+public sealed class SolverMetricsFilter : IEndpointFilter
+{
+    public async ValueTask<object?> InvokeAsync(EndpointFilterInvocationContext context, EndpointFilterDelegate next)
+    {
+        object? result = await next(context);
+        if (result is IResult r && context.HttpContext.GetEndpoint()?.Metadata.GetMetadata<CalculationMetadata>() is { } m)
+            SolverMetrics.Record(m.Name, r.Unwrap().Value);
+        return result;
+    }
+}

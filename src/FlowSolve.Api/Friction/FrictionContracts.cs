@@ -7,7 +7,7 @@ namespace FlowSolve.Api.Friction;
 
 /// <summary>Inputs of the friction-factor calculation (query parameters for GET, a JSON body for POST).</summary>
 public sealed record FrictionFactorRequest(
-    [property: Description("Reynolds number Re = V D / nu (dimensionless); greater than 0, at most 1e15.")]
+    [property: Description("Reynolds number Re = V D / nu (dimensionless); 0.001 to 1e15.")]
     [property: Required]
     [FromQuery(Name = "reynolds")] double? Reynolds,
     [property: Description("Relative roughness e/D (dimensionless); 0 (smooth pipe) to below 1. Give this, or roughness and diameter.")]
@@ -25,11 +25,11 @@ public sealed record FrictionFactorRequest(
 
 /// <summary>One explicit approximation evaluated beside the exact value.</summary>
 /// <param name="Method">The approximation.</param>
-/// <param name="FrictionFactor">Its Darcy friction factor at these inputs (dimensionless).</param>
-/// <param name="DeviationPercent">(approximation / exact - 1) x 100 at these inputs.</param>
+/// <param name="FrictionFactor">Its Darcy friction factor at these inputs (dimensionless); absent when the formula overflows far outside its range.</param>
+/// <param name="DeviationPercent">(approximation / exact - 1) x 100 at these inputs; absent with frictionFactor.</param>
 /// <param name="InRange">True when the inputs are inside the approximation's published range.</param>
 /// <param name="MaxDeviationPercentOverRange">Largest |deviation| FlowSolve measured over the approximation's whole published range.</param>
-public sealed record ApproximationDto(string Method, double FrictionFactor, double DeviationPercent, bool InRange, double MaxDeviationPercentOverRange);
+public sealed record ApproximationDto(string Method, double? FrictionFactor, double? DeviationPercent, bool InRange, double MaxDeviationPercentOverRange);
 
 /// <summary>The Darcy friction factor and how it was obtained.</summary>
 /// <param name="FrictionFactor">Darcy friction factor f from the requested method (dimensionless).</param>

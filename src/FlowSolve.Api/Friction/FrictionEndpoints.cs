@@ -39,7 +39,7 @@ public static class FrictionEndpoints
     public static Results<Ok<FrictionFactorResponse>, ValidationProblem> Calculate(FrictionFactorRequest request)
     {
         var errors = new FieldErrors();
-        double reynolds = errors.Required("reynolds", request.Reynolds, 0, DarcyFriction.MaximumReynolds, minExclusive: true);
+        double reynolds = errors.Required("reynolds", request.Reynolds, DarcyFriction.MinimumReynolds, DarcyFriction.MaximumReynolds);
         double laminarLimit = errors.Optional("laminarLimit", request.LaminarLimit, 1000, 4000) ?? FrictionOptions.Default.LaminarLimit;
         var assumptions = new List<AssumptionDto>();
 
@@ -88,8 +88,11 @@ public static class FrictionEndpoints
 
         var approximations = FrictionMethodInfo.Approximations.Select(a =>
         {
+            // Far outside its range (creeping flow, say) an approximation can overflow: report it as not evaluable.
             double f = ExplicitFriction.Evaluate(a.Method, reynolds, relativeRoughness);
-            return new ApproximationDto(a.Code, f, (f / exact.FrictionFactor - 1) * 100, a.InRange(reynolds, relativeRoughness),
+            double deviation = (f / exact.FrictionFactor - 1) * 100;
+            bool finite = double.IsFinite(f) && f > 0 && double.IsFinite(deviation);
+            return new ApproximationDto(a.Code, finite ? f : null, finite ? deviation : null, a.InRange(reynolds, relativeRoughness),
                 a.MeasuredMaxDeviationPercent);
         }).ToArray();
 

@@ -35,6 +35,9 @@ public static class ServiceSetup
 
     public static WebApplication UseFlowSolvePipeline(this WebApplication app)
     {
+        // Request logging outermost, so it records the status the client actually got (a binding failure turned
+        // into a 400 by the exception handler, not the exception itself as a 500).
+        app.UseFlowSolveRequestLogging();
         app.UseFlowSolveSecurityHeaders();
         app.UseExceptionHandler(new ExceptionHandlerOptions
         {
@@ -42,7 +45,6 @@ public static class ServiceSetup
             SuppressDiagnosticsCallback = c => c.Exception is BadHttpRequestException,
         });
         app.UseStatusCodePages();
-        app.UseFlowSolveRequestLogging();
         app.UseFlowSolveProtection();
         app.UseFlowSolveMetrics();
         app.UseFlowSolveOpenApi();

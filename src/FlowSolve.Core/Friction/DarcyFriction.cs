@@ -38,6 +38,10 @@ public static class DarcyFriction
     /// <summary>The relation name for the laminar law.</summary>
     public const string LaminarRelation = "laminar";
 
+    /// <summary>The smallest Reynolds number the service accepts: deep creeping flow (f = 64 000). Below it 64/Re
+    /// loses meaning for pipe flow and the explicit formulas overflow.</summary>
+    public const double MinimumReynolds = 1e-3;
+
     /// <summary>The largest Reynolds number accepted (far beyond any pipe; keeps the known bracket valid).</summary>
     public const double MaximumReynolds = 1e15;
 

@@ -1,6 +1,7 @@
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Pipes;
 using Serilog;
 
 // Two-stage Serilog start: a bootstrap logger until the host is built, so start-up failures are logged too.
@@ -15,6 +16,7 @@ try
     app.UseFlowSolvePipeline();
     app.MapFrictionEndpoints();
     app.MapFluidEndpoints();
+    app.MapPipeEndpoints();
     app.Run();
 }
 catch (Exception ex) when (ex is not HostAbortedException)

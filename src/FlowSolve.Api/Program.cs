@@ -2,6 +2,7 @@ using FlowSolve.Api.Batch;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Pipes;
 using Serilog;
 
 // Two-stage Serilog start: a console logger until the configuration is read, so start-up failures are logged too.
@@ -22,6 +23,7 @@ try
     app.MapFrictionEndpoints();
     app.MapFluidEndpoints();
     app.MapBatchEndpoints();
+    app.MapPipeEndpoints();
     app.Run();
 }
 catch (Exception ex) when (ex is not HostAbortedException)

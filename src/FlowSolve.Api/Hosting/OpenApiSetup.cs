@@ -40,6 +40,8 @@ public static class OpenApiSetup
             c.SchemaFilter<DescriptionSchemaFilter>();
             c.OperationFilter<ParameterAndExampleFilter>();
             c.SupportNonNullableReferenceTypes();
+            // OpenAPI 3.0 ignores siblings of $ref: wrap references in allOf so a nested object property keeps its description.
+            c.UseAllOfToExtendReferenceSchemas();
         });
         return services;
     }

@@ -23,6 +23,15 @@ public static class Units
     /// <summary>1 US gallon = 231 in3 = 3.785411784e-3 m3 exactly.</summary>
     public const double UsGallon = 231 * 0.0254 * 0.0254 * 0.0254;
 
+    /// <summary>1 ft3 = 0.3048^3 m3 = 0.028316846592 m3 exactly.</summary>
+    public const double CubicFoot = Foot * Foot * Foot;
+
+    /// <summary>1 US gal/min = 3.785411784e-3 / 60 m3/s = 6.30901964e-5 m3/s exactly.</summary>
+    public const double UsGallonPerMinute = UsGallon / 60;
+
+    /// <summary>1 lb/ft3 = 0.45359237 / 0.3048^3 kg/m3 = 16.01846337... kg/m3.</summary>
+    public const double PoundPerCubicFoot = Pound / CubicFoot;
+
     public static double FahrenheitToCelsius(double f) => (f - 32) * 5.0 / 9.0;
 
     public static double CelsiusToFahrenheit(double c) => c * 9.0 / 5.0 + 32;
@@ -64,4 +73,72 @@ public readonly record struct UnitSystem(bool IsUs)
 
     /// <summary>m to ft for US.</summary>
     public double Length(double si) => IsUs ? si / Units.Foot : si;
+
+    /// <summary>m/s to ft/s for US.</summary>
+    public double Velocity(double si) => IsUs ? si / Units.Foot : si;
+
+    /// <summary>A length in the request's unit (ft for US) to m.</summary>
+    public double LengthToSi(double value) => IsUs ? value * Units.Foot : value;
+
+    /// <summary>A kinematic viscosity in the request's unit (ft2/s for US) to m2/s.</summary>
+    public double KinematicViscosityToSi(double value) => IsUs ? value * (Units.Foot * Units.Foot) : value;
+
+    /// <summary>A density in the request's unit (lb/ft3 for US) to kg/m3.</summary>
+    public double DensityToSi(double value) => IsUs ? value * Units.PoundPerCubicFoot : value;
+
+    /// <summary>A temperature in the request's unit (degrees F for US) to degrees C.</summary>
+    public double TemperatureToCelsius(double value) => IsUs ? Units.FahrenheitToCelsius(value) : value;
+
+    /// <summary>The length unit's symbol: m, or ft for US.</summary>
+    public string LengthUnit => IsUs ? "ft" : "m";
+
+    /// <summary>The velocity unit's symbol: m/s, or ft/s for US.</summary>
+    public string VelocityUnit => IsUs ? "ft/s" : "m/s";
+
+    /// <summary>The kinematic viscosity unit's symbol: m2/s, or ft2/s for US.</summary>
+    public string KinematicViscosityUnit => IsUs ? "ft2/s" : "m2/s";
+
+    /// <summary>The density unit's symbol: kg/m3, or lb/ft3 for US.</summary>
+    public string DensityUnit => IsUs ? "lb/ft3" : "kg/m3";
+
+    /// <summary>The pressure unit's symbol: Pa, or psi for US.</summary>
+    public string PressureUnit => IsUs ? "psi" : "Pa";
+
+    /// <summary>The temperature unit's name: degrees C, or degrees F for US.</summary>
+    public string TemperatureUnit => IsUs ? "degrees F" : "degrees C";
+}
+
+/// <summary>
+/// The unit a volumetric flow is given and reported in: m3/s with SI; ft3/s (default) or US gallons per minute
+/// (<c>flowUnit=gpm</c>) with US customary units. Exact factors (NIST SP 811, 2008, appendix B).
+/// </summary>
+/// <param name="Code">The wire code: <c>m3/s</c>, <c>ft3/s</c> or <c>gpm</c>.</param>
+/// <param name="CubicMetresPerUnit">One of this unit in m3/s.</param>
+public readonly record struct FlowUnit(string Code, double CubicMetresPerUnit)
+{
+    public static FlowUnit CubicMetrePerSecond => new("m3/s", 1.0);
+
+    public static FlowUnit CubicFootPerSecond => new("ft3/s", Units.CubicFoot);
+
+    public static FlowUnit UsGallonPerMinute => new("gpm", Units.UsGallonPerMinute);
+
+    /// <summary>The default flow unit of a unit system.</summary>
+    public static FlowUnit DefaultFor(UnitSystem units) => units.IsUs ? CubicFootPerSecond : CubicMetrePerSecond;
+
+    /// <summary>Parses <c>m3/s</c> (SI only), <c>ft3/s</c> or <c>gpm</c> (US only), case-insensitive; absent means the
+    /// unit system's default. An error is recorded under <c>flowUnit</c> for anything else.</summary>
+    public static FlowUnit Parse(string? text, UnitSystem units, FieldErrors errors)
+    {
+        var unit = DefaultFor(units);
+        if (text is null || text.Equals(unit.Code, StringComparison.OrdinalIgnoreCase)) return unit;
+        if (units.IsUs && text.Equals(UsGallonPerMinute.Code, StringComparison.OrdinalIgnoreCase)) return UsGallonPerMinute;
+        errors.Add("flowUnit", units.IsUs ? "must be ft3/s or gpm" : "must be m3/s with units=si (ft3/s and gpm need units=us)");
+        return unit;
+    }
+
+    /// <summary>A flow in this unit to m3/s.</summary>
+    public double ToSi(double value) => value * CubicMetresPerUnit;
+
+    /// <summary>A flow in m3/s to this unit.</summary>
+    public double FromSi(double si) => si / CubicMetresPerUnit;
 }

@@ -1,0 +1,33 @@
+using FlowSolve.Api.Hosting;
+
+namespace FlowSolve.Api.Pipes;
+
+/// <summary>The pipe endpoints' OpenAPI descriptions.</summary>
+internal static class PipeDocs
+{
+    private const string Common =
+        " Gravity is standard gravity, 9.80665 m/s2. The fluid is given by kinematicViscosity (and density, for pressures), or by " +
+        "temperature for water (IAPWS-IF97, IAPWS 2008); with neither, water at 20 degrees C (68 degrees F) is assumed and said so in " +
+        "assumptions. units=us switches every field to ft, ft/s, ft3/s (or gpm with flowUnit=gpm), ft2/s, psi, lb/ft3 and degrees F, " +
+        "with exact factors (NIST SP 811). Bad input answers 400 naming each bad field; a well-formed problem without an answer answers " +
+        "422 saying why.\n\n" + OpenApiSetup.Cautions;
+
+    public const string HeadLoss =
+        "Friction + minor head loss of a full pipe at a flow: Darcy-Weisbach h = (f L/D + K) V^2/(2g) with f from the exact " +
+        "Colebrook-White equation (64/Re below Re 2000; Churchill 1977 with a warning from 2000 to 4000), or Hazen-Williams " +
+        "(method=hazen-williams, SI velocity form V = 0.849 C R^0.63 S^0.54, water only) with the Darcy-Weisbach loss and the " +
+        "difference beside it. Also the total head the pipe needs, headLoss + elevationChange (z2 - z1), and the pressure drops when " +
+        "the density is known." + Common;
+
+    public const string Flow =
+        "The flow that an available head drives through a full pipe: the losses absorb headLoss - elevationChange, solved for Q by " +
+        "safeguarded Newton iteration in ln Q, with the Colebrook-White derivative df/dRe in the slope (Simpson and Elhay 2011), " +
+        "to a step of 1e-13 in ln Q. For two reservoirs give the difference of their levels as headLoss and no elevationChange. With " +
+        "method=hazen-williams the Hazen-Williams flow is returned with the Darcy-Weisbach flow from the same head beside it." + Common;
+
+    public const string Diameter =
+        "The smallest inside diameter that carries a flow within an allowed friction + minor head loss (Darcy-Weisbach, exact " +
+        "Colebrook-White), solved by safeguarded Newton iteration in ln D, and with sizeTable the smallest listed size of that table " +
+        "whose inside diameter meets the allowance (its head loss is computed and checked). headLoss follows the flow calculation's " +
+        "convention: the losses may use headLoss - elevationChange." + Common;
+}

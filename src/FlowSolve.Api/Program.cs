@@ -1,3 +1,4 @@
+using FlowSolve.Api.Channels;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
@@ -15,6 +16,7 @@ try
     app.UseFlowSolvePipeline();
     app.MapFrictionEndpoints();
     app.MapFluidEndpoints();
+    app.MapChannelEndpoints();
     app.Run();
 }
 catch (Exception ex) when (ex is not HostAbortedException)

@@ -95,7 +95,8 @@ public static class ChannelEndpoints
         if (r.Solution == DepthSolution.None)
             return r.Capacity is ChannelCapacity c ? BeyondCapacity(section, q, c, units) : Unrepresentable();
 
-        double? criticalDepth = Finite(r.CriticalDepth) ? units.Length(r.CriticalDepth) : null;
+        // A critical solve that stopped short (its not-converged warning is in the list) has no depth worth quoting.
+        double? criticalDepth = Finite(r.CriticalDepth) && r.Critical.Converged ? units.Length(r.CriticalDepth) : null;
         double? criticalSlope = criticalDepth is not null && Finite(r.CriticalSlope) ? r.CriticalSlope : null;
         var response = new NormalDepthResponse(
             units.Length(r.NormalDepth),

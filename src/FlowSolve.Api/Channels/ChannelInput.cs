@@ -83,7 +83,6 @@ internal static class ChannelInput
             return null;
         }
 
-        int before = Count(errors);
         RejectForeign(f, shape, prefix, errors);
         double maxLength = MaximumLength(units);
         string lu = units.LengthUnit;
@@ -119,7 +118,7 @@ internal static class ChannelInput
                 section = Surveyed(f.Points, prefix, units, errors, assumptions);
                 break;
         }
-        return Count(errors) == before && !errors.Any ? section : null;
+        return errors.Any ? null : section;
     }
 
     /// <summary>Manning n: required unless every surveyed segment carries its own.</summary>
@@ -211,13 +210,12 @@ internal static class ChannelInput
             // A query value that did not parse is already reported under this name; do not add "is required" to it.
             stations[i] = Unreported(field, i, "station", errors) ? errors.Required($"{field}[{i}].station", p.Station, -limit, limit, unit: lu) : double.NaN;
             elevations[i] = Unreported(field, i, "elevation", errors) ? errors.Required($"{field}[{i}].elevation", p.Elevation, -limit, limit, unit: lu) : double.NaN;
-            if (p.ManningN is not null)
+            if (p.ManningN is not null && i == count - 1)
             {
-                if (i == count - 1)
-                {
-                    errors.Add($"{field}[{i}].manningN", "the last point starts no segment; give each segment's n on the point where the segment starts");
-                    continue;
-                }
+                errors.Add($"{field}[{i}].manningN", "the last point starts no segment; give each segment's n on the point where the segment starts");
+            }
+            else if (p.ManningN is not null)
+            {
                 segmentN ??= Enumerable.Repeat(double.NaN, count - 1).ToArray();
                 segmentN[i] = errors.Optional($"{field}[{i}].manningN", p.ManningN, 0, MaximumManningN, minExclusive: true) ?? double.NaN;
             }
@@ -242,7 +240,8 @@ internal static class ChannelInput
         if (segmentN is not null)
         {
             int own = segmentN.Count(n => !double.IsNaN(n));
-            assumptions.Add(new("section.points.manningN", own == count - 1 ? "every segment" : $"{own} of {count - 1} segments",
+            // One name for both request forms, so that a GET and the equivalent POST answer the same document.
+            assumptions.Add(new("section.points[].manningN", own == count - 1 ? "every segment" : $"{own} of {count - 1} segments",
                 "Horton-Einstein composite roughness n = [sum(P_i n_i^1.5)/P]^(2/3) over the wetted segments (Chow 1959, Open-Channel Hydraulics, section 6-5; from memory)" +
                 (own == count - 1 ? "" : "; segments without their own n take the request's manningN")));
         }

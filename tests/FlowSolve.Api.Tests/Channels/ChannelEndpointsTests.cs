@@ -349,6 +349,14 @@ public sealed class ChannelEndpointsTests(ApiFixture api)
     }
 
     [Fact]
+    public async Task NormalDepth_SeveralBadPoints_AllNamedAtOnce()
+    {
+        var r = await api.PostRaw(Normal, """{"section":{"shape":"surveyed","points":[{"station":0,"elevation":2},{"station":4,"elevation":0},{"station":3,"elevation":2,"manningN":0.03}]},"manningN":0.015,"slope":0.001,"flow":5}""", "application/json");
+        ProblemAssert.NamesField(r, 400, "section.points[2].station");
+        ProblemAssert.NamesField(r, 400, "section.points[2].manningN");
+    }
+
+    [Fact]
     public async Task CriticalDepth_BadInput_400NamesField()
     {
         ProblemAssert.NamesField(await api.GetJson($"{Critical}?shape=rectangular&bottomWidth=2&flow=0"), 400, "flow");

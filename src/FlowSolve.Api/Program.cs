@@ -1,4 +1,5 @@
 using FlowSolve.Api.Batch;
+using FlowSolve.Api.Channels;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
@@ -24,6 +25,7 @@ try
     app.MapFluidEndpoints();
     app.MapBatchEndpoints();
     app.MapPipeEndpoints();
+    app.MapChannelEndpoints();
     app.Run();
 }
 catch (Exception ex) when (ex is not HostAbortedException)

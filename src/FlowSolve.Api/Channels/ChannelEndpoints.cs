@@ -1,0 +1,221 @@
+using System.Globalization;
+using FlowSolve.Api.Contracts;
+using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Problems;
+using FlowSolve.Core.Channels;
+using FlowSolve.Core.Numerics;
+using Microsoft.AspNetCore.Http.HttpResults;
+
+namespace FlowSolve.Api.Channels;
+
+/// <summary>Open-channel flow: <c>GET</c> and <c>POST /v1/channels/normal-depth</c> and <c>/v1/channels/critical-depth</c>.</summary>
+public static class ChannelEndpoints
+{
+    public static IEndpointRouteBuilder MapChannelEndpoints(this IEndpointRouteBuilder routes)
+    {
+        var group = routes.MapGroup("/v1/channels").WithTags("Channels");
+
+        group.MapGet("/normal-depth", ([AsParameters] NormalDepthQuery request) => NormalDepth(request))
+            .WithName("GetNormalDepth")
+            .WithSummary("Normal depth by Manning's equation (query parameters)")
+            .WithDescription(ChannelDocs.NormalDepth)
+            .WithQueryExample(("shape", "trapezoidal"), ("bottomWidth", "3"), ("sideSlope", "2"), ("manningN", "0.025"),
+                ("slope", "0.001"), ("flow", "10"))
+            .AsCalculation("channels/normal-depth", "normalDepth");
+
+        group.MapPost("/normal-depth", (NormalDepthRequest request) => NormalDepth(request))
+            .WithName("PostNormalDepth")
+            .WithSummary("Normal depth by Manning's equation (JSON body)")
+            .WithDescription(ChannelDocs.NormalDepth)
+            .WithBodyExample(new NormalDepthRequest(new SectionInput("circular", Diameter: 1.2), ManningN: 0.013, Slope: 0.002, Flow: 1.1))
+            .AsCalculation("channels/normal-depth", "normalDepth");
+
+        group.MapGet("/critical-depth", ([AsParameters] CriticalDepthQuery request) => CriticalDepth(request))
+            .WithName("GetCriticalDepth")
+            .WithSummary("Critical depth (query parameters)")
+            .WithDescription(ChannelDocs.CriticalDepth)
+            .WithQueryExample(("shape", "rectangular"), ("bottomWidth", "4"), ("flow", "12"), ("manningN", "0.015"))
+            .AsCalculation("channels/critical-depth", "criticalDepth");
+
+        group.MapPost("/critical-depth", (CriticalDepthRequest request) => CriticalDepth(request))
+            .WithName("PostCriticalDepth")
+            .WithSummary("Critical depth (JSON body)")
+            .WithDescription(ChannelDocs.CriticalDepth)
+            .WithBodyExample(new CriticalDepthRequest(new SectionInput("surveyed", Points:
+                [new(0, 2.5, 0.035), new(3, 1.0, 0.035), new(5, 0), new(9, 0, 0.035), new(11, 1.0, 0.035), new(14, 2.2)]),
+                Flow: 8, ManningN: 0.02))
+            .AsCalculation("channels/critical-depth", "criticalDepth");
+
+        routes.AddCalculation<NormalDepthRequest, NormalDepthResponse>("channels/normal-depth", "normalDepth", r => NormalDepth(r));
+        routes.AddCalculation<CriticalDepthRequest, CriticalDepthResponse>("channels/critical-depth", "criticalDepth", r => CriticalDepth(r));
+        return routes;
+    }
+
+    public static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(NormalDepthRequest request)
+    {
+        var errors = new FieldErrors();
+        if (request.Section is null) errors.Add("section", "is required: an object with shape and its dimensions");
+        return NormalDepth(request.Section is null ? null : SectionFields.From(request.Section), "section.",
+            request.ManningN, request.Slope, request.Flow, request.Units, errors);
+    }
+
+    public static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(NormalDepthQuery q)
+    {
+        var errors = new FieldErrors();
+        var fields = new SectionFields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter,
+            ChannelInput.ParsePoints(q.Points, errors));
+        return NormalDepth(fields, "", q.ManningN, q.Slope, q.Flow, q.Units, errors);
+    }
+
+    public static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(CriticalDepthRequest request)
+    {
+        var errors = new FieldErrors();
+        if (request.Section is null) errors.Add("section", "is required: an object with shape and its dimensions");
+        return CriticalDepth(request.Section is null ? null : SectionFields.From(request.Section), "section.",
+            request.ManningN, request.Flow, request.Units, errors);
+    }
+
+    public static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(CriticalDepthQuery q)
+    {
+        var errors = new FieldErrors();
+        var fields = new SectionFields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter,
+            ChannelInput.ParsePoints(q.Points, errors));
+        return CriticalDepth(fields, "", q.ManningN, q.Flow, q.Units, errors);
+    }
+
+    private static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(
+        SectionFields? fields, string prefix, double? manningN, double? slope, double? flow, string? unitsText, FieldErrors errors)
+    {
+        var units = new ChannelUnits(UnitSystem.Parse(unitsText, errors));
+        var assumptions = new List<AssumptionDto>();
+        var section = fields is null ? null : ChannelInput.Read(fields, prefix, units, errors, assumptions);
+        double? n = ChannelInput.ManningN(manningN, required: fields?.HasOwnRoughness != true, errors);
+        double s = errors.Required("slope", slope, 0, 1, minExclusive: true, unit: "m/m");
+        double q = errors.Required("flow", flow, 0, ChannelInput.MaximumFlow(units), minExclusive: true, unit: units.FlowUnit);
+        if (errors.Any || section is null) return ProblemResults.BadInput(errors);
+
+        double qSi = units.FlowToSi(q);
+        var r = n is double nn ? ManningSolver.NormalDepth(section, qSi, s, nn) : ManningSolver.NormalDepth(section, qSi, s);
+
+        // The Core marks a flow beyond capacity with Solution = None and NaN depths: answer 422 before anything is serialised.
+        if (r.Solution == DepthSolution.None)
+            return r.Capacity is ChannelCapacity c ? BeyondCapacity(section, q, c, units) : Unrepresentable();
+
+        // A critical solve that stopped short (its not-converged warning is in the list) has no depth worth quoting.
+        double? criticalDepth = Finite(r.CriticalDepth) && r.Critical.Converged ? units.Length(r.CriticalDepth) : null;
+        double? criticalSlope = criticalDepth is not null && Finite(r.CriticalSlope) ? r.CriticalSlope : null;
+        var response = new NormalDepthResponse(
+            units.Length(r.NormalDepth),
+            r.AlternateNormalDepth is double alt ? units.Length(alt) : null,
+            r.AlternateNormalDepths.Count > 0 ? r.AlternateNormalDepths.Select(units.Length).ToArray() : null,
+            units.Area(r.Area), units.Length(r.WettedPerimeter), units.Length(r.HydraulicRadius), units.Length(r.TopWidth),
+            units.Velocity(r.Velocity), r.FroudeNumber, RegimeCode(r.Regime), units.Length(r.SpecificEnergy), r.EffectiveManningN,
+            criticalDepth, criticalSlope, r.Capacity is ChannelCapacity cap ? Capacity(cap, units) : null,
+            ShapeCode(section.Shape), units.System.Code,
+            r.Iterations, r.Converged, r.Residual, r.Status.Code(), r.Method,
+            [new ValidityDto("manning", "manningN", ManningValidity.TypicalLowestN, ManningValidity.TypicalHighestN,
+                r.Validity.EffectiveManningN, r.Validity.InTypicalRange,
+                "typical tabulated n, Chow 1959, Open-Channel Hydraulics, Table 5-6 (from memory); " + ManningValidity.Range)],
+            Warnings(r.Warnings, units), CommonAssumptions(assumptions, unitsText, units, n));
+        if (!AllFinite(response.NormalDepth, response.Area, response.WettedPerimeter, response.HydraulicRadius, response.TopWidth,
+                response.Velocity, response.FroudeNumber, response.SpecificEnergy, response.EffectiveManningN, response.Residual))
+            return Unrepresentable();
+        return TypedResults.Ok(response);
+    }
+
+    private static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(
+        SectionFields? fields, string prefix, double? manningN, double? flow, string? unitsText, FieldErrors errors)
+    {
+        var units = new ChannelUnits(UnitSystem.Parse(unitsText, errors));
+        var assumptions = new List<AssumptionDto>();
+        var section = fields is null ? null : ChannelInput.Read(fields, prefix, units, errors, assumptions);
+        double? n = ChannelInput.ManningN(manningN, required: false, errors);
+        double q = errors.Required("flow", flow, 0, ChannelInput.MaximumFlow(units), minExclusive: true, unit: units.FlowUnit);
+        if (errors.Any || section is null) return ProblemResults.BadInput(errors);
+
+        double qSi = units.FlowToSi(q);
+        var r = n is double nn ? CriticalFlow.CriticalDepth(section, qSi, nn) : CriticalFlow.CriticalDepth(section, qSi);
+        if (r.Solution == DepthSolution.None)
+        {
+            double top = units.Length(section.MaximumDepth);
+            return ProblemResults.NoAnswer("No critical depth in the section.", string.Create(CultureInfo.InvariantCulture,
+                $"The critical depth of {q:G6} {units.FlowUnit} would lie above the lower bank top ({top:G6} {units.LengthUnit} above the invert): the section is too small to pass this flow at critical depth. Extend the survey to higher ground."),
+                new Dictionary<string, object?> { ["flow"] = q, ["fullDepth"] = top, ["units"] = units.System.Code });
+        }
+        if (r.Status is SolveStatus.NoSignChange or SolveStatus.NonFiniteValue) return Unrepresentable();
+
+        if (n is null && r.CriticalSlope is double cs && !double.IsNaN(cs))
+            assumptions.Add(new("manningN", "section's own", "the critical slope uses the n that every surveyed segment carries"));
+        var response = new CriticalDepthResponse(
+            units.Length(r.CriticalDepth),
+            r.AlternateCriticalDepths.Count > 0 ? r.AlternateCriticalDepths.Select(units.Length).ToArray() : null,
+            units.Area(r.Area), units.Length(r.TopWidth), units.Velocity(r.Velocity), units.Length(r.SpecificEnergy),
+            Finite(r.CriticalSlope) ? r.CriticalSlope : null, ShapeCode(section.Shape), units.System.Code,
+            r.Iterations, r.Converged, r.Residual, r.Status.Code(), r.Method,
+            Warnings(r.Warnings, units), CommonAssumptions(assumptions, unitsText, units, n));
+        if (!AllFinite(response.CriticalDepth, response.Area, response.TopWidth, response.Velocity, response.SpecificEnergy, response.Residual))
+            return Unrepresentable();
+        return TypedResults.Ok(response);
+    }
+
+    /// <summary>422 for a flow above a part-full pipe's peak discharge or one that overtops a surveyed section, in the request's units.</summary>
+    private static ProblemHttpResult BeyondCapacity(ChannelSection section, double flow, ChannelCapacity c, ChannelUnits units)
+    {
+        var capacity = Capacity(c, units);
+        string fu = units.FlowUnit, lu = units.LengthUnit;
+        string detail = section is CircularSection
+            ? string.Create(CultureInfo.InvariantCulture,
+                $"{flow:G6} {fu} exceeds the pipe's greatest part-full discharge, {capacity.MaximumFlow:G6} {fu} at a depth of {capacity.DepthAtMaximumFlow:G6} {lu} (y/D = {CircularSection.PeakDischargeDepthRatio:F4}), for this slope and n; the full-pipe discharge is {capacity.FullFlow:G6} {fu}. The pipe would run surcharged: choose a larger pipe or a steeper slope, or check it as a pressure conduit.")
+            : string.Create(CultureInfo.InvariantCulture,
+                $"{flow:G6} {fu} overtops the section: its greatest discharge below the lower bank top ({capacity.FullDepth:G6} {lu} above the invert) is {capacity.MaximumFlow:G6} {fu} at a depth of {capacity.DepthAtMaximumFlow:G6} {lu}, for this slope and roughness. Extend the survey to higher ground or check the overbank flow separately.");
+        return ProblemResults.NoAnswer("The flow exceeds the section's capacity.", detail,
+            new Dictionary<string, object?> { ["flow"] = flow, ["capacity"] = capacity, ["units"] = units.System.Code });
+    }
+
+    private static ProblemHttpResult Unrepresentable() =>
+        ProblemResults.NoAnswer("The result cannot be represented.",
+            "The inputs are valid one by one, but together they put the depth so close to the invert or the crown, or the figures so far out of scale, that the solution cannot be resolved in double precision. Check the units and the orders of magnitude of the inputs.");
+
+    private static ChannelCapacityDto Capacity(ChannelCapacity c, ChannelUnits units) =>
+        new(units.Flow(c.MaximumFlow), units.Length(c.DepthAtMaximumFlow), units.Flow(c.FullFlow), units.Length(c.FullDepth));
+
+    /// <summary>The Core's messages quote SI figures; with units=us say so rather than leave the reader to guess.</summary>
+    private static IReadOnlyList<WarningDto> Warnings(IReadOnlyList<ChannelWarning> warnings, ChannelUnits units) =>
+        warnings.Select(w => new WarningDto(w.CodeText,
+            units.IsUs && QuotesFigures(w.Code) ? w.Message + " (The figures in this message are SI: m, m2, m3/s.)" : w.Message)).ToArray();
+
+    private static bool QuotesFigures(ChannelWarningCode code) => code is ChannelWarningCode.TwoNormalDepths
+        or ChannelWarningCode.MultipleNormalDepths or ChannelWarningCode.ExceedsCapacity or ChannelWarningCode.ConveyanceJump
+        or ChannelWarningCode.MultipleCriticalDepths or ChannelWarningCode.NoCriticalDepthInSection;
+
+    private static List<AssumptionDto> CommonAssumptions(List<AssumptionDto> list, string? unitsText, ChannelUnits units, double? n)
+    {
+        if (unitsText is null) list.Add(new("units", "si", "SI units (default)"));
+        if (units.IsUs && n is double value)
+            list.Add(new("manningN", value.ToString("R", CultureInfo.InvariantCulture),
+                "Manning n is used unchanged; lengths are converted at 0.3048 m/ft exactly, which gives the customary k = 1.486 in Q = (k/n) A R^(2/3) S^(1/2)"));
+        list.Add(new("gravity", "9.80665 m/s2", "standard gravity"));
+        list.Add(new("energyCoefficient", "1", "uniform velocity over the section in the specific energy and the Froude number (common practice)"));
+        return list;
+    }
+
+    private static bool Finite(double value) => double.IsFinite(value);
+
+    private static bool AllFinite(params double[] values) => values.All(double.IsFinite);
+
+    private static string RegimeCode(FlowRegime regime) => regime switch
+    {
+        FlowRegime.Subcritical => "subcritical",
+        FlowRegime.Critical => "critical",
+        _ => "supercritical",
+    };
+
+    private static string ShapeCode(SectionShape shape) => shape switch
+    {
+        SectionShape.Rectangular => "rectangular",
+        SectionShape.Trapezoidal => "trapezoidal",
+        SectionShape.Triangular => "triangular",
+        SectionShape.Circular => "circular",
+        _ => "surveyed",
+    };
+}

@@ -1,0 +1,131 @@
+#!/usr/bin/env bash
+# Load test of the FlowSolve API on this machine, by hand (not in CI): throughput and tail latency of the
+# calculation endpoints next to a trivial endpoint's rate as the ceiling, error counts, and the service's memory.
+#
+# - publishes the API in Release (the Dockerfile's flags) into a temp folder and starts it on 127.0.0.1 on a port of
+#   its own (LOAD_PORT, 18090 by default, or the next free one), with the ConfigMap's logging settings (json,
+#   Information) and the log thrown away, so the per-request log event is paid for as in production;
+# - runs wrk (installed from Debian's packages if missing) on each scenario: a warm-up, then LOAD_DURATION seconds
+#   (20 by default) with LOAD_THREADS threads (2) and LOAD_CONNECTIONS connections (32);
+#   scenarios: GET /health/live (ceiling), GET /v1/friction-factor, POST /v1/pipes/flow (skipped on a 404);
+# - then a 60-second run of the friction GET while sampling VmRSS from /proc/PID/status every 5 s;
+# - prints a table, and exits non-zero when any scenario saw a non-2xx answer or a socket error.
+#
+# wrk and the service share this machine's cores, so the figures are a floor for the service, not its capacity;
+# compare the rows of one run, not runs on different days.
+set -euo pipefail
+
+root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+port="${LOAD_PORT:-18090}"
+duration="${LOAD_DURATION:-20}"
+soak=60
+threads="${LOAD_THREADS:-2}"
+connections="${LOAD_CONNECTIONS:-32}"
+
+if ! command -v wrk >/dev/null; then
+  if [ "$(id -u)" = 0 ] && command -v apt-get >/dev/null; then
+    echo "installing wrk from Debian's packages"
+    apt-get update -qq && apt-get install -y -qq wrk >/dev/null
+  else
+    echo "wrk is missing: apt-get install wrk (as root)"; exit 1
+  fi
+fi
+command -v curl >/dev/null || { echo "curl is missing"; exit 1; }
+
+port_taken() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
+for _ in $(seq 1 50); do port_taken "$port" || break; port=$((port + 1)); done
+port_taken "$port" && { echo "no free port found from ${LOAD_PORT:-18090}"; exit 1; }
+
+load_before="$(cut -d' ' -f1-3 /proc/loadavg)"   # before this script adds any load of its own
+work="$(mktemp -d /var/tmp/flowsolve-load.XXXXXX)"
+pid=""
+sampler=""
+cleanup() {
+  [ -n "$sampler" ] && kill "$sampler" 2>/dev/null || true
+  if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then kill "$pid" 2>/dev/null || true; wait "$pid" 2>/dev/null || true; fi
+  rm -rf "$work"
+}
+trap cleanup EXIT
+
+echo "publishing (Release) ..."
+(cd "$root" && dotnet publish src/FlowSolve.Api/FlowSolve.Api.csproj -c Release -o "$work/app" -p:UseAppHost=false --nologo -v quiet)
+
+base="http://127.0.0.1:$port"
+(cd "$work/app" && exec env Urls="$base" FlowSolve__Logging__Format=json FlowSolve__Logging__Level=Information \
+  dotnet FlowSolve.Api.dll >/dev/null 2>&1) &
+pid=$!
+for _ in $(seq 1 60); do
+  [ "$(curl -s -o /dev/null -w '%{http_code}' "$base/health/ready" || true)" = 200 ] && break
+  kill -0 "$pid" 2>/dev/null || { echo "the service stopped during start-up"; exit 1; }
+  sleep 0.5
+done
+[ "$(curl -s -o /dev/null -w '%{http_code}' "$base/health/ready" || true)" = 200 ] || { echo "the service did not become ready"; exit 1; }
+
+friction="$base/v1/friction-factor?reynolds=75000&relativeRoughness=0.005"
+pipe_body='{"diameter":0.3,"length":1200,"roughness":0.00026,"headLoss":8,"temperature":15}'
+cat >"$work/post.lua" <<EOF
+wrk.method = "POST"
+wrk.body = '$pipe_body'
+wrk.headers["Content-Type"] = "application/json"
+EOF
+
+rss_kib() { awk '/^VmRSS:/ {print $2}' "/proc/$pid/status"; }
+
+# Runs wrk and prints one table row: name, requests/s, p50, p99, requests, non-2xx, socket errors.
+rows=()
+errors=0
+run() {
+  local name="$1" seconds="$2"; shift 2
+  wrk -t"$threads" -c"$connections" -d5s "$@" >/dev/null   # warm-up: JIT tiering, connection pools
+  local out
+  out="$(wrk -t"$threads" -c"$connections" -d"${seconds}s" --latency "$@")"
+  local rps p50 p99 total non2xx sockets
+  rps="$(awk '/^Requests\/sec:/ {print $2}' <<<"$out")"
+  p50="$(awk '$1 == "50%" {print $2}' <<<"$out")"
+  p99="$(awk '$1 == "99%" {print $2}' <<<"$out")"
+  total="$(awk '/requests in/ {print $1}' <<<"$out")"
+  non2xx="$(awk -F': ' '/Non-2xx or 3xx responses/ {print $2}' <<<"$out")"; non2xx="${non2xx:-0}"
+  sockets="$(awk -F'errors: ' '/Socket errors/ {print $2}' <<<"$out" | tr -dc '0-9,' | tr ',' '+')"
+  sockets=$(( ${sockets:-0} + 0 ))
+  errors=$((errors + non2xx + sockets))
+  rows+=("$(printf '%-28s %12s %10s %10s %10s %8s %8s' "$name" "$rps" "$p50" "$p99" "$total" "$non2xx" "$sockets")")
+}
+
+run "GET /health/live (ceiling)" "$duration" "$base/health/live"
+run "GET /v1/friction-factor" "$duration" "$friction"
+pipe_status="$(curl -s -o /dev/null -w '%{http_code}' -X POST -H 'Content-Type: application/json' -d "$pipe_body" "$base/v1/pipes/flow" || true)"
+if [ "$pipe_status" = 404 ]; then
+  pipe_note="POST /v1/pipes/flow: skipped, the endpoint answers 404 in this build"
+elif [ "$pipe_status" = 200 ]; then
+  run "POST /v1/pipes/flow" "$duration" -s "$work/post.lua" "$base/v1/pipes/flow"
+  pipe_note=""
+else
+  pipe_note="POST /v1/pipes/flow: answered $pipe_status to the sample body; not load-tested"
+  errors=$((errors + 1))
+fi
+
+# Memory over a 60-second run: VmRSS every 5 s from the start of the run.
+samples=()
+rss_before="$(rss_kib)"
+( for _ in $(seq 0 5 "$soak"); do rss_kib; sleep 5; done ) >"$work/rss" &
+sampler=$!
+run "GET /v1/friction-factor 60 s" "$soak" "$friction"
+wait "$sampler" 2>/dev/null || true
+sampler=""
+mapfile -t samples <"$work/rss"
+
+echo
+echo "machine: $(lscpu | awk -F': +' '/^Model name/ {print $2; exit}'), $(nproc) cores; load average before the run: $load_before, after it: $(cut -d' ' -f1-3 /proc/loadavg)"
+echo "wrk: $threads threads, $connections connections, ${duration} s per scenario after a 5 s warm-up, on the same machine as the service"
+echo
+printf '%-28s %12s %10s %10s %10s %8s %8s\n' scenario "requests/s" p50 p99 requests non-2xx socket
+printf '%s\n' "${rows[@]}"
+[ -n "$pipe_note" ] && echo "$pipe_note"
+echo
+echo "RSS (MiB) before the 60 s run: $(awk -v k="$rss_before" 'BEGIN {printf "%.0f", k / 1024}'); every 5 s during it:"
+printf '%s\n' "${samples[@]}" | awk '{printf "%s%.0f", (NR > 1 ? " " : "  "), $1 / 1024} END {print ""}'
+printf '%s\n' "${samples[@]}" | awk 'NR == 1 {first = $1; min = $1; max = $1} {if ($1 < min) min = $1; if ($1 > max) max = $1; last = $1}
+  END {printf "  min %.0f, max %.0f, first %.0f, last %.0f MiB\n", min / 1024, max / 1024, first / 1024, last / 1024}'
+
+if [ "$errors" -ne 0 ]; then echo "load test: $errors error(s)"; exit 1; fi
+echo "load test: no errors"

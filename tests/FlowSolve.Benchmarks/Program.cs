@@ -1,1 +1,7 @@
-BenchmarkDotNet.Running.BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+namespace FlowSolve.Benchmarks;
+
+public static class BenchmarkEntry
+{
+    public static void Main(string[] args) =>
+        BenchmarkDotNet.Running.BenchmarkSwitcher.FromAssembly(typeof(BenchmarkEntry).Assembly).Run(args);
+}

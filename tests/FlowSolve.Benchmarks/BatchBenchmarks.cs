@@ -1,0 +1,77 @@
+using System.Text;
+using BenchmarkDotNet.Attributes;
+using FlowSolve.Core.Pipes;
+using Microsoft.AspNetCore.Mvc.Testing;
+
+namespace FlowSolve.Benchmarks;
+
+/// <summary>
+/// Time per row of a pipe head-loss batch through the in-memory service (CSV in and out, JSON in and out), beside the
+/// library's own head-loss call on the same rows, measured side by side in one run.
+/// </summary>
+[MemoryDiagnoser]
+public class BatchBenchmarks
+{
+    private const int Rows = 10_000;
+    private WebApplicationFactory<global::Program> _factory = null!;
+    private HttpClient _client = null!;
+    private string _csv = "";
+    private string _json = "";
+    private readonly PipeGeometry[] _pipes = new PipeGeometry[Rows];
+    private readonly double[] _flows = new double[Rows];
+    private static readonly FluidProperties Water = new(1.0034e-6, 998.2);
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        Environment.SetEnvironmentVariable("FlowSolve__Logging__Level", "Warning");
+        _factory = new WebApplicationFactory<global::Program>();
+        _client = _factory.CreateClient();
+        var random = new Random(7);
+        var csv = new StringBuilder("flow,diameter,length,roughness,minorLossCoefficient,kinematicViscosity,density\n");
+        var json = new StringBuilder("[");
+        for (int i = 0; i < Rows; i++)
+        {
+            double d = 0.1 + 0.9 * random.NextDouble(), q = 0.02 + 0.5 * random.NextDouble() * d * d, l = 100 + 900 * random.NextDouble();
+            _pipes[i] = new PipeGeometry(l, d, 0.00026, 2);
+            _flows[i] = q;
+            FormattableString row = $"{q},{d},{l},0.00026,2,1.0034e-6,998.2\n";
+            csv.Append(row.ToString(System.Globalization.CultureInfo.InvariantCulture));
+            json.Append(i == 0 ? "" : ",").Append(System.Globalization.CultureInfo.InvariantCulture,
+                $"{{\"flow\":{q},\"diameter\":{d},\"length\":{l},\"roughness\":0.00026,\"minorLossCoefficient\":2,\"kinematicViscosity\":1.0034e-6,\"density\":998.2}}");
+        }
+        _csv = csv.ToString();
+        _json = json.Append(']').ToString();
+    }
+
+    [GlobalCleanup]
+    public void Cleanup()
+    {
+        _client.Dispose();
+        _factory.Dispose();
+    }
+
+    [Benchmark(Baseline = true, OperationsPerInvoke = Rows)]
+    public double LibraryHeadLoss()
+    {
+        double sum = 0;
+        for (int i = 0; i < Rows; i++) sum += PipeHeadLoss.Compute(_pipes[i], Water, _flows[i]).HeadLoss;
+        return sum;
+    }
+
+    [Benchmark(OperationsPerInvoke = Rows)]
+    public async Task<int> BatchCsv()
+    {
+        using var content = new StringContent(_csv, Encoding.UTF8, "text/csv");
+        using var response = await _client.PostAsync("/v1/batch/pipes/head-loss", content);
+        return (await response.Content.ReadAsStringAsync()).Length;
+    }
+
+    [Benchmark(OperationsPerInvoke = Rows)]
+    public async Task<int> BatchJson()
+    {
+        using var content = new StringContent(_json, Encoding.UTF8, "application/json");
+        using var response = await _client.PostAsync("/v1/batch/pipes/head-loss", content);
+        return (await response.Content.ReadAsStringAsync()).Length;
+    }
+}

@@ -171,9 +171,12 @@ public static class BatchEndpoints
         await using var writer = new StreamWriter(http.Response.Body, new UTF8Encoding(false), 65_536);
         var columns = descriptor.Columns;
         await writer.WriteAsync("row,httpStatus,error");
-        foreach (var c in columns) { await writer.WriteAsync(','); await writer.WriteAsync(c); }
+        foreach (var c in columns) { await writer.WriteAsync(','); await writer.WriteAsync(c.Name); }
         await writer.WriteAsync("\r\n");
         var line = new StringBuilder();
+        var plan = new Csv.HeaderPlan(header);
+        var buffer = new System.Buffers.ArrayBufferWriter<byte>(1024);
+        using var json = new Utf8JsonWriter(buffer);
         for (int i = 0; i < rows.Count; i++)
         {
             if (ct.IsCancellationRequested)
@@ -183,14 +186,16 @@ public static class BatchEndpoints
                 SolverMetrics.BatchRows.WithLabels(descriptor.Name, "cut-off").Inc(rows.Count - i);
                 break;
             }
-            var request = Csv.ToJson(header, rows[i]);
-            var (status, value) = RunRow(descriptor, JsonSerializer.SerializeToElement(request, JsonSetup.Options), logger);
+            buffer.ResetWrittenCount();
+            json.Reset(buffer);
+            Csv.WriteJson(json, plan, rows[i]);
+            json.Flush();
+            var (status, value) = RunRow(descriptor, buffer.WrittenSpan, logger);
             SolverMetrics.BatchRows.WithLabels(descriptor.Name, status < 300 ? "ok" : "error").Inc();
             line.Clear().Append(i + 1).Append(',').Append(status).Append(',');
             if (status is >= 200 and < 300)
             {
-                var json = JsonSerializer.SerializeToElement(value, value!.GetType(), JsonSetup.Options);
-                foreach (var c in columns) line.Append(',').Append(Csv.Escape(Cell(json, c)));
+                foreach (var c in columns) line.Append(',').Append(Csv.Escape(c.Read(value!)));
             }
             else
             {
@@ -204,11 +209,21 @@ public static class BatchEndpoints
         return Results.Empty;
     }
 
-    private static string Cell(JsonElement json, string column)
+    /// <summary>Runs one case given as UTF-8 JSON (a CSV row).</summary>
+    private static (int Status, object? Value) RunRow(CalculationDescriptor descriptor, ReadOnlySpan<byte> json, ILogger logger)
     {
-        if (column == "warnings" && json.TryGetProperty("warnings", out var w) && w.ValueKind == JsonValueKind.Array)
-            return string.Join(' ', w.EnumerateArray().Select(x => x.GetProperty("code").GetString()));
-        return TextFormatFilter.TryRead(json, column, out var text) ? text : "";
+        object? request;
+        try
+        {
+            request = descriptor.Bind(json);
+            if (request is null) return (400, Problem("row", "must be a JSON object of request fields"));
+        }
+        catch (JsonException e)
+        {
+            var (field, message) = BadRequestProblems.DescribeJson(e);
+            return (400, Problem(field == "body" ? "row" : field, message));
+        }
+        return Invoke(descriptor, request, logger);
     }
 
     /// <summary>Runs one case; a row's failure is that row's answer, never the batch's.</summary>
@@ -226,6 +241,11 @@ public static class BatchEndpoints
             var (field, message) = BadRequestProblems.DescribeJson(e);
             return (400, Problem(field == "body" ? "row" : field, message));
         }
+        return Invoke(descriptor, request, logger);
+    }
+
+    private static (int Status, object? Value) Invoke(CalculationDescriptor descriptor, object request, ILogger logger)
+    {
         try
         {
             return descriptor.Invoke(request).Unwrap();

@@ -1,5 +1,5 @@
 using System.Text;
-using System.Text.Json.Nodes;
+using System.Text.Json;
 
 namespace FlowSolve.Api.Batch;
 
@@ -44,36 +44,50 @@ public static class Csv
         value.AsSpan().IndexOfAny(",\"\r\n") >= 0 ? "\"" + value.Replace("\"", "\"\"") + "\"" : value;
 
     /// <summary>
-    /// Builds a request object from a header and a row: dotted names nest (section.shape), empty cells are omitted,
-    /// numbers become JSON numbers, true/false booleans, anything else a string (so a non-number in a numeric field is
-    /// reported by the field's own binding error).
+    /// Writes a request object for one row straight to UTF-8 JSON (no object tree per row): dotted header names nest
+    /// (section.shape), empty cells are omitted, numbers become JSON numbers, true/false booleans, anything else a
+    /// string (so a non-number in a numeric field is reported by that field's own binding error). The
+    /// <see cref="HeaderPlan"/> orders the columns once per batch so each nested object's fields are written together.
     /// </summary>
-    public static JsonObject ToJson(IReadOnlyList<string> header, IReadOnlyList<string> row)
+    public static void WriteJson(Utf8JsonWriter writer, HeaderPlan plan, IReadOnlyList<string> row)
     {
-        var root = new JsonObject();
-        for (int i = 0; i < header.Count && i < row.Count; i++)
+        writer.WriteStartObject();
+        string[] open = [];
+        foreach (int i in plan.Order)
         {
+            if (i >= row.Count) continue;
             string cell = row[i].Trim();
-            if (cell.Length == 0 || header[i].Length == 0) continue;
-            var parts = header[i].Split('.');
-            var target = root;
-            for (int p = 0; p < parts.Length - 1; p++)
-            {
-                if (target[parts[p]] is not JsonObject next) target[parts[p]] = next = new JsonObject();
-                target = next;
-            }
-            target[parts[^1]] = Value(cell);
+            if (cell.Length == 0) continue;
+            var parts = plan.Parts[i];
+            int common = 0;
+            while (common < open.Length && common < parts.Length - 1 && open[common] == parts[common]) common++;
+            for (int k = open.Length; k > common; k--) writer.WriteEndObject();
+            for (int k = common; k < parts.Length - 1; k++) writer.WriteStartObject(parts[k]);
+            open = parts[..^1];
+            writer.WritePropertyName(parts[^1]);
+            if (double.TryParse(cell, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out double d)
+                && double.IsFinite(d))
+                writer.WriteNumberValue(d);
+            else if (cell.Equals("true", StringComparison.OrdinalIgnoreCase)) writer.WriteBooleanValue(true);
+            else if (cell.Equals("false", StringComparison.OrdinalIgnoreCase)) writer.WriteBooleanValue(false);
+            else writer.WriteStringValue(cell);
         }
-        return root;
+        for (int k = open.Length; k > 0; k--) writer.WriteEndObject();
+        writer.WriteEndObject();
     }
 
-    private static JsonNode Value(string cell)
+    /// <summary>A header's dotted names split once, and an order that keeps each nested object's columns together.</summary>
+    public sealed class HeaderPlan
     {
-        if (double.TryParse(cell, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out double d)
-            && double.IsFinite(d))
-            return JsonValue.Create(d);
-        if (cell.Equals("true", StringComparison.OrdinalIgnoreCase)) return JsonValue.Create(true);
-        if (cell.Equals("false", StringComparison.OrdinalIgnoreCase)) return JsonValue.Create(false);
-        return JsonValue.Create(cell);
+        public string[][] Parts { get; }
+        public int[] Order { get; }
+
+        public HeaderPlan(IReadOnlyList<string> header)
+        {
+            Parts = header.Select(h => h.Split('.')).ToArray();
+            Order = Enumerable.Range(0, header.Count).Where(i => header[i].Length > 0)
+                .OrderBy(i => Parts[i].Length > 1 ? string.Join('.', Parts[i][..^1]) : "", StringComparer.Ordinal)
+                .ThenBy(i => i).ToArray();
+        }
     }
 }

@@ -22,8 +22,11 @@ public sealed class CalculationDescriptor(string name, string primaryOutput, Typ
     /// <summary>Binds a JSON object to the request type with the API's JSON rules (unknown fields rejected).</summary>
     public object? Bind(JsonElement json) => json.Deserialize(RequestType, JsonSetup.Options);
 
+    /// <summary>Binds UTF-8 JSON to the request type, as <see cref="Bind(JsonElement)"/>.</summary>
+    public object? Bind(ReadOnlySpan<byte> utf8Json) => JsonSerializer.Deserialize(utf8Json, RequestType, JsonSetup.Options);
+
     /// <summary>The CSV columns of a response: scalar fields, nested records flattened with dots, warnings as codes.</summary>
-    public IReadOnlyList<string> Columns { get; } = ResponseColumns.For(responseType);
+    public IReadOnlyList<ResponseColumn> Columns { get; } = ResponseColumns.For(responseType);
 }
 
 /// <summary>Every calculation the service offers, registered by each area when it maps its endpoints.</summary>
@@ -60,25 +63,53 @@ public static class CalculationExtensions
     }
 }
 
-/// <summary>Works out the flat column list of a response type.</summary>
+/// <summary>One CSV column of a response: its dotted wire name and how to read it as cell text.</summary>
+public sealed class ResponseColumn(string name, System.Reflection.PropertyInfo[] path)
+{
+    public string Name { get; } = name;
+
+    /// <summary>The value as cell text, formatted as the JSON answer writes it (shortest round-trip numbers,
+    /// invariant culture), so a CSV cell equals the single call's JSON digit for digit.</summary>
+    public string Read(object response)
+    {
+        object? value = response;
+        foreach (var p in path)
+        {
+            if (value is null) return "";
+            value = p.GetValue(value);
+        }
+        return value switch
+        {
+            null => "",
+            double d => d.ToString("R", System.Globalization.CultureInfo.InvariantCulture),
+            bool b => b ? "TRUE" : "FALSE",
+            IEnumerable<Contracts.WarningDto> w => string.Join(' ', w.Select(x => x.Code)),
+            IFormattable f => f.ToString(null, System.Globalization.CultureInfo.InvariantCulture),
+            _ => value.ToString() ?? "",
+        };
+    }
+}
+
+/// <summary>Works out the flat column list of a response type (reflection once per calculation, at start-up).</summary>
 internal static class ResponseColumns
 {
-    public static IReadOnlyList<string> For(Type type)
+    public static IReadOnlyList<ResponseColumn> For(Type type)
     {
-        var columns = new List<string>();
-        Walk(type, "", columns, 0);
+        var columns = new List<ResponseColumn>();
+        Walk(type, "", [], columns, 0);
         return columns;
     }
 
-    private static void Walk(Type type, string prefix, List<string> columns, int depth)
+    private static void Walk(Type type, string prefix, System.Reflection.PropertyInfo[] path, List<ResponseColumn> columns, int depth)
     {
         foreach (var p in type.GetProperties())
         {
             string name = prefix + JsonNamingPolicy.CamelCase.ConvertName(p.Name);
             var t = Nullable.GetUnderlyingType(p.PropertyType) ?? p.PropertyType;
-            if (t.IsPrimitive || t == typeof(string) || t == typeof(decimal)) columns.Add(name);
-            else if (name == "warnings") columns.Add(name);
-            else if (!typeof(System.Collections.IEnumerable).IsAssignableFrom(t) && t.IsClass && depth < 3) Walk(t, name + ".", columns, depth + 1);
+            System.Reflection.PropertyInfo[] here = [.. path, p];
+            if (t.IsPrimitive || t == typeof(string) || t == typeof(decimal)) columns.Add(new ResponseColumn(name, here));
+            else if (name == "warnings") columns.Add(new ResponseColumn(name, here));
+            else if (!typeof(System.Collections.IEnumerable).IsAssignableFrom(t) && t.IsClass && depth < 3) Walk(t, name + ".", here, columns, depth + 1);
         }
     }
 }

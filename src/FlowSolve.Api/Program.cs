@@ -2,6 +2,7 @@ using FlowSolve.Api.Batch;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Pumps;
 using Serilog;
 
 // Two-stage Serilog start: a console logger until the configuration is read, so start-up failures are logged too.
@@ -21,6 +22,7 @@ try
     app.UseFlowSolvePipeline();
     app.MapFrictionEndpoints();
     app.MapFluidEndpoints();
+    app.MapPumpEndpoints();
     app.MapBatchEndpoints();
     app.Run();
 }

@@ -66,8 +66,8 @@ internal static class PumpInputReader
         {
             if (request.Temperature is not null)
                 errors.Add("temperature", "give either temperature (water) or kinematicViscosity and density, not both");
-            double nu = errors.Required("kinematicViscosity", request.KinematicViscosity, 0, double.MaxValue, minExclusive: true);
-            double rho = errors.Required("density", request.Density, 0, double.MaxValue, minExclusive: true);
+            double nu = errors.Required("kinematicViscosity", request.KinematicViscosity, 0, double.PositiveInfinity, minExclusive: true);
+            double rho = errors.Required("density", request.Density, 0, double.PositiveInfinity, minExclusive: true);
             fluid = new FluidProperties(u.KinematicViscosityToSi(nu), u.DensityToSi(rho));
             if (double.IsFinite(nu) && !(fluid.KinematicViscosity > 0)) errors.Add("kinematicViscosity", "is too small to use");
             if (double.IsFinite(rho) && !double.IsFinite(fluid.Density!.Value)) errors.Add("density", "is too large once converted to SI");
@@ -127,8 +127,8 @@ internal static class PumpInputReader
                 {
                     string f = N($"pump.coefficients[{i}]");
                     double v = i == 0
-                        ? errors.Required(f, c[i], 0, double.MaxValue, minExclusive: true, unit: hu)
-                        : errors.Required(f, c[i], double.MinValue, double.MaxValue);
+                        ? errors.Required(f, c[i], 0, double.PositiveInfinity, minExclusive: true, unit: hu)
+                        : errors.Required(f, c[i], double.NegativeInfinity, double.PositiveInfinity);
                     si[i] = i == 0 ? u.HeadToSi(v) : u.CoefficientToSi(v, i);
                     if (double.IsFinite(v) && !double.IsFinite(si[i])) errors.Add(f, "is too large once converted to SI");
                 }
@@ -137,7 +137,7 @@ internal static class PumpInputReader
                     // Say what c0 is, so the message is actionable.
                     errors.Add(N("pump.coefficients[0]"), "c0 is the shut-off head H(0); a pump curve needs it above 0");
                 }
-                double? qmax = errors.Optional(N("pump.maximumFlow"), p.MaximumFlow, 0, double.MaxValue, minExclusive: true, unit: qu);
+                double? qmax = errors.Optional(N("pump.maximumFlow"), p.MaximumFlow, 0, double.PositiveInfinity, minExclusive: true, unit: qu);
                 if (Count(errors) == before)
                 {
                     if (qmax is null && !ReachesZeroHead(si[0], si[1], si[2], si[3]))
@@ -173,8 +173,8 @@ internal static class PumpInputReader
                     var pt = points[i];
                     string at = $"pump.points[{i}]";
                     if (pt is null) { errors.Add(at, "must be an object {flow, head}"); continue; }
-                    flows[i] = u.FlowToSi(errors.Required(at + ".flow", pt.Flow, 0, double.MaxValue, unit: qu));
-                    heads[i] = u.HeadToSi(errors.Required(at + ".head", pt.Head, 0, double.MaxValue, unit: hu));
+                    flows[i] = u.FlowToSi(errors.Required(at + ".flow", pt.Flow, 0, double.PositiveInfinity, unit: qu));
+                    heads[i] = u.HeadToSi(errors.Required(at + ".head", pt.Head, 0, double.PositiveInfinity, unit: hu));
                     if (!errors.Has(at + ".flow"))
                     {
                         for (int j = 0; j < i; j++)
@@ -199,7 +199,7 @@ internal static class PumpInputReader
                     if (pt.NpshRequired is double nr)
                     {
                         npshFlows.Add(flows[i]);
-                        npshs.Add(u.HeadToSi(errors.Required(at + ".npshRequired", nr, 0, double.MaxValue, unit: hu)));
+                        npshs.Add(u.HeadToSi(errors.Required(at + ".npshRequired", nr, 0, double.PositiveInfinity, unit: hu)));
                     }
                 }
                 if (effs.Count is > 0 and < 3)
@@ -242,8 +242,8 @@ internal static class PumpInputReader
         if (s is null) errors.Add(N("system"), "is required");
         else
         {
-            double hs = u.HeadToSi(errors.Required(N("system.staticHead"), s.StaticHead, double.MinValue, double.MaxValue, unit: hu));
-            double? k = errors.Optional(N("system.resistance"), s.Resistance, 0, double.MaxValue);
+            double hs = u.HeadToSi(errors.Required(N("system.staticHead"), s.StaticHead, double.NegativeInfinity, double.PositiveInfinity, unit: hu));
+            double? k = errors.Optional(N("system.resistance"), s.Resistance, 0, double.PositiveInfinity);
             double ksi = k is double kv ? u.CoefficientToSi(kv, 2) : 0;
             PipeGeometry[]? pipes = null;
             if (s.Pipes is null && s.Resistance is null)
@@ -260,10 +260,10 @@ internal static class PumpInputReader
                         string at = $"system.pipes[{i}]";
                         var pipe = list[i];
                         if (pipe is null) { errors.Add(N(at), "must be an object {length, diameter, roughness}"); continue; }
-                        double l = errors.Required(N(at + ".length"), pipe.Length, 0, double.MaxValue, minExclusive: true, unit: hu);
-                        double d = errors.Required(N(at + ".diameter"), pipe.Diameter, 0, double.MaxValue, minExclusive: true, unit: hu);
-                        double e = errors.Required(N(at + ".roughness"), pipe.Roughness, 0, double.MaxValue, unit: hu);
-                        double km = errors.Optional(N(at + ".minorLossCoefficient"), pipe.MinorLossCoefficient, 0, double.MaxValue) ?? 0;
+                        double l = errors.Required(N(at + ".length"), pipe.Length, 0, double.PositiveInfinity, minExclusive: true, unit: hu);
+                        double d = errors.Required(N(at + ".diameter"), pipe.Diameter, 0, double.PositiveInfinity, minExclusive: true, unit: hu);
+                        double e = errors.Required(N(at + ".roughness"), pipe.Roughness, 0, double.PositiveInfinity, unit: hu);
+                        double km = errors.Optional(N(at + ".minorLossCoefficient"), pipe.MinorLossCoefficient, 0, double.PositiveInfinity) ?? 0;
                         if (double.IsFinite(d) && double.IsFinite(e) && !(e < d))
                             errors.Add(N(at + ".roughness"), "must be smaller than the diameter");
                         pipes[i] = new PipeGeometry(u.HeadToSi(l), u.HeadToSi(d), u.HeadToSi(e), km);
@@ -286,10 +286,10 @@ internal static class PumpInputReader
         SuctionConditions? suction = null;
         if (request.Suction is { } sc)
         {
-            double zs = u.HeadToSi(errors.Required(N("suction.staticSuctionHead"), sc.StaticSuctionHead, double.MinValue, double.MaxValue, unit: hu));
-            double loss = u.HeadToSi(errors.Optional(N("suction.lossHead"), sc.LossHead, 0, double.MaxValue, unit: hu) ?? 0);
-            double? ps = errors.Optional(N("suction.surfacePressure"), sc.SurfacePressure, 0, double.MaxValue, minExclusive: true);
-            double? pv = errors.Optional(N("suction.vapourPressure"), sc.VapourPressure, 0, double.MaxValue);
+            double zs = u.HeadToSi(errors.Required(N("suction.staticSuctionHead"), sc.StaticSuctionHead, double.NegativeInfinity, double.PositiveInfinity, unit: hu));
+            double loss = u.HeadToSi(errors.Optional(N("suction.lossHead"), sc.LossHead, 0, double.PositiveInfinity, unit: hu) ?? 0);
+            double? ps = errors.Optional(N("suction.surfacePressure"), sc.SurfacePressure, 0, double.PositiveInfinity, minExclusive: true);
+            double? pv = errors.Optional(N("suction.vapourPressure"), sc.VapourPressure, 0, double.PositiveInfinity);
             double surface = ps is double psv ? u.PressureToSi(psv) : Water.AtmosphericPressure;
             if (!double.IsFinite(surface)) errors.Add(N("suction.surfacePressure"), "is too large once converted to SI");
             if (ps is null)

@@ -195,7 +195,9 @@ public sealed record DutyPointResponse(
     int Iterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable, string Method,
     string Units, string FlowUnit, string HeadUnit, string PowerUnit,
     int PumpsInParallel, int PumpsInSeries, double SpeedRatio, double ShutOffHead, double StaticHead,
-    PumpCurveDto PumpCurve, double? RmsDeviation, double? MaxDeviation, FlowRangeDto? CatalogueRange,
+    [property: Description("The pump curve used (fitted or given), in the request's units.")] PumpCurveDto PumpCurve,
+    double? RmsDeviation, double? MaxDeviation,
+    [property: Description("Flow range of the pump curve's data at rated speed, per pump (flow unit); omitted for coefficients without maximumFlow.")] FlowRangeDto? CatalogueRange,
     double? Efficiency, double? HydraulicPower, double? ShaftPower, double? ShaftPowerPerPump,
     double? BestEfficiencyFlow, double? BestEfficiencyRatio,
     double? NpshAvailable, double? SuctionLoss, double? NpshRequired, double? NpshMargin, double? NpshRatio,
@@ -222,6 +224,8 @@ public sealed record DutyPointResponse(
 public sealed record PumpCurvesResponse(
     IReadOnlyList<double> Flow, IReadOnlyList<double> PumpHead, IReadOnlyList<double> SetHead, IReadOnlyList<double> SystemHead,
     IReadOnlyList<double>? Efficiency, IReadOnlyList<double>? NpshRequired,
-    string Status, string Reason, DutyPointResponse? DutyPoint, int Iterations, bool Converged,
+    string Status, string Reason,
+    [property: Description("The duty point, as from /v1/pumps/duty-point; omitted when there is none.")] DutyPointResponse? DutyPoint,
+    int Iterations, bool Converged,
     string Units, string FlowUnit, string HeadUnit,
     IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary;

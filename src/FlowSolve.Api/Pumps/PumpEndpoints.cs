@@ -46,6 +46,7 @@ public static class PumpEndpoints
             .AsCalculation("pumps/curves", "dutyPoint.flow");
 
         routes.AddCalculation<DutyPointRequest, DutyPointResponse>("pumps/duty-point", "flow", r => CalculateDutyPoint(r));
+        PumpSchemaDescriptions.Register(routes.ServiceProvider);
         return routes;
     }
 

@@ -108,7 +108,10 @@ public static class PumpEndpoints
         var curves = OperatingCurves.Sample(input.Curve, input.System, input.Arrangement, duty is null ? null : result.Flow,
             samplePoints ?? OperatingCurves.DefaultPoints, input.Data.Efficiency, input.Data.NpshRequired);
         var warnings = new List<WarningDto>(duty?.Warnings ?? input.Warnings);
-        if (duty is null) warnings.Insert(0, new WarningDto(result.Status.Code(), NoAnswerDetail(result, u)));
+        if (duty is null)
+            warnings.Insert(0, result.Status is DutyStatus.ShutOffBelowStaticHead or DutyStatus.CurvesDoNotMeet
+                ? new WarningDto(result.Status.Code(), NoAnswerDetail(result, u))
+                : new WarningDto("not-finite", "The duty-point solve met values too large for double precision; there is no duty point to show."));
         return TypedResults.Ok(new PumpCurvesResponse(
             Convert(curves.Flow, u.Flow), Convert(curves.PumpHead, u.Head), Convert(curves.SetHead, u.Head), Convert(curves.SystemHead, u.Head),
             curves.Efficiency is null ? null : Convert(curves.Efficiency, x => x),

@@ -140,7 +140,9 @@ internal static class PumpInputReader
                 double? qmax = errors.Optional(N("pump.maximumFlow"), p.MaximumFlow, 0, double.PositiveInfinity, minExclusive: true, unit: qu);
                 if (Count(errors) == before)
                 {
-                    if (qmax is null && !ReachesZeroHead(si[0], si[1], si[2], si[3]))
+                    if (qmax is null && !double.IsFinite(CauchyBound(si[0], si[1], si[2], si[3])))
+                        errors.Add(N("pump.coefficients"), "the coefficients span too many orders of magnitude for double precision (the zero-head flow would overflow); rescale them, for example with another flow unit");
+                    else if (qmax is null && !ReachesZeroHead(si[0], si[1], si[2], si[3]))
                         errors.Add(N("pump.coefficients"), "the curve never falls to zero head, so the search for a duty point has no end; give " + N("pump.maximumFlow"));
                     else
                     {
@@ -313,6 +315,19 @@ internal static class PumpInputReader
         }
 
         if (errors.Any || !curveOk) return null;
+
+        // The friction-factor relations hold up to Reynolds 1e15; the solve and the plot reach 1.2 x the set's
+        // zero-head flow (or search limit), so a pipe must stay below that there (it does unless the inputs are absurd).
+        double reach = OperatingCurves.RangeFactor * parallel * speed * (curve.ZeroHeadFlow ?? curve.SearchLimit);
+        for (int i = 0; i < system.Pipes.Count; i++)
+        {
+            var pipe = system.Pipes[i];
+            double re = 4 * reach / (Math.PI * pipe.Diameter * fluid.KinematicViscosity);
+            if (!(re <= FlowSolve.Core.Friction.DarcyFriction.MaximumReynolds))
+                errors.Add(N($"system.pipes[{i}].diameter"), string.Create(CultureInfo.InvariantCulture,
+                    $"with this diameter and viscosity the Reynolds number reaches {re:G3} within the pump's flow range, beyond the friction-factor relations (at most 1e15)"));
+        }
+        if (errors.Any) return null;
         if (request.PumpsInParallel is null && request.PumpsInSeries is null)
             assumptions.Add(new("pumpsInParallel", "1", "one pump (default)"));
 
@@ -339,6 +354,15 @@ internal static class PumpInputReader
 
     private static bool IsFinite(in PumpCurve c) =>
         double.IsFinite(c.C0) && double.IsFinite(c.C1) && double.IsFinite(c.C2) && double.IsFinite(c.C3);
+
+    /// <summary>Cauchy's bound on the polynomial's real roots, 1 + max |c_k / c_n| for the leading coefficient c_n: where
+    /// the Core searches for the zero-head flow, so it must be finite.</summary>
+    private static double CauchyBound(double c0, double c1, double c2, double c3)
+    {
+        double lead = c3 != 0 ? c3 : c2 != 0 ? c2 : c1;
+        if (lead == 0) return 1.0;
+        return 1.0 + Math.Max(Math.Abs(c0 / lead), Math.Max(c3 != 0 ? Math.Abs(c1 / lead) : 0, c3 != 0 ? Math.Abs(c2 / lead) : c2 != 0 ? Math.Abs(c1 / lead) : 0));
+    }
 
     /// <summary>True when c0 + c1 Q + c2 Q^2 + c3 Q^3 (c0 &gt; 0) falls clearly below zero for some Q &gt; 0, so the Core's
     /// zero-head search finds the flow; a curve that only grazes zero (within 1e-9 c0) is treated as not reaching it.</summary>

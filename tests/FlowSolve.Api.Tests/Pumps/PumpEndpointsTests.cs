@@ -307,6 +307,8 @@ public sealed class PumpEndpointsTests(ApiFixture api)
         { """{"pump":{"coefficients":[40,-5000]},"system":{"staticHead":15,"resistance":3000}}""", "pump.coefficients" },
         { """{"pump":{"coefficients":[0,0,-5000]},"system":{"staticHead":15,"resistance":3000}}""", "pump.coefficients[0]" },
         { """{"pump":{"coefficients":[40,0,5000]},"system":{"staticHead":15,"resistance":3000}}""", "pump.coefficients" },
+        { """{"pump":{"coefficients":[1e300,0,-1e-300]},"system":{"staticHead":15,"resistance":3000}}""", "pump.coefficients" },
+        { """{"pump":{"coefficients":[40,0,-5000]},"system":{"staticHead":15,"pipes":[{"length":10,"diameter":1e-300,"roughness":0}]}}""", "system.pipes[0].diameter" },
         { """{"pump":{"coefficients":[40,0,-5000]},"system":{"staticHead":15,"resistance":3000},"speedRatio":0}""", "speedRatio" },
         { """{"pump":{"coefficients":[40,0,-5000]},"system":{"staticHead":15,"resistance":3000},"speedRatio":1.6}""", "speedRatio" },
         { """{"pump":{"coefficients":[40,0,-5000]},"system":{"staticHead":15,"resistance":3000},"pumpsInParallel":2,"pumpsInSeries":2}""", "pumpsInSeries" },

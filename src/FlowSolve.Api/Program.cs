@@ -4,6 +4,7 @@ using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Pipes;
+using FlowSolve.Api.Pumps;
 using Serilog;
 
 // Two-stage Serilog start: a console logger until the configuration is read, so start-up failures are logged too.
@@ -23,6 +24,7 @@ try
     app.UseFlowSolvePipeline();
     app.MapFrictionEndpoints();
     app.MapFluidEndpoints();
+    app.MapPumpEndpoints();
     app.MapBatchEndpoints();
     app.MapPipeEndpoints();
     app.MapChannelEndpoints();

@@ -1,0 +1,259 @@
+using System.ComponentModel;
+using System.Globalization;
+using FlowSolve.Api.Contracts;
+using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Problems;
+using FlowSolve.Core;
+using FlowSolve.Core.Fluids;
+using FlowSolve.Core.Friction;
+using FlowSolve.Core.Numerics;
+using FlowSolve.Core.Pipes;
+using FlowSolve.Core.Pumps;
+using Microsoft.AspNetCore.Http.HttpResults;
+using Microsoft.AspNetCore.Mvc;
+
+namespace FlowSolve.Api.Pumps;
+
+/// <summary>Pump duty points and operating curves: <c>GET|POST /v1/pumps/duty-point</c>, <c>POST /v1/pumps/curves</c>.</summary>
+public static class PumpEndpoints
+{
+    public static IEndpointRouteBuilder MapPumpEndpoints(this IEndpointRouteBuilder routes)
+    {
+        var group = routes.MapGroup("/v1/pumps").WithTags("Pumps");
+
+        group.MapGet("/duty-point", ([AsParameters] DutyPointQuery query) => DutyPointFromQuery(query))
+            .WithName("GetPumpDutyPoint")
+            .WithSummary("Pump duty point, compact form (query parameters)")
+            .WithDescription(PumpDocs.DutyPointGet)
+            .WithQueryExample(("c0", "40"), ("c1", "0"), ("c2", "-5000"), ("staticHead", "15"), ("resistance", "3000"))
+            .AsCalculation("pumps/duty-point", "flow");
+
+        group.MapPost("/duty-point", (DutyPointRequest request) => CalculateDutyPoint(request))
+            .WithName("PostPumpDutyPoint")
+            .WithSummary("Pump duty point (JSON body)")
+            .WithDescription(PumpDocs.DutyPoint)
+            .WithBodyExample(PumpDocs.Example)
+            .AsCalculation("pumps/duty-point", "flow");
+
+        group.MapPost("/curves", (DutyPointRequest request,
+                [FromQuery(Name = "samplePoints")]
+                [Description("Number of points on each curve, 2 to 10001; 41 when omitted.")] int? samplePoints) =>
+                CalculateCurves(request, samplePoints))
+            .WithName("PostPumpCurves")
+            .WithSummary("Pump, pump-set and system curves for plotting, with the duty point (JSON body)")
+            .WithDescription(PumpDocs.Curves)
+            .WithBodyExample(PumpDocs.Example)
+            .AsCalculation("pumps/curves", "dutyPoint.flow");
+
+        routes.AddCalculation<DutyPointRequest, DutyPointResponse>("pumps/duty-point", "flow", r => CalculateDutyPoint(r));
+        return routes;
+    }
+
+    /// <summary>The GET form's names for the nested fields, so a spreadsheet user is told about the parameter they typed.</summary>
+    private static readonly Dictionary<string, string> QueryNames = new(StringComparer.Ordinal)
+    {
+        ["pump"] = "c0", ["pump.coefficients"] = "c0", ["pump.coefficients[0]"] = "c0", ["pump.coefficients[1]"] = "c1",
+        ["pump.coefficients[2]"] = "c2", ["pump.coefficients[3]"] = "c3", ["pump.maximumFlow"] = "maximumFlow", ["pump.curveDegree"] = "c3",
+        ["system"] = "resistance", ["system.staticHead"] = "staticHead", ["system.resistance"] = "resistance",
+        ["system.pipes"] = "length", ["system.pipes[0].length"] = "length", ["system.pipes[0].diameter"] = "diameter",
+        ["system.pipes[0].roughness"] = "roughness", ["system.pipes[0].minorLossCoefficient"] = "minorLossCoefficient",
+        ["suction"] = "staticSuctionHead", ["suction.staticSuctionHead"] = "staticSuctionHead", ["suction.lossHead"] = "suctionLossHead",
+        ["suction.surfacePressure"] = "surfacePressure", ["suction.vapourPressure"] = "vapourPressure",
+    };
+
+    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> DutyPointFromQuery(DutyPointQuery q)
+    {
+        PumpInput? pump = q.C0 is null ? null : new PumpInput(
+            Coefficients: q.C3 is null ? [q.C0.Value, q.C1 ?? 0, q.C2 ?? 0] : [q.C0.Value, q.C1 ?? 0, q.C2 ?? 0, q.C3.Value],
+            MaximumFlow: q.MaximumFlow);
+        bool pipe = q.Length is not null || q.Diameter is not null || q.Roughness is not null || q.MinorLossCoefficient is not null;
+        SystemInput? system = q.StaticHead is null && q.Resistance is null && !pipe ? null : new SystemInput(
+            q.StaticHead, q.Resistance, pipe ? [new PipeInput(q.Length, q.Diameter, q.Roughness, q.MinorLossCoefficient)] : null);
+        SuctionInput? suction = q.StaticSuctionHead is null && q.SuctionLossHead is null && q.SurfacePressure is null && q.VapourPressure is null
+            ? null : new SuctionInput(q.StaticSuctionHead, q.SuctionLossHead, q.SurfacePressure, q.VapourPressure);
+        var request = new DutyPointRequest(pump, system, q.PumpsInParallel, q.PumpsInSeries, q.SpeedRatio, q.Temperature,
+            q.KinematicViscosity, q.Density, suction, q.Units, q.FlowUnit, q.Trace);
+        // With no system at all, the first thing to say is that the static head is missing.
+        var names = system is null ? new Dictionary<string, string>(QueryNames) { ["system"] = "staticHead" } : QueryNames;
+        return Calculate(request, names);
+    }
+
+    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> CalculateDutyPoint(DutyPointRequest request) =>
+        Calculate(request, null);
+
+    private static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> Calculate(
+        DutyPointRequest request, IReadOnlyDictionary<string, string>? names)
+    {
+        var errors = new FieldErrors();
+        var input = PumpInputReader.Read(request, errors, names);
+        if (errors.Any || input is null) return ProblemResults.BadInput(errors);
+        var (result, trace) = Solve(input);
+        if (!result.Status.HasAnswer() && result.Status != DutyStatus.NotConverged) return NoAnswer(result, input.Units);
+        if (!IsFinite(result)) return OutOfRange();
+        return TypedResults.Ok(Response(input, result, trace));
+    }
+
+    public static Results<Ok<PumpCurvesResponse>, ValidationProblem> CalculateCurves(DutyPointRequest request, int? samplePoints)
+    {
+        var errors = new FieldErrors();
+        var input = PumpInputReader.Read(request, errors, null);
+        if (samplePoints is int n && (n < 2 || n > OperatingCurves.MaximumPoints))
+            errors.Add("samplePoints", "must lie in 2 to 10001");
+        if (errors.Any || input is null) return ProblemResults.BadInput(errors);
+
+        var (result, trace) = Solve(input);
+        var u = input.Units;
+        DutyPointResponse? duty = result.Status is DutyStatus.Solved or DutyStatus.NotConverged && IsFinite(result) ? Response(input, result, trace) : null;
+        var curves = OperatingCurves.Sample(input.Curve, input.System, input.Arrangement, duty is null ? null : result.Flow,
+            samplePoints ?? OperatingCurves.DefaultPoints, input.Data.Efficiency, input.Data.NpshRequired);
+        var warnings = new List<WarningDto>(duty?.Warnings ?? input.Warnings);
+        if (duty is null)
+            warnings.Insert(0, result.Status is DutyStatus.ShutOffBelowStaticHead or DutyStatus.CurvesDoNotMeet
+                ? new WarningDto(result.Status.Code(), NoAnswerDetail(result, u))
+                : new WarningDto("not-finite", "The duty-point solve met values too large for double precision; there is no duty point to show."));
+        return TypedResults.Ok(new PumpCurvesResponse(
+            Convert(curves.Flow, u.Flow), Convert(curves.PumpHead, u.Head), Convert(curves.SetHead, u.Head), Convert(curves.SystemHead, u.Head),
+            curves.Efficiency is null ? null : Convert(curves.Efficiency, x => x),
+            curves.NpshRequired is null ? null : Convert(curves.NpshRequired, u.Head),
+            result.Status.Code(), result.Status.Reason(), duty, duty?.Iterations ?? 0, result.Status.HasAnswer(),
+            u.Code, u.FlowUnit, u.HeadUnit, warnings, input.Assumptions));
+    }
+
+    private static double[] Convert(IReadOnlyList<double> values, Func<double, double> to)
+    {
+        var a = new double[values.Count];
+        // A polynomial far beyond its data can overflow; JSON has no infinity, so clip to the largest double.
+        for (int i = 0; i < a.Length; i++) a[i] = Math.Clamp(to(values[i]), double.MinValue, double.MaxValue);
+        return a;
+    }
+
+    private static (DutyPointResult Result, SolverTrace? Trace) Solve(PumpProblem input)
+    {
+        SolverTrace? trace = input.Trace ? new SolverTrace() : null;
+        var result = DutyPoint.Solve(input.Curve, input.System, input.Arrangement, input.Data, null, trace);
+        return (result, trace);
+    }
+
+    private static string NoAnswerDetail(in DutyPointResult r, PumpUnits u)
+    {
+        var c = CultureInfo.InvariantCulture;
+        if (r.Status == DutyStatus.ShutOffBelowStaticHead)
+            return string.Format(c, "The pump set's shut-off head, {0:G6} {3}, is {1:G6} {3} below the static head, {2:G6} {3}: it cannot start " +
+                "flow. Raise the speed, add pumps in series or choose a larger pump.", u.Head(r.ShutOffHead), u.Head(r.HeadShortfall), u.Head(r.StaticHead), u.HeadUnit);
+        return string.Format(c, "From zero flow to {0:G6} {3} ({4}) the pump-set head stays above the system head; they come closest, " +
+            "{1:G6} {5} apart, at {2:G6} {3}. The system needs less head than the pumps give even at their largest flow (a falling " +
+            "static head?); there is no duty point on the pump curve.", u.Flow(r.BracketUpperFlow), u.Head(r.ClosestApproach),
+            u.Flow(r.ClosestApproachFlow), u.FlowUnit, r.ZeroHeadFlow is null ? "the end of the search: the curve does not reach zero head" : "the set's zero-head flow",
+            u.HeadUnit);
+    }
+
+    private static ProblemHttpResult NoAnswer(in DutyPointResult r, PumpUnits u)
+    {
+        var extensions = new Dictionary<string, object?>
+        {
+            ["status"] = r.Status.Code(),
+            ["shutOffHead"] = Finite(u.Head(r.ShutOffHead)),
+            ["staticHead"] = Finite(u.Head(r.StaticHead)),
+            ["headShortfall"] = Finite(u.Head(r.HeadShortfall)),
+            ["closestApproach"] = Finite(u.Head(r.ClosestApproach)),
+            ["closestApproachFlow"] = Finite(u.Flow(r.ClosestApproachFlow)),
+            ["bracketUpperFlow"] = Finite(u.Flow(r.BracketUpperFlow)),
+            ["headUnit"] = u.HeadUnit,
+            ["flowUnit"] = u.FlowUnit,
+        };
+        if (r.ZeroHeadFlow is double z) extensions["zeroHeadFlow"] = Finite(u.Flow(z));
+        string title = r.Status == DutyStatus.ShutOffBelowStaticHead
+            ? "The pump set cannot reach the static head."
+            : "The pump and system curves do not meet.";
+        return ProblemResults.NoAnswer(title, NoAnswerDetail(r, u), extensions);
+    }
+
+    /// <summary>True when the values a response must carry are finite (they are unless the inputs are extreme enough for a
+    /// polynomial or the losses to overflow a double).</summary>
+    private static bool IsFinite(in DutyPointResult r) =>
+        double.IsFinite(r.Flow) && double.IsFinite(r.Head) && double.IsFinite(r.Residual) && double.IsFinite(r.RatedSpeedFlow);
+
+    private static ProblemHttpResult OutOfRange() => ProblemResults.NoAnswer("The duty point lies outside the range of the arithmetic.",
+        "The solve met values too large for double precision (the inputs are extreme in magnitude); rescale them, for example with another flow unit.",
+        new Dictionary<string, object?> { ["status"] = "not-finite" });
+
+    /// <summary>null for a value JSON cannot carry (a ratio over a zero best-efficiency flow, for instance).</summary>
+    private static double? Finite(double? v) => v is double d && double.IsFinite(d) ? d : null;
+
+    /// <summary>The trace, unless a step holds a value JSON cannot carry (an overflowed end of the bracket).</summary>
+    private static IReadOnlyList<TraceStepDto>? Trace(SolverTrace? trace, List<WarningDto> warnings)
+    {
+        var steps = TraceStepDto.From(trace);
+        if (steps is null || steps.All(t => double.IsFinite(t.X) && double.IsFinite(t.Residual) && double.IsFinite(t.Derivative)
+            && double.IsFinite(t.Step) && double.IsFinite(t.Lower) && double.IsFinite(t.Upper))) return steps;
+        warnings.Add(new("trace-omitted", "The solver trace holds values beyond double range and is left out."));
+        return null;
+    }
+
+    private static DutyPointResponse Response(PumpProblem input, in DutyPointResult r, SolverTrace? trace)
+    {
+        var u = input.Units;
+        var curve = input.Curve;
+        var warnings = new List<WarningDto>(input.Warnings);
+        warnings.AddRange(r.DescribeWarnings().Select(WarningDto.From));
+        var validity = new List<ValidityDto>(input.Validity);
+
+        if (curve.DataMaximumFlow is double qmax)
+        {
+            double qmin = curve.DataMinimumFlow ?? 0;
+            validity.Add(new ValidityDto("pump-curve", "ratedSpeedFlow", u.Flow(qmin), u.Flow(qmax), u.Flow(r.RatedSpeedFlow),
+                r.RatedSpeedFlow >= qmin && r.RatedSpeedFlow <= qmax,
+                input.Fit is null ? "pump.maximumFlow as given" : "the flow range of the catalogue points given"));
+        }
+        var pipes = input.System.Pipes;
+        for (int i = 0; i < pipes.Count; i++)
+        {
+            var p = pipes[i];
+            double re = 4 * Math.Abs(r.Flow) / (Math.PI * p.Diameter * input.Fluid.KinematicViscosity);
+            var friction = input.System.Friction;
+            if (re < friction.LaminarLimit)
+            {
+                validity.Add(new ValidityDto("laminar", $"system.pipes[{i}].reynolds", 0, friction.LaminarLimit, re, true,
+                    "Hagen-Poiseuille law; laminar limit 2000 (common practice)"));
+                continue;
+            }
+            if (re < friction.TurbulentLimit)
+                warnings.Add(new("transitional-flow", string.Create(CultureInfo.InvariantCulture,
+                    $"system.pipes[{i}]: Reynolds number {re:G4} lies in the transition zone ({friction.LaminarLimit:G4} to {friction.TurbulentLimit:G4}); its friction factor (Churchill 1977) is uncertain.")));
+            var cw = FrictionMethodInfo.ColebrookWhite;
+            string source = cw.Source + "; range: " + cw.RangeProvenance;
+            validity.Add(ValidityDto.From(new ValidityCheck(cw.Code, source, $"system.pipes[{i}].reynolds", cw.ReynoldsMinimum, cw.ReynoldsMaximum, re)));
+            validity.Add(ValidityDto.From(new ValidityCheck(cw.Code, source, $"system.pipes[{i}].relativeRoughness",
+                cw.RelativeRoughnessMinimum, cw.RelativeRoughnessMaximum, p.RelativeRoughness)));
+        }
+
+        double? ratio = Finite(r.BestEfficiencyRatio);
+        if (r.BestEfficiencyRatio is not null && ratio is null)
+            warnings.Add(new("best-efficiency-flow-zero", "The efficiency data peak at zero flow, so the duty flow cannot be given as a fraction of the best-efficiency flow; check the efficiency points."));
+
+        return new DutyPointResponse(
+            u.Flow(r.Flow), u.Head(r.Head), u.Flow(r.FlowPerPump), u.Head(r.HeadPerPump), u.Flow(r.RatedSpeedFlow),
+            r.Iterations, r.Converged, u.Head(r.Residual), r.Status.Code(), r.SolverStatus.Code(), "set flow Q (m3/s)",
+            input.Method, u.Code, u.FlowUnit, u.HeadUnit, u.PowerUnit,
+            input.Arrangement.Parallel, input.Arrangement.Series, input.Arrangement.SpeedRatio, u.Head(r.ShutOffHead), u.Head(r.StaticHead),
+            new PumpCurveDto(
+                [u.Head(curve.C0), u.CoefficientFromSi(curve.C1, 1), u.CoefficientFromSi(curve.C2, 2), u.CoefficientFromSi(curve.C3, 3)],
+                curve.Degree, input.Fit is null ? "given" : input.Fit.Value.Status.Code(), u.Head(curve.ShutOffHead),
+                curve.ZeroHeadFlow is double z ? u.Flow(z) : null),
+            input.Fit is { } fit ? u.Head(fit.RmsDeviation) : null,
+            input.Fit is { } fit2 ? u.Head(fit2.MaxDeviation) : null,
+            r.CatalogueRange is var (lo, hi) ? new FlowRangeDto(u.Flow(lo), u.Flow(hi)) : null,
+            Finite(r.Efficiency),
+            Finite(r.HydraulicPower) is double ph ? u.Power(ph) : null,
+            Finite(r.ShaftPower) is double ps ? u.Power(ps) : null,
+            Finite(r.ShaftPowerPerPump) is double pp ? u.Power(pp) : null,
+            Finite(r.BestEfficiencyFlow) is double qb ? u.Flow(qb) : null,
+            ratio,
+            Finite(r.NpshAvailable) is double na ? u.Head(na) : null,
+            Finite(r.SuctionLoss) is double sl ? u.Head(sl) : null,
+            Finite(r.NpshRequired) is double nr ? u.Head(nr) : null,
+            Finite(r.NpshMargin) is double nm ? u.Head(nm) : null,
+            Finite(r.NpshRatio),
+            validity, warnings, input.Assumptions, Trace(trace, warnings));
+    }
+}

@@ -4,21 +4,65 @@ using FlowSolve.Core.Numerics;
 namespace FlowSolve.Core.Friction;
 
 /// <summary>The exact Colebrook-White friction factor, with its derivatives, solved by <see cref="SafeguardedNewton"/>.</summary>
-/// <param name="FrictionFactor">Darcy friction factor f (dimensionless).</param>
-/// <param name="Iterations">Newton (or bisection) steps taken.</param>
-/// <param name="Evaluations">Evaluations of the equation, the start estimate included.</param>
-/// <param name="Residual">Residual of the equation in the solve variable x = 1/sqrt(f) at the last evaluated iterate; when
-/// the solve ends on a predicted step (the usual case) the returned factor lies one Newton step further and its own residual
-/// is far smaller: <see cref="ColebrookWhite.Residual"/> evaluates it.</param>
-/// <param name="Status">Why the solve stopped.</param>
-/// <param name="DerivativeReynolds">df/dRe at the solution, by implicit differentiation.</param>
-/// <param name="DerivativeRelativeRoughness">df/d(e/D) at the solution, by implicit differentiation.</param>
-public readonly record struct ColebrookResult(
-    double FrictionFactor, int Iterations, int Evaluations, double Residual, SolveStatus Status,
-    double DerivativeReynolds, double DerivativeRelativeRoughness)
+/// <remarks>The derivatives are computed when read, so a caller that wants only the factor does not pay their three
+/// divisions.</remarks>
+public readonly struct ColebrookResult
 {
+    private const double TwoOverLn10 = 0.86858896380650365530;
+    private readonly double _reynolds, _relativeRoughness;
+
+    internal ColebrookResult(double frictionFactor, int iterations, int evaluations, double residual, SolveStatus status,
+        double reynolds, double relativeRoughness)
+    {
+        FrictionFactor = frictionFactor;
+        Iterations = iterations;
+        Evaluations = evaluations;
+        Residual = residual;
+        Status = status;
+        _reynolds = reynolds;
+        _relativeRoughness = relativeRoughness;
+    }
+
+    /// <summary>Darcy friction factor f (dimensionless).</summary>
+    public double FrictionFactor { get; }
+
+    /// <summary>Newton (or bisection) steps taken.</summary>
+    public int Iterations { get; }
+
+    /// <summary>Evaluations of the equation.</summary>
+    public int Evaluations { get; }
+
+    /// <summary>Residual of the equation in the solve variable x = 1/sqrt(f) at the last evaluated iterate; when the solve
+    /// ends on a predicted step (the usual case) the returned factor lies one Newton step further and its own residual is
+    /// far smaller: <see cref="ColebrookWhite.Residual"/> evaluates it.</summary>
+    public double Residual { get; }
+
+    /// <summary>Why the solve stopped.</summary>
+    public SolveStatus Status { get; }
+
     /// <summary>True when the solve converged.</summary>
     public bool Converged => Status.IsConverged();
+
+    /// <summary>df/dRe at the solution, by implicit differentiation of the equation.</summary>
+    public double DerivativeReynolds => Derivatives().Reynolds;
+
+    /// <summary>df/d(e/D) at the solution, by implicit differentiation of the equation.</summary>
+    public double DerivativeRelativeRoughness => Derivatives().RelativeRoughness;
+
+    /// <summary>Both derivatives at once: implicit differentiation of g(x, Re, r) = x + 2 log10(r/3.7 + 2.51 x/Re) = 0,
+    /// dx/dp = -g_p / g_x, with df/dx = -2/x^3.</summary>
+    public (double Reynolds, double RelativeRoughness) Derivatives()
+    {
+        double f = FrictionFactor;
+        double x = 1.0 / Math.Sqrt(f);
+        double invReynolds = 1.0 / _reynolds;
+        double invA = 1.0 / (_relativeRoughness * (1.0 / 3.7) + 2.51 * x * invReynolds);
+        double gx = 1.0 + TwoOverLn10 * 2.51 * invReynolds * invA;
+        double scale = 2.0 * f / (x * gx);           // -(df/dx) / g_x
+        double gRe = -TwoOverLn10 * 2.51 * x * invReynolds * invReynolds * invA;
+        double gR = TwoOverLn10 * (1.0 / 3.7) * invA;
+        return (scale * gRe, scale * gR);
+    }
 }
 
 /// <summary>
@@ -77,15 +121,8 @@ public static class ColebrookWhite
         RootResult root = SafeguardedNewton.Solve(in equation, bracket, Start, in Options, trace);
 
         double x = root.Root;
-        double f = 1.0 / (x * x);
-        // Implicit differentiation of g(x, Re, r) = 0: dx/dp = -g_p / g_x, and df/dx = -2/x^3.
-        double a = relativeRoughness / 3.7 + 2.51 * x / reynolds;
-        double gx = 1.0 + TwoOverLn10 * 2.51 / (reynolds * a);
-        double gRe = -TwoOverLn10 * 2.51 * x / (reynolds * reynolds * a);
-        double gR = TwoOverLn10 / (3.7 * a);
-        double dfdx = -2.0 * f / x;
-        return new ColebrookResult(f, root.Iterations, root.Evaluations, root.Residual, root.Status,
-            dfdx * (-gRe / gx), dfdx * (-gR / gx));
+        return new ColebrookResult(1.0 / (x * x), root.Iterations, root.Evaluations, root.Residual, root.Status,
+            reynolds, relativeRoughness);
     }
 
     /// <summary>The residual of Colebrook-White at a given friction factor, in the solve variable 1/sqrt(f).</summary>

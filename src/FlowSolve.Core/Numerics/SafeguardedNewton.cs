@@ -153,7 +153,8 @@ public static class SafeguardedNewton
                 && Math.Abs(step) <= 0.1 * Math.Abs(previousStep))
             {
                 // e(k+1) ~ C e(k)^2 with C ~ |step| / previousStep^2; the error left after this step is C step^2.
-                double predicted = Math.Abs(step) * (step / previousStep) * (step / previousStep);
+                double ratio = step / previousStep;
+                double predicted = Math.Abs(step) * ratio * ratio;
                 if (predicted <= tolerance)
                     return new RootResult(next, iteration, evaluations, fx, lo, hi, Math.Abs(step), SolveStatus.ConvergedOnPredictedStep);
             }

@@ -74,7 +74,7 @@ public static class SheetParts
         double yMin = Math.Pow(10, Math.Floor(Math.Log10(points.Min(p => p.Item2)) - 0.01));
         if (yMax / yMin < 100) yMin = yMax / 100;
         var plot = new SvgPlot("plot-convergence", "Convergence history",
-            new PlotAxis("iteration", 0.5, steps.Count + 0.5), new PlotAxis("|residual| " + residualLabel, yMin, yMax, Log: true), height: 280);
+            new PlotAxis("iteration", 0.5, steps.Count + 0.5, Integer: true), new PlotAxis("|residual| " + residualLabel, yMin, yMax, Log: true), height: 280);
         plot.Curve("residual", points, accent: false, role: "residual");
         foreach (var (x, y) in points.Take(points.Length - 1)) plot.Marker("iteration", x, y, "", role: "iterate", accent: false);
         var last = points[^1];

@@ -9,7 +9,8 @@ namespace FlowSolve.Api.Sheets;
 /// <param name="Minimum">Lower end in data units (greater than 0 on a log axis).</param>
 /// <param name="Maximum">Upper end in data units.</param>
 /// <param name="Log">True for a base-10 logarithmic axis.</param>
-public sealed record PlotAxis(string Label, double Minimum, double Maximum, bool Log = false);
+/// <param name="Integer">True for ticks at whole numbers only (iteration counts).</param>
+public sealed record PlotAxis(string Label, double Minimum, double Maximum, bool Log = false, bool Integer = false);
 
 /// <summary>
 /// A small SVG writer for the calculation sheets: a plot frame with ticks, curves, shaded bands, horizontal reference
@@ -64,7 +65,7 @@ public sealed class SvgPlot
 
     public PlotAxis Y => _y;
 
-    /// <summary>A curve through the points (points outside the axes' ranges are kept in the data and clipped in the drawing).</summary>
+    /// <summary>A curve through the points (points outside the axes' ranges are kept in the data and left out of the drawing).</summary>
     public SvgPlot Curve(string name, IReadOnlyList<(double X, double Y)> points, bool accent = false, bool dashed = false, string role = "curve")
     {
         var data = new StringBuilder("[");
@@ -74,11 +75,11 @@ public sealed class SvgPlot
             var (x, y) = points[i];
             if (i > 0) data.Append(',');
             data.Append('[').Append(Num(x)).Append(',').Append(Num(y)).Append(']');
-            if (!Drawable(x, y)) continue;
+            if (!Drawable(x, y) || !Inside(x, y)) continue;
             drawn.Append(Px(x).ToString(C)).Append(',').Append(Py(y).ToString(C)).Append(' ');
         }
         data.Append(']');
-        _body.Append(C, $"<polyline data-role=\"{Enc(role)}\" data-name=\"{Enc(name)}\" data-points=\"{Enc(data.ToString())}\" points=\"{drawn.ToString().TrimEnd()}\" fill=\"none\" stroke=\"{(accent ? Accent : Grey)}\" stroke-width=\"{(accent ? 2 : 1.2)}\"{(dashed ? " stroke-dasharray=\"5 4\"" : "")} clip-path=\"url(#{_id}-clip)\"/>");
+        _body.Append(C, $"<polyline data-role=\"{Enc(role)}\" data-name=\"{Enc(name)}\" data-points=\"{Enc(data.ToString())}\" points=\"{drawn.ToString().TrimEnd()}\" fill=\"none\" stroke=\"{(accent ? Accent : Grey)}\" stroke-width=\"{(accent ? 2 : 1.2)}\"{(dashed ? " stroke-dasharray=\"5 4\"" : "")}/>");
         return this;
     }
 
@@ -165,7 +166,6 @@ public sealed class SvgPlot
         var sb = new StringBuilder();
         sb.Append(C, $"<svg id=\"{Enc(_id)}\" class=\"plot\" viewBox=\"0 0 {_width:0.##} {_height:0.##}\" role=\"img\" aria-label=\"{Enc(_title)}\" data-x-scale=\"{(_x.Log ? "log" : "linear")}\" data-y-scale=\"{(_y.Log ? "log" : "linear")}\" font-family=\"Helvetica, Arial, sans-serif\">");
         sb.Append(C, $"<title>{Enc(_title)}</title>");
-        sb.Append(C, $"<defs><clipPath id=\"{Enc(_id)}-clip\"><rect x=\"{Left}\" y=\"{Top}\" width=\"{PlotWidth:0.##}\" height=\"{PlotHeight:0.##}\"/></clipPath></defs>");
         sb.Append(C, $"<rect x=\"0\" y=\"0\" width=\"{_width:0.##}\" height=\"{_height:0.##}\" fill=\"#ffffff\"/>");
         Ticks(sb, _x, horizontal: true);
         Ticks(sb, _y, horizontal: false);
@@ -184,6 +184,8 @@ public sealed class SvgPlot
 
     private bool Drawable(double x, double y) =>
         double.IsFinite(x) && double.IsFinite(y) && (!_x.Log || x > 0) && (!_y.Log || y > 0);
+
+    private bool Inside(double x, double y) => T(_x, x) is >= -1e-9 and <= 1 + 1e-9 && T(_y, y) is >= -1e-9 and <= 1 + 1e-9;
 
     private static double T(PlotAxis a, double v) =>
         a.Log ? (Math.Log10(v) - Math.Log10(a.Minimum)) / (Math.Log10(a.Maximum) - Math.Log10(a.Minimum)) : (v - a.Minimum) / (a.Maximum - a.Minimum);
@@ -235,6 +237,7 @@ public sealed class SvgPlot
         double raw = span / 6;
         double p = Math.Pow(10, Math.Floor(Math.Log10(raw)));
         double step = raw / p < 1.5 ? p : raw / p < 3.5 ? 2 * p : raw / p < 7.5 ? 5 * p : 10 * p;
+        if (a.Integer) step = Math.Max(1, Math.Round(step));
         for (double v = Math.Ceiling(a.Minimum / step) * step; v <= a.Maximum + 1e-9 * span; v += step)
             yield return (Math.Abs(v) < 1e-12 * span ? 0 : v, true);
     }
@@ -244,7 +247,8 @@ public sealed class SvgPlot
         if (a.Log)
         {
             double e = Math.Log10(v);
-            if (Math.Abs(e - Math.Round(e)) < 1e-9 && (e < -2 || e > 4)) return "1e" + Math.Round(e).ToString(C);
+            if (Math.Abs(e - Math.Round(e)) < 1e-9 && (e < -2 || e > 3)) return "1e" + Math.Round(e).ToString(C);
+            return v.ToString("0.####", C);
         }
         return v.ToString("G4", C);
     }

@@ -44,9 +44,11 @@ public sealed class CalculationCatalog
 
 public static class CalculationExtensions
 {
-    /// <summary>Marks an endpoint as a calculation: it answers <c>format=text</c> with <paramref name="primaryOutput"/> (or <c>select</c>).</summary>
+    /// <summary>Marks an endpoint as a calculation: it answers <c>format=text</c> with <paramref name="primaryOutput"/> (or <c>select</c>),
+    /// and <c>format=html</c> with its calculation sheet.</summary>
     public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput) =>
-        builder.WithMetadata(new CalculationMetadata(name, primaryOutput)).AddEndpointFilter<SolverMetricsFilter>().AddEndpointFilter<TextFormatFilter>();
+        builder.WithMetadata(new CalculationMetadata(name, primaryOutput)).AddEndpointFilter<SolverMetricsFilter>().AddEndpointFilter<TextFormatFilter>()
+            .AddEndpointFilter<FlowSolve.Api.Sheets.HtmlFormatFilter>();
 
     /// <summary>Registers a calculation for <c>POST /v1/batch/{name}</c>.</summary>
     public static void AddCalculation<TRequest, TResponse>(this IEndpointRouteBuilder routes, string name, string primaryOutput,

@@ -101,7 +101,10 @@ public static class Protection
         // The documentation UI needs its own scripts and styles; everything else is data and needs nothing.
         h.ContentSecurityPolicy = ctx.Request.Path.StartsWithSegments("/docs")
             ? "default-src 'self'; img-src 'self' data:; style-src 'self' 'unsafe-inline'; script-src 'self' 'unsafe-inline'; frame-ancestors 'none'"
-            : "default-src 'none'; frame-ancestors 'none'";
+            // A calculation sheet (format=html) carries its own inline style sheet and inline SVG, and nothing else.
+            : ctx.Response.ContentType?.StartsWith("text/html", StringComparison.OrdinalIgnoreCase) == true
+                ? "default-src 'none'; style-src 'unsafe-inline'; frame-ancestors 'none'"
+                : "default-src 'none'; frame-ancestors 'none'";
     }
 
     /// <summary>

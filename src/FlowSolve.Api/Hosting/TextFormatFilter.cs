@@ -17,10 +17,12 @@ public sealed class TextFormatFilter : IEndpointFilter
     {
         var http = context.HttpContext;
         string? format = http.Request.Query["format"];
-        if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase)) return await next(context);
+        // json is the default; html is the calculation sheet's (HtmlFormatFilter, further in).
+        if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase) || format.Equals("html", StringComparison.OrdinalIgnoreCase))
+            return await next(context);
         if (!format.Equals("text", StringComparison.OrdinalIgnoreCase))
         {
-            return TypedResults.ValidationProblem(new Dictionary<string, string[]> { ["format"] = ["must be json or text"] },
+            return TypedResults.ValidationProblem(new Dictionary<string, string[]> { ["format"] = ["must be json, text or html"] },
                 title: "One or more fields are invalid.", type: "https://flowsolve.example/problems/invalid-input");
         }
 

@@ -1,0 +1,341 @@
+using System.Globalization;
+using FlowSolve.Api.Channels;
+using FlowSolve.Api.Contracts;
+using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Problems;
+using FlowSolve.Core.Channels;
+using FlowSolve.Core.Numerics;
+
+namespace FlowSolve.Api.Sheets;
+
+/// <summary>What the two channel sheets share: the section read again, its drawing to scale, and the re-solve for the record.</summary>
+internal static class ChannelSheetParts
+{
+    private static readonly CultureInfo C = CultureInfo.InvariantCulture;
+
+    /// <summary>The channel solvers return no per-iteration record, so the sheet re-solves the same residual with the
+    /// same root finder. Tolerances as the Core's solve in ln y (a relative depth error of 1e-13).</summary>
+    private static readonly SolverOptions RecordOptions = new(1e-13, 0.0, 1e-13, 100);
+
+    public sealed record Read(ChannelSection Section, ChannelUnits Units, string? UnitsText, double? ManningN, double Flow,
+        double? Slope, SectionFields Fields);
+
+    public static Read ReadRequest(object request)
+    {
+        var errors = new FieldErrors();
+        (SectionFields fields, string prefix, string? units, double? n, double? flow, double? slope) = request switch
+        {
+            NormalDepthRequest b => (SectionFields.From(b.Section!), "section.", b.Units, b.ManningN, b.Flow, b.Slope),
+            CriticalDepthRequest b => (SectionFields.From(b.Section!), "section.", b.Units, b.ManningN, b.Flow, (double?)null),
+            NormalDepthQuery q => (Fields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter, q.Points, errors), "", q.Units, q.ManningN, q.Flow, q.Slope),
+            CriticalDepthQuery q => (Fields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter, q.Points, errors), "", q.Units, q.ManningN, q.Flow, (double?)null),
+            _ => throw new ArgumentException("not a channel request", nameof(request)),
+        };
+        var u = new ChannelUnits(UnitSystem.Parse(units, errors));
+        // The request passed validation when the response was made, so the section reads again without errors.
+        var section = ChannelInput.Read(fields, prefix, u, errors, []) ?? throw new InvalidOperationException("the section did not read again");
+        return new Read(section, u, units, n, flow!.Value, slope, fields);
+    }
+
+    private static SectionFields Fields(string? shape, double? b, double? z, double? zl, double? zr, double? d, string? points, FieldErrors errors) =>
+        new(shape, b, z, zl, zr, d, ChannelInput.ParsePoints(points, errors));
+
+    public static void Inputs(Sheet sheet, Read read, string shape)
+    {
+        var u = read.Units;
+        string lu = u.LengthUnit;
+        sheet.Inputs.Add(new("Section shape", shape, "", "as given"));
+        switch (read.Section)
+        {
+            case RectangularSection s:
+                sheet.Inputs.Add(new("Bottom width b", SheetHtml.Fmt(u.Length(s.Width)), lu, "as given"));
+                break;
+            case TrapezoidalSection s:
+                sheet.Inputs.Add(new("Bottom width b", SheetHtml.Fmt(u.Length(s.BottomWidth)), lu, "as given"));
+                sheet.Inputs.Add(new("Left side slope", SheetHtml.Fmt(s.LeftSideSlope), "H per 1 V", "as given"));
+                sheet.Inputs.Add(new("Right side slope", SheetHtml.Fmt(s.RightSideSlope), "H per 1 V", "as given"));
+                break;
+            case TriangularSection s:
+                sheet.Inputs.Add(new("Left side slope", SheetHtml.Fmt(s.LeftSideSlope), "H per 1 V", "as given"));
+                sheet.Inputs.Add(new("Right side slope", SheetHtml.Fmt(s.RightSideSlope), "H per 1 V", "as given"));
+                break;
+            case CircularSection s:
+                sheet.Inputs.Add(new("Diameter D", SheetHtml.Fmt(u.Length(s.Diameter)), lu, "as given"));
+                break;
+            case SurveyedSection s:
+                for (int i = 0; i < s.PointCount; i++)
+                {
+                    double n = s.SegmentManningN(i);
+                    sheet.Inputs.Add(new($"Point {i + 1}: station, elevation", SheetHtml.Fmt(u.Length(s.Station(i))) + ", " + SheetHtml.Fmt(u.Length(s.Elevation(i))), lu,
+                        i < s.PointCount - 1 && double.IsFinite(n) && n > 0 ? string.Create(C, $"segment n {n:G4}") : ""));
+                }
+                break;
+        }
+        sheet.Inputs.Add(new("Discharge Q", SheetHtml.Fmt(read.Flow), u.FlowUnit, "as given"));
+        if (read.Slope is double slope) sheet.Inputs.Add(new("Bed slope S", SheetHtml.Fmt(slope), "m/m", "as given"));
+        sheet.Inputs.Add(new("Manning n", SheetHtml.Fmt(read.ManningN), "s m^-1/3", read.ManningN is null ? "not given" : "as given"));
+        sheet.Inputs.Add(new("Units", u.System.Code, "", read.UnitsText is null ? "default" : "as given"));
+    }
+
+    /// <summary>The section to scale in the response's length unit (invert at 0) with the water lines given.</summary>
+    public static SheetFigure Drawing(ChannelSection section, ChannelUnits u, IReadOnlyList<(string Name, double Depth, bool Accent, bool Dashed)> levels, string caption)
+    {
+        double top = levels.Max(l => l.Depth);
+        double height = section.MaximumDepth is double m && double.IsFinite(m) ? m : 1.35 * top;
+        var outline = Outline(section, u, height);
+        double xMin = outline.Min(p => p.X), xMax = outline.Max(p => p.X);
+        double yMax = outline.Max(p => p.Y);
+        double padX = 0.06 * (xMax - xMin), padY = 0.08 * Math.Max(yMax, xMax - xMin);
+        var plot = SvgPlot.EqualScale("plot-section", "Cross-section to scale", $"station ({u.LengthUnit})", $"height above invert ({u.LengthUnit})",
+            xMin - padX, xMax + padX, -padY, yMax + padY);
+        plot.Outline(section.Shape.ToString().ToLowerInvariant(), outline, closed: section is CircularSection);
+        foreach (var (name, depth, accent, dashed) in levels)
+        {
+            var (x1, x2) = Edges(section, u, depth);
+            plot.Level(name, x1, x2, depth, string.Create(C, $"{ShortName(name)} = {depth:G5} {u.LengthUnit}"), accent, dashed: dashed);
+        }
+        return new SheetFigure("section", plot.Render(), caption);
+    }
+
+    private static string ShortName(string name) => name switch
+    {
+        "normal depth" => "yn",
+        "alternate normal depth" => "yn'",
+        "critical depth" => "yc",
+        _ => "yc'",
+    };
+
+    /// <summary>The section's outline in the response's length unit, invert at height 0, up to <paramref name="height"/> (display units).</summary>
+    public static List<(double X, double Y)> Outline(ChannelSection section, ChannelUnits u, double height)
+    {
+        switch (section)
+        {
+            case RectangularSection s:
+            {
+                double b = u.Length(s.Width);
+                return [(0, height), (0, 0), (b, 0), (b, height)];
+            }
+            case TrapezoidalSection s:
+            {
+                double b = u.Length(s.BottomWidth);
+                return [(-s.LeftSideSlope * height, height), (0, 0), (b, 0), (b + s.RightSideSlope * height, height)];
+            }
+            case TriangularSection s:
+                return [(-s.LeftSideSlope * height, height), (0, 0), (s.RightSideSlope * height, height)];
+            case CircularSection s:
+            {
+                double r = 0.5 * u.Length(s.Diameter);
+                return Enumerable.Range(0, 96).Select(i => 2 * Math.PI * i / 96)
+                    .Select(a => (r * Math.Sin(a), r - r * Math.Cos(a))).ToList();
+            }
+            case SurveyedSection s:
+                return Enumerable.Range(0, s.PointCount)
+                    .Select(i => (u.Length(s.Station(i)), u.Length(s.Elevation(i) - s.InvertElevation))).ToList();
+            default:
+                return [];
+        }
+    }
+
+    /// <summary>The two water edges of a level in display units: where the water surface meets the section walls.</summary>
+    public static (double Left, double Right) Edges(ChannelSection section, ChannelUnits u, double depth)
+    {
+        switch (section)
+        {
+            case RectangularSection s: return (0, u.Length(s.Width));
+            case TrapezoidalSection s: return (-s.LeftSideSlope * depth, u.Length(s.BottomWidth) + s.RightSideSlope * depth);
+            case TriangularSection s: return (-s.LeftSideSlope * depth, s.RightSideSlope * depth);
+            case CircularSection s:
+            {
+                double r = 0.5 * u.Length(s.Diameter);
+                double half = Math.Sqrt(Math.Max(0, r * r - (depth - r) * (depth - r)));
+                return (-half, half);
+            }
+            case SurveyedSection s:
+            {
+                var pts = Outline(s, u, 0);
+                int low = 0;
+                for (int i = 1; i < pts.Count; i++) if (pts[i].Y < pts[low].Y) low = i;
+                double left = pts[0].X, right = pts[^1].X;
+                for (int i = low; i > 0; i--)
+                    if (pts[i - 1].Y >= depth) { left = Cross(pts[i], pts[i - 1], depth); break; }
+                for (int i = low; i < pts.Count - 1; i++)
+                    if (pts[i + 1].Y >= depth) { right = Cross(pts[i], pts[i + 1], depth); break; }
+                return (left, right);
+            }
+            default: return (0, 0);
+        }
+    }
+
+    private static double Cross((double X, double Y) a, (double X, double Y) b, double y) =>
+        b.Y == a.Y ? b.X : a.X + (b.X - a.X) * (y - a.Y) / (b.Y - a.Y);
+
+    /// <summary>Manning's residual in u = ln y: ln K(y) - ln(Q / sqrt(S)), with d/du = y K'(y)/K(y).</summary>
+    private readonly struct ConveyanceInLogDepth(ChannelSection section, double n, double logTarget) : IDifferentiableFunction
+    {
+        public (double Value, double Derivative) Evaluate(double u)
+        {
+            double y = Math.Exp(u);
+            var g = section.At(y);
+            double k = g.Conveyance(n);
+            return (Math.Log(k) - logTarget, y * g.ConveyanceDerivative(n) / k);
+        }
+    }
+
+    /// <summary>The critical-flow residual in u = ln y: ln(A^3/T) - ln(Q^2/g), with d/du = y (3T/A - T'/T).</summary>
+    private readonly struct CriticalInLogDepth(ChannelSection section, double logTarget) : IDifferentiableFunction
+    {
+        public (double Value, double Derivative) Evaluate(double u)
+        {
+            double y = Math.Exp(u);
+            var g = section.At(y);
+            return (3 * Math.Log(g.Area) - Math.Log(g.TopWidth) - logTarget, y * (3 * g.TopWidth / g.Area - g.TopWidthDerivative / g.TopWidth));
+        }
+    }
+
+    /// <summary>Lower and upper ends of the re-solve's search range, m, unless the depth lies outside it.</summary>
+    public const double SearchLower = 1e-6, SearchUpper = 1e5;
+
+    /// <summary>Re-solves for the record from a fixed search range, 1 micrometre to 100 km (cut at the section's top, the
+    /// circle's peak discharge, or between two roots), started at its middle in ln y; returns the steps and the root found,
+    /// or none when the range does not hold one root.</summary>
+    public static (IReadOnlyList<TraceStepDto> Steps, double? Root) Record(ChannelSection section, double depthSi, double upperCapSi,
+        double flowSi, double? slope, double manningN)
+    {
+        double lower = Math.Log(Math.Min(SearchLower, depthSi / 100)), upper = Math.Log(Math.Min(Math.Max(SearchUpper, 100 * depthSi), upperCapSi));
+        if (!(upper > Math.Log(depthSi))) return ([], null);
+        var trace = new SolverTrace();
+        try
+        {
+            RootResult result = slope is double s
+                ? SafeguardedNewton.Solve(new ConveyanceInLogDepth(section, manningN, Math.Log(flowSi / Math.Sqrt(s))),
+                    Bracket.Checked(lower, upper), double.NaN, RecordOptions, trace)
+                : SafeguardedNewton.Solve(new CriticalInLogDepth(section, Math.Log(flowSi * flowSi / CriticalFlow.StandardGravity)),
+                    Bracket.Checked(lower, upper), double.NaN, RecordOptions, trace);
+            var steps = (TraceStepDto.From(trace) ?? []).ToList();
+            // A solve that meets the residual tolerance at a new iterate stops before writing a trace row for it: show
+            // that last evaluation too, so the history ends at the residual that stopped the solve.
+            if (result.Status == SolveStatus.ConvergedOnResidual && (steps.Count == 0 || steps[^1].X != result.Root))
+                steps.Add(new TraceStepDto(steps.Count + 1, result.Root, result.Residual, double.NaN, 0, "final evaluation", null, result.Lower, result.Upper));
+            return (steps, result.Converged ? Math.Exp(result.Root) : null);
+        }
+        catch (ArgumentException)
+        {
+            return ([], null);
+        }
+    }
+
+    public static string RecordNote(int iterations, string status, double? root, double reported, ChannelUnits u)
+    {
+        string own = string.Create(C, $"The response's own solve took {iterations} iterations and stopped with {status}. ");
+        if (root is not double y) return own + "The channel solvers keep no per-iteration record, and the re-solve for this sheet found no single root in its bracket, so no iterations are listed.";
+        return own + string.Create(C,
+            $"The channel solvers keep no per-iteration record, so the iterations listed are a re-solve for this sheet: the same residual, the same safeguarded Newton, in u = ln y, searching from 1e-6 m up to the section's top (or 1e5 m) and started at the middle of that range in ln y, where the Core starts from an explicit estimate (so the counts differ). It finds {u.Length(y):R} {u.LengthUnit}, a relative difference of {Math.Abs(u.Length(y) / reported - 1):0.0e0} from the reported depth.");
+    }
+}
+
+/// <summary>The normal-depth sheet.</summary>
+public sealed class NormalDepthSheet : ISheetBuilder
+{
+    public string Name => "channels/normal-depth";
+
+    public Sheet Build(SheetContext context)
+    {
+        var r = (NormalDepthResponse)context.Response;
+        var read = ChannelSheetParts.ReadRequest(context.Request);
+        var u = read.Units;
+        var sheet = new Sheet { Title = "Normal depth in an open channel", Calculation = Name };
+        ChannelSheetParts.Inputs(sheet, read, r.Shape);
+        sheet.Assumptions.AddRange(r.Assumptions);
+        Methods(sheet.Methods, read.Section.HasCompositeRoughness);
+
+        string lu = u.LengthUnit;
+        sheet.Results.Add(new("Normal depth yn", SheetHtml.Fmt(r.NormalDepth), lu, "the lowest depth that carries the flow"));
+        if (r.AlternateNormalDepth is double alt) sheet.Results.Add(new("Alternate normal depth", SheetHtml.Fmt(alt), lu, "a second depth carries the same flow"));
+        sheet.Results.Add(new("Critical depth yc", SheetHtml.Fmt(r.CriticalDepth), lu, ""));
+        sheet.Results.Add(new("Flow area A", SheetHtml.Fmt(r.Area), u.IsUs ? "ft2" : "m2", ""));
+        sheet.Results.Add(new("Wetted perimeter P", SheetHtml.Fmt(r.WettedPerimeter), lu, ""));
+        sheet.Results.Add(new("Hydraulic radius R", SheetHtml.Fmt(r.HydraulicRadius), lu, ""));
+        sheet.Results.Add(new("Top width T", SheetHtml.Fmt(r.TopWidth), lu, ""));
+        sheet.Results.Add(new("Velocity V", SheetHtml.Fmt(r.Velocity), u.IsUs ? "ft/s" : "m/s", ""));
+        sheet.Results.Add(new("Froude number", SheetHtml.Fmt(r.FroudeNumber), "-", r.Regime));
+        sheet.Results.Add(new("Specific energy", SheetHtml.Fmt(r.SpecificEnergy), lu, ""));
+        sheet.Results.Add(new("Effective Manning n", SheetHtml.Fmt(r.EffectiveManningN), "s m^-1/3", ""));
+        sheet.Results.Add(new("Critical slope", SheetHtml.Fmt(r.CriticalSlope), "m/m", ""));
+        if (r.Capacity is { } cap)
+            sheet.Results.Add(new("Greatest discharge of the section", SheetHtml.Fmt(cap.MaximumFlow), u.FlowUnit, string.Create(CultureInfo.InvariantCulture, $"at depth {cap.DepthAtMaximumFlow:G6} {lu}")));
+
+        double ySi = u.LengthToSi(r.NormalDepth);
+        double cap2 = read.Section is CircularSection c ? c.PeakDischargeDepth
+            : r.AlternateNormalDepth is double a2 ? u.LengthToSi(0.5 * (r.NormalDepth + a2)) : read.Section.MaximumDepth;
+        var (steps, root) = ChannelSheetParts.Record(read.Section, ySi, cap2, u.FlowToSi(read.Flow), read.Slope, read.ManningN ?? 0);
+        sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual, "ln(Q(yn)/Q): the relative discharge mismatch", r.Status,
+            SheetParts.StopReason(r.Status), "u = ln y", steps, ChannelSheetParts.RecordNote(r.Iterations, r.Status, root, r.NormalDepth, u));
+        sheet.Validity.AddRange(r.Validity);
+        sheet.Warnings.AddRange(r.Warnings);
+
+        var levels = new List<(string, double, bool, bool)> { ("normal depth", r.NormalDepth, true, false) };
+        if (r.AlternateNormalDepth is double alt2) levels.Add(("alternate normal depth", alt2, true, true));
+        if (r.CriticalDepth is double yc) levels.Add(("critical depth", yc, false, true));
+        sheet.Figures.Add(ChannelSheetParts.Drawing(read.Section, u, levels,
+            "The cross-section to scale (both axes in one unit) with the normal-depth water line (accent)"
+            + (r.AlternateNormalDepth is null ? "" : ", the alternate normal depth (accent, dashed)")
+            + (r.CriticalDepth is null ? "" : " and the critical-depth line (grey, dashed)") + "."));
+        sheet.Figures.Add(SheetParts.Convergence(steps, "(ln Q ratio)", "Residual of Manning's equation at each iteration of the re-solve, log scale; the last iteration is marked."));
+        return sheet;
+    }
+
+    internal static void Methods(List<SheetMethod> methods, bool composite)
+    {
+        methods.Add(new("Manning's equation", "Q = (1/n) A R^(2/3) S^(1/2) (SI; k = 1.486 in US units); solved for y in u = ln y by safeguarded Newton",
+            "Manning (1891), Trans. ICE Ireland 20, from memory; n values: Chow (1959), Open-Channel Hydraulics, Table 5-6 (from memory)"));
+        if (composite)
+            methods.Add(new("Horton-Einstein composite roughness", "n = [sum(P_i n_i^1.5) / P]^(2/3)", "Horton (1933); Einstein (1934); as in Chow (1959), section 6-6 (from memory)"));
+        methods.Add(new("Critical flow", "Q^2 T = g A^3 (Froude number 1 on the hydraulic depth A/T); g = 9.80665 m/s2",
+            "Chow (1959), Open-Channel Hydraulics, chapter 4 (from memory)"));
+    }
+}
+
+/// <summary>The critical-depth sheet.</summary>
+public sealed class CriticalDepthSheet : ISheetBuilder
+{
+    public string Name => "channels/critical-depth";
+
+    public Sheet Build(SheetContext context)
+    {
+        var r = (CriticalDepthResponse)context.Response;
+        var read = ChannelSheetParts.ReadRequest(context.Request);
+        var u = read.Units;
+        var sheet = new Sheet { Title = "Critical depth in an open channel", Calculation = Name };
+        ChannelSheetParts.Inputs(sheet, read, r.Shape);
+        sheet.Assumptions.AddRange(r.Assumptions);
+        NormalDepthSheet.Methods(sheet.Methods, read.Section.HasCompositeRoughness);
+        sheet.Methods.RemoveAt(0);
+        if (read.ManningN is not null || read.Section.HasOwnRoughness)
+            sheet.Methods.Add(new("Critical slope (Manning)", "the bed slope whose normal depth is the critical depth",
+                "Manning (1891), from memory; Chow (1959), section 6-3 (from memory)"));
+
+        string lu = u.LengthUnit;
+        sheet.Results.Add(new("Critical depth yc", SheetHtml.Fmt(r.CriticalDepth), lu, r.AlternateCriticalDepths is null ? "" : "the lowest of several"));
+        foreach (var d in r.AlternateCriticalDepths ?? []) sheet.Results.Add(new("Further critical depth", SheetHtml.Fmt(d), lu, ""));
+        sheet.Results.Add(new("Flow area A", SheetHtml.Fmt(r.Area), u.IsUs ? "ft2" : "m2", ""));
+        sheet.Results.Add(new("Top width T", SheetHtml.Fmt(r.TopWidth), lu, ""));
+        sheet.Results.Add(new("Velocity V", SheetHtml.Fmt(r.Velocity), u.IsUs ? "ft/s" : "m/s", ""));
+        sheet.Results.Add(new("Specific energy (least)", SheetHtml.Fmt(r.SpecificEnergy), lu, ""));
+        sheet.Results.Add(new("Critical slope", SheetHtml.Fmt(r.CriticalSlope), "m/m", r.CriticalSlope is null ? "needs a Manning n" : ""));
+
+        double ySi = u.LengthToSi(r.CriticalDepth);
+        double cap = r.AlternateCriticalDepths is { Count: > 0 } more ? u.LengthToSi(0.5 * (r.CriticalDepth + more[0]))
+            : read.Section is CircularSection c ? c.Diameter * (1 - 1e-9) : read.Section.MaximumDepth;
+        var (steps, root) = ChannelSheetParts.Record(read.Section, ySi, cap, u.FlowToSi(read.Flow), null, 0);
+        sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual, "ln(g A^3 / (Q^2 T)): the relative mismatch of the critical-flow condition",
+            r.Status, SheetParts.StopReason(r.Status), "u = ln y", steps, ChannelSheetParts.RecordNote(r.Iterations, r.Status, root, r.CriticalDepth, u));
+        sheet.Warnings.AddRange(r.Warnings);
+
+        var levels = new List<(string, double, bool, bool)> { ("critical depth", r.CriticalDepth, true, false) };
+        foreach (var d in r.AlternateCriticalDepths ?? []) levels.Add(("further critical depth", d, true, true));
+        sheet.Figures.Add(ChannelSheetParts.Drawing(read.Section, u, levels,
+            "The cross-section to scale (both axes in one unit) with the critical-depth water line" + (r.AlternateCriticalDepths is null ? "." : "s.")));
+        sheet.Figures.Add(SheetParts.Convergence(steps, "(ln ratio)", "Residual of the critical-flow condition at each iteration of the re-solve, log scale; the last iteration is marked."));
+        return sheet;
+    }
+}

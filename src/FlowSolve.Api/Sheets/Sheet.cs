@@ -1,0 +1,52 @@
+using FlowSolve.Api.Contracts;
+
+namespace FlowSolve.Api.Sheets;
+
+/// <summary>One line of a table of quantities: name, value as text, unit, and a note (where it came from).</summary>
+public sealed record SheetRow(string Name, string Value, string Unit = "", string Note = "");
+
+/// <summary>A relation used, by name, with its equation in words or symbols and its published source.</summary>
+public sealed record SheetMethod(string Name, string Equation, string Source);
+
+/// <summary>A figure: an inline SVG element and its caption.</summary>
+public sealed record SheetFigure(string Id, string Svg, string Caption);
+
+/// <summary>The solver's record for the sheet: the summary the response gave, and the iterations behind it.</summary>
+/// <param name="Iterations">Iterations the response reports.</param>
+/// <param name="Converged">Whether the response's solve converged.</param>
+/// <param name="FinalResidual">The response's final residual.</param>
+/// <param name="ResidualMeaning">What the residual measures.</param>
+/// <param name="Status">The stop status code.</param>
+/// <param name="StopReason">The stop reason in words.</param>
+/// <param name="SolveVariable">The variable iterated on.</param>
+/// <param name="Steps">Each iteration (may be empty for an explicit relation).</param>
+/// <param name="Note">Where the iterations come from (the response's own trace, or a re-solve for the record).</param>
+public sealed record SolverRecord(
+    int Iterations, bool Converged, double FinalResidual, string ResidualMeaning, string Status, string StopReason,
+    string SolveVariable, IReadOnlyList<TraceStepDto> Steps, string Note);
+
+/// <summary>Everything a calculation sheet shows; <see cref="SheetHtml"/> renders it.</summary>
+public sealed class Sheet
+{
+    public required string Title { get; init; }
+
+    /// <summary>The calculation's route below /v1.</summary>
+    public required string Calculation { get; init; }
+
+    /// <summary>The inputs as understood, with units (defaults appear here too, marked in the note).</summary>
+    public List<SheetRow> Inputs { get; } = [];
+
+    public List<SheetMethod> Methods { get; } = [];
+
+    public List<SheetRow> Results { get; } = [];
+
+    public SolverRecord? Solver { get; set; }
+
+    public List<ValidityDto> Validity { get; } = [];
+
+    public List<WarningDto> Warnings { get; } = [];
+
+    public List<AssumptionDto> Assumptions { get; } = [];
+
+    public List<SheetFigure> Figures { get; } = [];
+}

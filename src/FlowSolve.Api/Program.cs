@@ -1,5 +1,6 @@
 using FlowSolve.Api.Batch;
 using FlowSolve.Api.Channels;
+using FlowSolve.Api.Check;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
@@ -28,6 +29,7 @@ try
     app.MapBatchEndpoints();
     app.MapPipeEndpoints();
     app.MapChannelEndpoints();
+    app.MapCheckEndpoints(); // after every calculation: it registers a check for each
     app.Run();
 }
 catch (Exception ex) when (ex is not HostAbortedException)

@@ -96,6 +96,29 @@ Console.WriteLine($"  normal depth {culvert.NormalDepth:F3} m ({culvert.NormalDe
                   $"V {culvert.Velocity:F3} m/s, Fr {culvert.FroudeNumber:F3}; full-pipe flow {culvert.Capacity?.FullFlow:F3} m3/s");
 Report(culvert.Converged, culvert.Iterations, culvert.Status.Code(), ChannelWarnings(culvert.Warnings));
 
+// --- a caller's own Newton iteration with the head loss and its derivative ------------------------------------------
+// A network tool that embeds FlowSolve runs its own Newton iteration; PipeHeadLoss.WithDerivative gives each pipe's
+// loss with dh/dQ including the friction factor's own dependence on flow (Simpson and Elhay 2011, J. Hydraul. Eng.
+// 137(6): dropping that term slows convergence to linear). Here: the flow the 22.5 m fall between Quarrytop and
+// Wrenfold drives through the gravity line, solved by plain Newton on h(Q) - 22.5 = 0 with the exact derivative.
+{
+    var line = new PipeGeometry(Length: 4800, Diameter: 0.2292, Roughness: 1.5e-6, MinorLossCoefficient: 6.0);
+    const double fall = 118.5 - 96.0;
+    double q = 0.01;
+    Heading("Caller-side Newton step with dh/dQ (gravity line, 22.5 m fall)");
+    for (int iteration = 1; iteration <= 20; iteration++)
+    {
+        var (h, dhdq) = PipeHeadLoss.WithDerivative(line, fluid.KinematicViscosity, q);
+        double step = (h - fall) / dhdq;
+        q -= step;
+        Console.WriteLine($"  iteration {iteration}: Q {q:0.000000000} m3/s, residual {h - fall:0.000E+00} m");
+        if (Math.Abs(step) <= 1e-13 * q) break;
+    }
+    var check = PipeFlow.Solve(line, fluid, fall);
+    Console.WriteLine($"  FlowSolve's own flow solve: {check.Flow:0.000000000} m3/s ({check.Iterations} iterations)");
+    if (Math.Abs(check.Flow / q - 1) > 1e-9) failures++;
+}
+
 Console.WriteLine();
 Console.WriteLine(failures == 0 ? "every calculation converged" : $"{failures} calculation(s) did not converge");
 return failures == 0 ? 0 : 1;

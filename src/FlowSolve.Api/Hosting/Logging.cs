@@ -1,13 +1,14 @@
 using Serilog;
 using Serilog.Events;
 using Serilog.Formatting.Compact;
+using Serilog.Formatting.Display;
 
 namespace FlowSolve.Api.Hosting;
 
 /// <summary>
 /// Serilog: one structured completion event per request (method, route, status, elapsed) through
-/// <c>UseSerilogRequestLogging</c>, framework noise raised to Warning, and the console sink behind an
-/// asynchronous buffer so that writing logs never blocks a request thread.
+/// <c>UseSerilogRequestLogging</c>, framework noise raised to Warning, and a buffered standard-output sink behind an
+/// asynchronous queue so that writing logs never blocks a request thread (see <see cref="BufferedStdoutSink"/>).
 /// </summary>
 /// <remarks>
 /// Settings: <c>FlowSolve:Logging:Level</c> (Verbose, Debug, Information (default), Warning, Error) and
@@ -24,11 +25,10 @@ public static class Logging
             .MinimumLevel.Override("Microsoft.AspNetCore", LogEventLevel.Warning)
             .MinimumLevel.Override("Microsoft.Hosting.Lifetime", LogEventLevel.Information)
             .Enrich.FromLogContext()
-            .WriteTo.Async(a =>
-            {
-                if (json) a.Console(new CompactJsonFormatter());
-                else a.Console(outputTemplate: "[{Timestamp:HH:mm:ss} {Level:u3}] {Message:lj}{NewLine}{Exception}");
-            }, bufferSize: 10_000, blockWhenFull: false);
+            .WriteTo.Async(a => a.Sink(new BufferedStdoutSink(json
+                    ? new CompactJsonFormatter()
+                    : new MessageTemplateTextFormatter("[{Timestamp:HH:mm:ss} {Level:u3}] {Message:lj}{NewLine}{Exception}"))),
+                bufferSize: 10_000, blockWhenFull: false);
     }
 
     public static WebApplication UseFlowSolveRequestLogging(this WebApplication app)

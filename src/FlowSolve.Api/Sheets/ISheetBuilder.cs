@@ -36,8 +36,7 @@ public static class SheetBuilders
         new NormalDepthSheet(),
         new CriticalDepthSheet(),
         new WaterSheet(),
-        // Extension point for pumps/duty-point: a PumpDutySheet (pump, system and combined curves with the duty point
-        // and the best-efficiency point) goes here once the pump endpoints are on main.
+        new PumpDutySheet(),
     }.ToDictionary(b => b.Name, StringComparer.OrdinalIgnoreCase);
 
     public static IEnumerable<string> Names => ByName.Keys;

@@ -24,6 +24,7 @@ public sealed class SheetBrowserTests
         { "channels-normal-depth", "/v1/channels/normal-depth?shape=trapezoidal&bottomWidth=3&sideSlope=2&manningN=0.025&slope=0.001&flow=10&format=html", ["plot-section", "plot-convergence"] },
         { "channels-critical-depth", "/v1/channels/critical-depth?shape=surveyed&points=0:2.5,3:1,5:0,9:0,11:1,14:2.2&flow=8&format=html", ["plot-section", "plot-convergence"] },
         { "fluids-water", "/v1/fluids/water?temperature=20&format=html", ["plot-water"] },
+        { "pumps-duty-point", "/v1/pumps/duty-point?c0=40&c2=-5000&staticHead=15&resistance=3000&pumpsInParallel=2&format=html", ["plot-duty-point", "plot-convergence"] },
     };
 
     [Theory]

@@ -61,7 +61,9 @@ public static class PumpEndpoints
         ["suction.surfacePressure"] = "surfacePressure", ["suction.vapourPressure"] = "vapourPressure",
     };
 
-    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> DutyPointFromQuery(DutyPointQuery q)
+    /// <summary>The GET form as the body it stands for: one pump curve as coefficients, one pipe or a lumped
+    /// resistance, the suction fields. Shared with the calculation sheet.</summary>
+    internal static DutyPointRequest ToRequest(DutyPointQuery q)
     {
         PumpInput? pump = q.C0 is null ? null : new PumpInput(
             Coefficients: q.C3 is null ? [q.C0.Value, q.C1 ?? 0, q.C2 ?? 0] : [q.C0.Value, q.C1 ?? 0, q.C2 ?? 0, q.C3.Value],
@@ -71,8 +73,14 @@ public static class PumpEndpoints
             q.StaticHead, q.Resistance, pipe ? [new PipeInput(q.Length, q.Diameter, q.Roughness, q.MinorLossCoefficient)] : null);
         SuctionInput? suction = q.StaticSuctionHead is null && q.SuctionLossHead is null && q.SurfacePressure is null && q.VapourPressure is null
             ? null : new SuctionInput(q.StaticSuctionHead, q.SuctionLossHead, q.SurfacePressure, q.VapourPressure);
-        var request = new DutyPointRequest(pump, system, q.PumpsInParallel, q.PumpsInSeries, q.SpeedRatio, q.Temperature,
+        return new DutyPointRequest(pump, system, q.PumpsInParallel, q.PumpsInSeries, q.SpeedRatio, q.Temperature,
             q.KinematicViscosity, q.Density, suction, q.Units, q.FlowUnit, q.Trace);
+    }
+
+    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> DutyPointFromQuery(DutyPointQuery q)
+    {
+        var request = ToRequest(q);
+        var system = request.System;
         // With no system at all, the first thing to say is that the static head is missing.
         var names = system is null ? new Dictionary<string, string>(QueryNames) { ["system"] = "staticHead" } : QueryNames;
         return Calculate(request, names);

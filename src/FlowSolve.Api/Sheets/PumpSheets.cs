@@ -27,7 +27,7 @@ public sealed class PumpDutySheet : ISheetBuilder
         var request = context.Request switch
         {
             DutyPointRequest body => body,
-            DutyPointQuery query => FromQuery(query),
+            DutyPointQuery query => PumpEndpoints.ToRequest(query),
             _ => throw new ArgumentException("not a duty-point request", nameof(context)),
         };
         var r = (DutyPointResponse)context.Response;
@@ -65,22 +65,6 @@ public sealed class PumpDutySheet : ISheetBuilder
         sheet.Figures.Add(SheetParts.Convergence(steps, "(m)",
             "Pump-set head minus system head at each Newton iteration, in m, log scale; the last iteration is marked."));
         return sheet;
-    }
-
-    /// <summary>The GET form as the body it stands for: the same mapping as the endpoint's (one pump curve as
-    /// coefficients, one pipe or a lumped resistance, the suction fields).</summary>
-    internal static DutyPointRequest FromQuery(DutyPointQuery q)
-    {
-        PumpInput? pump = q.C0 is null ? null : new PumpInput(
-            Coefficients: q.C3 is null ? [q.C0.Value, q.C1 ?? 0, q.C2 ?? 0] : [q.C0.Value, q.C1 ?? 0, q.C2 ?? 0, q.C3.Value],
-            MaximumFlow: q.MaximumFlow);
-        bool pipe = q.Length is not null || q.Diameter is not null || q.Roughness is not null || q.MinorLossCoefficient is not null;
-        SystemInput? system = q.StaticHead is null && q.Resistance is null && !pipe ? null : new SystemInput(
-            q.StaticHead, q.Resistance, pipe ? [new Pumps.PipeInput(q.Length, q.Diameter, q.Roughness, q.MinorLossCoefficient)] : null);
-        SuctionInput? suction = q.StaticSuctionHead is null && q.SuctionLossHead is null && q.SurfacePressure is null && q.VapourPressure is null
-            ? null : new SuctionInput(q.StaticSuctionHead, q.SuctionLossHead, q.SurfacePressure, q.VapourPressure);
-        return new DutyPointRequest(pump, system, q.PumpsInParallel, q.PumpsInSeries, q.SpeedRatio, q.Temperature,
-            q.KinematicViscosity, q.Density, suction, q.Units, q.FlowUnit, q.Trace);
     }
 
     private static void Inputs(Sheet sheet, DutyPointRequest request, DutyPointResponse r)

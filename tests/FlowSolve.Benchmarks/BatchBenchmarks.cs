@@ -19,6 +19,8 @@ public class BatchBenchmarks
     private string _json = "";
     private readonly PipeGeometry[] _pipes = new PipeGeometry[Rows];
     private readonly double[] _flows = new double[Rows];
+    private readonly FlowSolve.Api.Pipes.PipeHeadLossRequest[] _requests = new FlowSolve.Api.Pipes.PipeHeadLossRequest[Rows];
+    private readonly Microsoft.Extensions.Logging.ILoggerFactory _logs = Microsoft.Extensions.Logging.Abstractions.NullLoggerFactory.Instance;
     private static readonly FluidProperties Water = new(1.0034e-6, 998.2);
 
     [GlobalSetup]
@@ -35,6 +37,8 @@ public class BatchBenchmarks
             double d = 0.1 + 0.9 * random.NextDouble(), q = 0.02 + 0.5 * random.NextDouble() * d * d, l = 100 + 900 * random.NextDouble();
             _pipes[i] = new PipeGeometry(l, d, 0.00026, 2);
             _flows[i] = q;
+            _requests[i] = new FlowSolve.Api.Pipes.PipeHeadLossRequest(q, d, l, Roughness: 0.00026, MinorLossCoefficient: 2,
+                KinematicViscosity: 1.0034e-6, Density: 998.2);
             FormattableString row = $"{q},{d},{l},0.00026,2,1.0034e-6,998.2\n";
             csv.Append(row.ToString(System.Globalization.CultureInfo.InvariantCulture));
             json.Append(i == 0 ? "" : ",").Append(System.Globalization.CultureInfo.InvariantCulture,
@@ -57,6 +61,17 @@ public class BatchBenchmarks
         double sum = 0;
         for (int i = 0; i < Rows; i++) sum += PipeHeadLoss.Compute(_pipes[i], Water, _flows[i]).HeadLoss;
         return sum;
+    }
+
+    /// <summary>The endpoint's own handler on bound requests: validation, the Core call and the response record with
+    /// its validity, warnings and assumptions, without HTTP, parsing or serialisation.</summary>
+    [Benchmark(OperationsPerInvoke = Rows)]
+    public int Handler()
+    {
+        int n = 0;
+        for (int i = 0; i < Rows; i++)
+            n += FlowSolve.Api.Pipes.PipeEndpoints.HeadLoss(_requests[i], _logs).Result is not null ? 1 : 0;
+        return n;
     }
 
     [Benchmark(OperationsPerInvoke = Rows)]

@@ -152,10 +152,10 @@ public static class SafeguardedNewton
             if (options.PredictQuadraticConvergence && kind == StepKind.Newton && previousWasNewton
                 && Math.Abs(step) <= 0.1 * Math.Abs(previousStep))
             {
-                // e(k+1) ~ C e(k)^2 with C ~ |step| / previousStep^2; the error left after this step is C step^2.
-                double ratio = step / previousStep;
-                double predicted = Math.Abs(step) * ratio * ratio;
-                if (predicted <= tolerance)
+                // e(k+1) ~ C e(k)^2 with C ~ |step| / previousStep^2; the error left after this step is C step^2, and
+                // C step^2 <= tolerance is tested as |step|^3 <= tolerance previousStep^2 to keep a division off the path.
+                double a = Math.Abs(step);
+                if (a * a * a <= tolerance * previousStep * previousStep)
                     return new RootResult(next, iteration, evaluations, fx, lo, hi, Math.Abs(step), SolveStatus.ConvergedOnPredictedStep);
             }
             previousWasNewton = kind == StepKind.Newton;

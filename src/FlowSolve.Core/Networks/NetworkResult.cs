@@ -7,7 +7,7 @@ namespace FlowSolve.Core.Networks;
 /// <param name="HeadTolerance">Converged when every open link's energy imbalance |H_from - H_to - h(Q)| is at most this,
 /// in m (default 1e-10 m)...</param>
 /// <param name="FlowTolerance">...and every junction's continuity error |inflow - outflow - demand| is at most this, in
-/// m3/s (default 1e-11 m3/s). The linear solve is driven to a hundredth of it.</param>
+/// m3/s (default 1e-10 m3/s). The final linear solves are driven to a tenth of it.</param>
 /// <param name="MaxIterations">Cap on Newton iterations over all status passes together (default 100).</param>
 /// <param name="MaxStatusPasses">Cap on passes of the status check (check valves, pumps) after which the statuses must
 /// have settled (default 10).</param>
@@ -23,9 +23,9 @@ public readonly record struct NetworkOptions(
     double HeadTolerance, double FlowTolerance, int MaxIterations, int MaxStatusPasses, int MaxLinearIterations,
     double RegularisationVelocity, double MinimumDesignVelocity, double MaximumDesignVelocity, FrictionOptions Friction)
 {
-    /// <summary>1e-10 m, 1e-11 m3/s, 100 iterations, 10 status passes, 5000 linear iterations, 1e-3 m/s, 0.6 to 3.0 m/s,
+    /// <summary>1e-10 m, 1e-10 m3/s, 100 iterations, 10 status passes, 5000 linear iterations, 1e-3 m/s, 0.6 to 3.0 m/s,
     /// regime limits 2000 and 4000.</summary>
-    public static NetworkOptions Default { get; } = new(1e-10, 1e-11, 100, 10, 5000, 1e-3, 0.6, 3.0, FrictionOptions.Default);
+    public static NetworkOptions Default { get; } = new(1e-10, 1e-10, 100, 10, 5000, 1e-3, 0.6, 3.0, FrictionOptions.Default);
 
     internal void Validate()
     {

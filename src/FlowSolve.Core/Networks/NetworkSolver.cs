@@ -1,0 +1,655 @@
+using FlowSolve.Core.Friction;
+using FlowSolve.Core.Pipes;
+using FlowSolve.Core.Pumps;
+
+namespace FlowSolve.Core.Networks;
+
+/// <summary>
+/// Steady flows and heads of a looped pipe network by the global gradient algorithm: Newton's method on the coupled
+/// energy and continuity equations of the whole network (Todini and Pilati 1988).
+/// </summary>
+/// <remarks>
+/// <para>Equations. For each open link l from node i to node j, energy: H_i - H_j = h_l(Q_l), with h the Darcy-Weisbach
+/// (exact Colebrook-White, <see cref="PipeHeadLoss.WithDerivative"/>) or Hazen-Williams loss, or minus a pump's head
+/// s^2 H(Q/s). For each junction n, continuity: sum of inflows - sum of outflows = demand_n. Linearising the energy
+/// equation at the current flows with g_l = dh/dQ gives Q'_l = y_l + (H'_i - H'_j)/g_l, y_l = Q_l - h_l/g_l; putting
+/// that into continuity leaves the Schur complement A21 D^-1 A12 H' = b in the junction heads alone, a weighted graph
+/// Laplacian (weights 1/g_l) plus the links to reservoirs on its diagonal: sparse, symmetric and positive definite
+/// when every part of the network reaches a reservoir. New flows follow link by link, and meet continuity exactly
+/// (to the linear solve's residual) after every iteration.</para>
+/// <para>Quadratic convergence needs the true derivative: for Darcy-Weisbach g includes the friction factor's
+/// dependence on the flow through df/dRe (Simpson and Elhay 2011, J. Hydraul. Eng. 137(6)). Near Q = 0 the laminar law
+/// keeps g positive; Hazen-Williams (whose g vanishes at 0) is replaced below <see cref="NetworkOptions.RegularisationVelocity"/>
+/// by an odd cubic with matching value and slope (after Elhay and Simpson 2011, J. Hydraul. Eng. 137(10)); a pump's g
+/// is floored at a small positive value.</para>
+/// <para>Linear algebra: the head system is solved by conjugate gradients with an incomplete Cholesky preconditioner
+/// (<see cref="SymmetricSparseSolver"/>) on a pattern built once, warm-started from the current heads; buffers are
+/// reused across iterations and load cases.</para>
+/// <para>Statuses: check valves and pumps are held fixed during a Newton solve; then a check valve carrying reverse
+/// flow closes, a closed one with forward head opens, a pump driven backwards stops, a stopped one whose shut-off head
+/// exceeds the head across it restarts, and the solve runs again from where it stood, up to
+/// <see cref="NetworkOptions.MaxStatusPasses"/> times. A closed link carries exactly zero flow; in the head system it
+/// keeps a vanishing conductance (1e-14 m2/s) so that a junction it isolates still has a defined head.</para>
+/// <para>An instance keeps its state between solves (warm start) and is not thread-safe; the static methods create
+/// their own instance. The results are engineering estimates to be checked by a qualified engineer.</para>
+/// </remarks>
+public sealed class NetworkSolver
+{
+    private const double ClosedConductance = 1e-14;
+    private const double InitialVelocity = 0.3; // m/s, a usual start for the global gradient algorithm (common practice)
+
+    private enum Kind : byte { Darcy, Hazen, Pump }
+
+    private readonly NetworkModel _model;
+    private readonly NetworkOptions _options;
+    private readonly int _junctions, _reservoirs, _pipes, _links;
+
+    private readonly int[] _from, _to;
+    private readonly Kind[] _kind;
+    private readonly PipeGeometry[] _geometry;
+    private readonly double[] _area, _hazenConstant, _minorConstant;
+    private readonly bool[] _checkValve;
+    private readonly PumpCurve[] _curve;
+    private readonly double[] _speed, _pumpSlopeFloor;
+    private readonly double[] _turbulentFriction, _turbulentSlope; // Colebrook-White f and df/dRe at the turbulent limit
+    private readonly double[] _baseDemand, _demand, _elevation;
+
+    private readonly LinkStatus[] _status;
+    private readonly double[] _flow, _headLoss, _slope, _y, _conductance;
+    private readonly double[] _head;       // all nodes; reservoirs hold their fixed head
+    private readonly double[] _rhs, _x, _continuity;
+
+    private readonly SymmetricSparseSolver _matrix;
+    private readonly int[] _diagFrom, _diagTo, _offFromTo, _offToFrom;
+    private readonly string[] _unsupplied;
+    private readonly IReadOnlyDictionary<string, int> _linkIndex, _nodeIndex;
+    private bool _warm;
+
+    /// <summary>Validates the model and prepares every buffer and the sparsity pattern of the head equations.</summary>
+    /// <param name="model">The network.</param>
+    /// <param name="options">Tolerances and limits; <see cref="NetworkOptions.Default"/> when omitted.</param>
+    /// <exception cref="NetworkValidationException">The model is invalid; <see cref="NetworkValidationException.Issues"/>
+    /// names each offending element.</exception>
+    /// <exception cref="ArgumentOutOfRangeException">An option is out of range.</exception>
+    public NetworkSolver(NetworkModel model, NetworkOptions? options = null)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        var issues = model.Validate();
+        if (issues.Count > 0) throw new NetworkValidationException(issues);
+        _options = options ?? NetworkOptions.Default;
+        _options.Validate();
+        _model = model;
+
+        _junctions = model.Junctions.Count;
+        _reservoirs = model.Reservoirs.Count;
+        _pipes = model.Pipes.Count;
+        _links = _pipes + model.Pumps.Count;
+        int nodes = _junctions + _reservoirs;
+
+        var nodeIndex = new Dictionary<string, int>(nodes, StringComparer.Ordinal);
+        _baseDemand = new double[_junctions];
+        _demand = new double[_junctions];
+        _elevation = new double[_junctions];
+        _head = new double[nodes];
+        for (int j = 0; j < _junctions; j++)
+        {
+            var junction = model.Junctions[j];
+            nodeIndex[junction.Id] = j;
+            _baseDemand[j] = junction.Demand;
+            _elevation[j] = junction.Elevation;
+        }
+        for (int r = 0; r < _reservoirs; r++)
+        {
+            nodeIndex[model.Reservoirs[r].Id] = ~r;
+            _head[_junctions + r] = model.Reservoirs[r].Head;
+        }
+        _nodeIndex = nodeIndex;
+        int Node(string id) { int k = nodeIndex[id]; return k >= 0 ? k : _junctions + ~k; }
+
+        _from = new int[_links];
+        _to = new int[_links];
+        _kind = new Kind[_links];
+        _geometry = new PipeGeometry[_links];
+        _area = new double[_links];
+        _hazenConstant = new double[_links];
+        _minorConstant = new double[_links];
+        _checkValve = new bool[_links];
+        _curve = new PumpCurve[_links];
+        _speed = new double[_links];
+        _pumpSlopeFloor = new double[_links];
+        _status = new LinkStatus[_links];
+        _turbulentFriction = new double[_links];
+        _turbulentSlope = new double[_links];
+        var linkIndex = new Dictionary<string, int>(_links, StringComparer.Ordinal);
+        double g = Physical.StandardGravity;
+        for (int l = 0; l < _pipes; l++)
+        {
+            var p = model.Pipes[l];
+            linkIndex[p.Id] = l;
+            _from[l] = Node(p.From);
+            _to[l] = Node(p.To);
+            double area = 0.25 * Math.PI * p.Diameter * p.Diameter;
+            _area[l] = area;
+            _minorConstant[l] = p.MinorLossCoefficient / (2 * g * area * area);
+            _checkValve[l] = p.CheckValve;
+            if (p.HazenWilliamsC is double c)
+            {
+                _kind[l] = Kind.Hazen;
+                _hazenConstant[l] = HazenConstant(p.Length, p.Diameter, c);
+                _geometry[l] = new PipeGeometry(p.Length, p.Diameter, 0, p.MinorLossCoefficient);
+            }
+            else
+            {
+                _kind[l] = Kind.Darcy;
+                _geometry[l] = new PipeGeometry(p.Length, p.Diameter, p.Roughness, p.MinorLossCoefficient);
+                var cw = ColebrookWhite.Solve(_options.Friction.TurbulentLimit, p.Roughness / p.Diameter);
+                (_turbulentFriction[l], _turbulentSlope[l]) = (cw.FrictionFactor, cw.DerivativeReynolds);
+            }
+        }
+        for (int k = 0; k < model.Pumps.Count; k++)
+        {
+            int l = _pipes + k;
+            var p = model.Pumps[k];
+            linkIndex[p.Id] = ~k;
+            _from[l] = Node(p.From);
+            _to[l] = Node(p.To);
+            _kind[l] = Kind.Pump;
+            _curve[l] = p.Curve;
+            _speed[l] = p.SpeedRatio;
+            double qRef = p.Curve.ZeroHeadFlow ?? p.Curve.SearchLimit;
+            // A pump's slope can vanish (a flat curve at shut-off); floor it at a millionth of the curve's mean slope.
+            _pumpSlopeFloor[l] = 1e-6 * Math.Abs(p.Curve.C0) * Math.Max(p.SpeedRatio, 1e-3) / qRef;
+        }
+        _linkIndex = linkIndex;
+
+        _flow = new double[_links];
+        _headLoss = new double[_links];
+        _slope = new double[_links];
+        _y = new double[_links];
+        _conductance = new double[_links];
+        _rhs = new double[_junctions];
+        _x = new double[_junctions];
+        _continuity = new double[_junctions];
+
+        (_matrix, _diagFrom, _diagTo, _offFromTo, _offToFrom) = BuildPattern();
+        _unsupplied = FindUnsupplied();
+        Reset();
+    }
+
+    /// <summary>The options in force.</summary>
+    public NetworkOptions Options => _options;
+
+    /// <summary>Solves a network once (a new solver; no warm start).</summary>
+    /// <param name="model">The network.</param>
+    /// <param name="options">Tolerances and limits; <see cref="NetworkOptions.Default"/> when omitted.</param>
+    /// <returns>The result; non-convergence and unsupplied parts are statuses, never exceptions.</returns>
+    /// <exception cref="NetworkValidationException">The model is invalid (each issue names its element).</exception>
+    public static NetworkResult Solve(NetworkModel model, NetworkOptions? options = null) =>
+        new NetworkSolver(model, options).SolveCase(1.0);
+
+    /// <summary>Solves several load cases, each a multiplier on every demand, warm-starting each from the one before.</summary>
+    /// <param name="model">The network.</param>
+    /// <param name="multipliers">Demand multipliers, finite; in the order given.</param>
+    /// <param name="options">Tolerances and limits; <see cref="NetworkOptions.Default"/> when omitted.</param>
+    /// <returns>One result per multiplier, in order.</returns>
+    /// <exception cref="NetworkValidationException">The model is invalid.</exception>
+    /// <exception cref="ArgumentOutOfRangeException">A multiplier is not finite.</exception>
+    public static IReadOnlyList<NetworkResult> SolveLoadCases(NetworkModel model, ReadOnlySpan<double> multipliers,
+        NetworkOptions? options = null) => new NetworkSolver(model, options).SolveCases(multipliers);
+
+    /// <summary>Solves load cases on this instance in order, each warm-started from the one before.</summary>
+    /// <param name="multipliers">Demand multipliers, finite.</param>
+    /// <returns>One result per multiplier.</returns>
+    /// <exception cref="ArgumentOutOfRangeException">A multiplier is not finite.</exception>
+    public IReadOnlyList<NetworkResult> SolveCases(ReadOnlySpan<double> multipliers)
+    {
+        var results = new NetworkResult[multipliers.Length];
+        for (int i = 0; i < multipliers.Length; i++) results[i] = SolveCase(multipliers[i]);
+        return results;
+    }
+
+    /// <summary>Forgets the previous solution: the next solve starts from the default start (0.3 m/s in every pipe).</summary>
+    public void Reset()
+    {
+        double maxHead = double.NegativeInfinity;
+        for (int r = 0; r < _reservoirs; r++) maxHead = Math.Max(maxHead, _head[_junctions + r]);
+        if (!double.IsFinite(maxHead)) maxHead = 0;
+        for (int j = 0; j < _junctions; j++) _head[j] = maxHead;
+        for (int l = 0; l < _links; l++)
+        {
+            if (_kind[l] == Kind.Pump)
+            {
+                _status[l] = _speed[l] > 0 ? LinkStatus.Open : LinkStatus.PumpOff;
+                _flow[l] = _status[l] == LinkStatus.Open ? 0.5 * _speed[l] * (_curve[l].ZeroHeadFlow ?? _curve[l].SearchLimit) : 0;
+            }
+            else
+            {
+                _status[l] = _model.Pipes[l].Closed ? LinkStatus.Closed : LinkStatus.Open;
+                _flow[l] = _status[l] == LinkStatus.Open ? InitialVelocity * _area[l] : 0;
+            }
+        }
+        _warm = false;
+    }
+
+    /// <summary>Solves with every demand multiplied by <paramref name="demandMultiplier"/>, starting from this instance's
+    /// previous solution when it converged (else from the default start).</summary>
+    /// <param name="demandMultiplier">Multiplier on every junction demand; finite (1 for the model as given).</param>
+    /// <returns>The result; non-convergence and unsupplied parts are statuses, never exceptions.</returns>
+    /// <exception cref="ArgumentOutOfRangeException">The multiplier is not finite.</exception>
+    public NetworkResult SolveCase(double demandMultiplier = 1.0)
+    {
+        if (!double.IsFinite(demandMultiplier))
+            throw new ArgumentOutOfRangeException(nameof(demandMultiplier), demandMultiplier, "must be finite");
+        for (int j = 0; j < _junctions; j++) _demand[j] = _baseDemand[j] * demandMultiplier;
+        if (_unsupplied.Length > 0)
+            return Report(NetworkStatus.NoPathToFixedHead, demandMultiplier, [], 0);
+        if (!_warm) Reset();
+
+        var record = new List<NetworkIteration>();
+        var status = NetworkStatus.StatusesNotSettled;
+        int pass = 0;
+        while (pass < _options.MaxStatusPasses)
+        {
+            pass++;
+            var newton = Newton(pass, record);
+            if (newton != NetworkStatus.Solved) { status = newton; break; }
+            if (UpdateStatuses() == 0) { status = NetworkStatus.Solved; break; }
+        }
+        bool converged = status == NetworkStatus.Solved;
+        if (converged)
+        {
+            for (int l = _pipes; l < _links; l++)
+                if (_status[l] == LinkStatus.PumpOff && _speed[l] > 0) { status = NetworkStatus.PumpCannotLift; break; }
+        }
+        // Report the final iterate first; a failed solve then leaves the default start for the next one.
+        var result = Report(status, demandMultiplier, record.ToArray(), pass);
+        _warm = converged;
+        if (!converged) Reset();
+        return result;
+    }
+
+    /// <summary>Newton iterations with the statuses fixed, until the tolerances are met or the cap is reached.</summary>
+    private NetworkStatus Newton(int pass, List<NetworkIteration> record)
+    {
+        var o = _options;
+        double maxChange = double.PositiveInfinity;
+        int linear = 0;
+        bool stepped = false;
+        while (true)
+        {
+            EvaluateLinks();
+            var (imbalance, continuity) = Measure();
+            if (stepped) record.Add(new NetworkIteration(record.Count + 1, pass, maxChange, imbalance, continuity, linear));
+            if (!double.IsFinite(imbalance) || !double.IsFinite(continuity)) return NetworkStatus.LinearSolveFailed;
+            if (imbalance <= o.HeadTolerance && continuity <= o.FlowTolerance) return NetworkStatus.Solved;
+            if (record.Count >= o.MaxIterations) return NetworkStatus.IterationCapReached;
+            // Inexact Newton: the head solve need only be accurate to about the error the quadratic model leaves after the
+            // step (of order the last flow change squared); the final steps run at a tenth of the flow tolerance.
+            double linearTolerance = Math.Max(0.1 * o.FlowTolerance, Math.Min(1e-6, 1e-3 * maxChange * maxChange));
+            if (!Step(linearTolerance, out maxChange, out linear)) return NetworkStatus.LinearSolveFailed;
+            stepped = true;
+        }
+    }
+
+    /// <summary>h and dh/dQ of every open link at the current flows.</summary>
+    private void EvaluateLinks()
+    {
+        double nu = _model.KinematicViscosity;
+        var friction = _options.Friction;
+        for (int l = 0; l < _links; l++)
+        {
+            if (_status[l] != LinkStatus.Open) { _headLoss[l] = 0; _slope[l] = 0; continue; }
+            double q = _flow[l];
+            switch (_kind[l])
+            {
+                case Kind.Darcy:
+                    (_headLoss[l], _slope[l]) = DarcyLoss(l, q, nu, friction);
+                    break;
+                case Kind.Hazen:
+                    (_headLoss[l], _slope[l]) = HazenLoss(l, q);
+                    break;
+                default:
+                {
+                    double s = _speed[l];
+                    var (head, slope) = _curve[l].HeadAndSlope(q / s);
+                    _headLoss[l] = -s * s * head;
+                    _slope[l] = Math.Max(-s * slope, _pumpSlopeFloor[l]);
+                    break;
+                }
+            }
+        }
+    }
+
+    /// <summary>Darcy-Weisbach h and dh/dQ: <see cref="PipeHeadLoss.WithDerivative"/> in laminar and turbulent flow; in
+    /// the transition zone a cubic Hermite interpolation in Re of f between the laminar law at the laminar limit and
+    /// Colebrook-White at the turbulent limit, values and slopes matched (the usual treatment in network solvers, after
+    /// Dunlop 1991), so that h(Q) is continuous with a continuous derivative. The single-pipe relations use Churchill
+    /// there, which meets neither end exactly; a Newton iteration on a whole network cycles across such jumps.</summary>
+    private (double HeadLoss, double Slope) DarcyLoss(int l, double q, double nu, in FrictionOptions friction)
+    {
+        ref readonly var pipe = ref _geometry[l];
+        double aq = Math.Abs(q);
+        double re = aq * pipe.Diameter / (_area[l] * nu);
+        if (!(re > friction.LaminarLimit && re < friction.TurbulentLimit))
+            return PipeHeadLoss.WithDerivative(pipe, nu, q, friction);
+        var (f, dfdRe) = TransitionFriction(l, re, friction);
+        double v = aq / _area[l];
+        double velocityHead = v * v / (2 * Physical.StandardGravity);
+        double lOverD = pipe.Length / pipe.Diameter;
+        double h = (f * lOverD + pipe.MinorLossCoefficient) * velocityHead;
+        double slope = (2 * h + lOverD * velocityHead * re * dfdRe) / aq;
+        return (Math.CopySign(h, q), slope);
+    }
+
+    private (double F, double DfDRe) TransitionFriction(int l, double re, in FrictionOptions friction)
+    {
+        double lo = friction.LaminarLimit, w = friction.TurbulentLimit - lo, t = (re - lo) / w;
+        double fL = 64 / lo, dL = -64 / (lo * lo) * w, fT = _turbulentFriction[l], dT = _turbulentSlope[l] * w;
+        double t2 = t * t, t3 = t2 * t;
+        double f = (2 * t3 - 3 * t2 + 1) * fL + (t3 - 2 * t2 + t) * dL + (-2 * t3 + 3 * t2) * fT + (t3 - t2) * dT;
+        double df = (6 * t2 - 6 * t) * fL + (3 * t2 - 4 * t + 1) * dL + (-6 * t2 + 6 * t) * fT + (3 * t2 - 2 * t) * dT;
+        return (f, df / w);
+    }
+
+    /// <summary>Hazen-Williams h = r |Q|^0.852 Q + m |Q| Q, regularised below the regularisation velocity by
+    /// a Q + b Q^3 with the same value and slope at the threshold Qs: b = (S Qs - H)/(2 Qs^3), a = (3H - S Qs)/(2 Qs),
+    /// both positive because 1 &lt; S Qs / H &lt;= 2, so h stays odd, increasing and once differentiable.</summary>
+    private (double HeadLoss, double Slope) HazenLoss(int l, double q)
+    {
+        double r = _hazenConstant[l], m = _minorConstant[l];
+        double threshold = _options.RegularisationVelocity * _area[l];
+        double aq = Math.Abs(q);
+        if (aq >= threshold)
+        {
+            double friction = r * Math.Pow(aq, HazenWilliams.FlowExponent);
+            return (Math.CopySign(friction + m * aq * aq, q), HazenWilliams.FlowExponent * friction / aq + 2 * m * aq);
+        }
+        double hs = r * Math.Pow(threshold, HazenWilliams.FlowExponent) + m * threshold * threshold;
+        double ss = HazenWilliams.FlowExponent * hs / threshold - (HazenWilliams.FlowExponent - 2) * m * threshold;
+        double b = (ss * threshold - hs) / (2 * threshold * threshold * threshold);
+        double a = (3 * hs - ss * threshold) / (2 * threshold);
+        return (a * q + b * q * q * q, a + 3 * b * q * q);
+    }
+
+    /// <summary>Largest energy imbalance over the open links and largest continuity error over the junctions.</summary>
+    private (double Imbalance, double Continuity) Measure()
+    {
+        double imbalance = 0;
+        var c = _continuity;
+        for (int j = 0; j < _junctions; j++) c[j] = -_demand[j];
+        for (int l = 0; l < _links; l++)
+        {
+            int f = _from[l], t = _to[l];
+            double q = _flow[l];
+            if (f < _junctions) c[f] -= q;
+            if (t < _junctions) c[t] += q;
+            if (_status[l] == LinkStatus.Open)
+            {
+                double e = Math.Abs(_head[f] - _head[t] - _headLoss[l]);
+                if (!(e <= imbalance)) imbalance = e; // NaN propagates
+            }
+        }
+        double continuity = 0;
+        for (int j = 0; j < _junctions; j++)
+        {
+            double e = Math.Abs(c[j]);
+            if (!(e <= continuity)) continuity = e;
+        }
+        return (imbalance, continuity);
+    }
+
+    /// <summary>One Newton step: assemble and solve the head equations, then update every flow.</summary>
+    private bool Step(double linearTolerance, out double maxChange, out int linearIterations)
+    {
+        maxChange = 0;
+        linearIterations = 0;
+        var values = _matrix.Values;
+        values.Clear();
+        for (int j = 0; j < _junctions; j++) _rhs[j] = -_demand[j];
+        for (int l = 0; l < _links; l++)
+        {
+            double c, y;
+            if (_status[l] == LinkStatus.Open)
+            {
+                c = 1.0 / _slope[l];
+                y = _flow[l] - _headLoss[l] * c;
+            }
+            else
+            {
+                c = ClosedConductance;
+                y = 0;
+            }
+            _conductance[l] = c;
+            _y[l] = y;
+            int f = _from[l], t = _to[l];
+            bool fj = f < _junctions, tj = t < _junctions;
+            if (fj) { _rhs[f] -= y; values[_diagFrom[l]] += c; if (!tj) _rhs[f] += c * _head[t]; }
+            if (tj) { _rhs[t] += y; values[_diagTo[l]] += c; if (!fj) _rhs[t] += c * _head[f]; }
+            if (fj && tj) { values[_offFromTo[l]] -= c; values[_offToFrom[l]] -= c; }
+        }
+        if (!_matrix.Factorise()) return false;
+        _head.AsSpan(0, _junctions).CopyTo(_x);
+        var (iterations, residual) = _matrix.Solve(_rhs, _x, linearTolerance, _options.MaxLinearIterations);
+        linearIterations = iterations;
+        if (!double.IsFinite(residual)) return false;
+        _x.AsSpan().CopyTo(_head.AsSpan(0, _junctions));
+        for (int l = 0; l < _links; l++)
+        {
+            double q = _status[l] == LinkStatus.Open ? _y[l] + _conductance[l] * (_head[_from[l]] - _head[_to[l]]) : 0.0;
+            double change = Math.Abs(q - _flow[l]);
+            if (change > maxChange) maxChange = change;
+            _flow[l] = q;
+        }
+        return true;
+    }
+
+    /// <summary>Opens and closes check valves and pumps from the converged state; returns the number of changes.</summary>
+    private int UpdateStatuses()
+    {
+        int changes = 0;
+        // A head of ten head tolerances across a closed valve is taken as real, not rounding.
+        double headMargin = 10 * _options.HeadTolerance;
+        for (int l = 0; l < _links; l++)
+        {
+            double across = _head[_from[l]] - _head[_to[l]];
+            if (_kind[l] == Kind.Pump)
+            {
+                if (!(_speed[l] > 0)) continue;
+                double s = _speed[l];
+                if (_status[l] == LinkStatus.Open && _flow[l] < 0)
+                {
+                    _status[l] = LinkStatus.PumpOff;
+                    _flow[l] = 0;
+                    changes++;
+                }
+                else if (_status[l] == LinkStatus.PumpOff && s * s * _curve[l].C0 + across > headMargin)
+                {
+                    _status[l] = LinkStatus.Open;
+                    _flow[l] = 0.5 * s * (_curve[l].ZeroHeadFlow ?? _curve[l].SearchLimit);
+                    changes++;
+                }
+            }
+            else if (_checkValve[l] && _status[l] != LinkStatus.Closed)
+            {
+                if (_status[l] == LinkStatus.Open && _flow[l] < 0)
+                {
+                    _status[l] = LinkStatus.CheckValveClosed;
+                    _flow[l] = 0;
+                    changes++;
+                }
+                else if (_status[l] == LinkStatus.CheckValveClosed && across > headMargin)
+                {
+                    _status[l] = LinkStatus.Open;
+                    _flow[l] = 0.01 * InitialVelocity * _area[l];
+                    changes++;
+                }
+            }
+        }
+        return changes;
+    }
+
+    private NetworkResult Report(NetworkStatus status, double multiplier, NetworkIteration[] record, int passes)
+    {
+        var o = _options;
+        bool solved = status != NetworkStatus.NoPathToFixedHead;
+        var warnings = new List<NetworkWarning>();
+        var pipes = new PipeResult[_pipes];
+        double nu = _model.KinematicViscosity, g = Physical.StandardGravity;
+        for (int l = 0; l < _pipes; l++)
+        {
+            string id = _model.Pipes[l].Id;
+            if (!solved) { pipes[l] = new PipeResult(id, 0, 0, 0, 0, _status[l]); continue; }
+            double q = _flow[l], v = q / _area[l], across = _head[_from[l]] - _head[_to[l]];
+            double f = 0;
+            if (_status[l] == LinkStatus.Open && q != 0)
+            {
+                double re = Math.Abs(q) * _geometry[l].Diameter / (_area[l] * nu);
+                if (_kind[l] == Kind.Darcy && re > o.Friction.LaminarLimit && re < o.Friction.TurbulentLimit)
+                    f = TransitionFriction(l, re, o.Friction).F;
+                else if (_kind[l] == Kind.Darcy)
+                    f = PipeHeadLoss.Evaluate(_geometry[l], nu, Math.Abs(q), o.Friction).FrictionFactor;
+                else
+                    f = 2 * g * _geometry[l].Diameter * _hazenConstant[l] * Math.Pow(Math.Abs(q), HazenWilliams.FlowExponent)
+                        / (_geometry[l].Length * v * v);
+            }
+            double headLoss = _status[l] == LinkStatus.Open ? _headLoss[l] : across;
+            pipes[l] = new PipeResult(id, q, v, headLoss, f, _status[l]);
+            double speed = Math.Abs(v);
+            if (_status[l] == LinkStatus.Open && speed < o.MinimumDesignVelocity)
+                warnings.Add(new NetworkWarning(id, NetworkWarningCode.VelocityBelowDesignRange, speed));
+            else if (speed > o.MaximumDesignVelocity)
+                warnings.Add(new NetworkWarning(id, NetworkWarningCode.VelocityAboveDesignRange, speed));
+        }
+        var pumps = new PumpResult[_links - _pipes];
+        var unable = new List<string>();
+        for (int l = _pipes; l < _links; l++)
+        {
+            string id = _model.Pumps[l - _pipes].Id;
+            double added = solved ? _head[_to[l]] - _head[_from[l]] : 0;
+            pumps[l - _pipes] = new PumpResult(id, solved ? _flow[l] : 0, added, _status[l]);
+            if (!solved) continue;
+            if (_status[l] == LinkStatus.PumpOff && _speed[l] > 0)
+            {
+                unable.Add(id);
+                warnings.Add(new NetworkWarning(id, NetworkWarningCode.PumpCannotLift, added));
+            }
+            else if (_status[l] == LinkStatus.Open && _curve[l].DataMaximumFlow is double qmax)
+            {
+                double rated = _flow[l] / _speed[l];
+                if (rated > qmax || rated < (_curve[l].DataMinimumFlow ?? 0))
+                    warnings.Add(new NetworkWarning(id, NetworkWarningCode.PumpOutsideCurveRange, rated));
+            }
+        }
+        var junctions = new JunctionResult[_junctions];
+        for (int j = 0; j < _junctions; j++)
+        {
+            string id = _model.Junctions[j].Id;
+            double h = solved ? _head[j] : 0, p = solved ? h - _elevation[j] : 0;
+            junctions[j] = new JunctionResult(id, h, p, _demand[j]);
+            if (solved && p < 0) warnings.Add(new NetworkWarning(id, NetworkWarningCode.NegativePressure, p));
+        }
+        var outflow = new double[_reservoirs];
+        if (solved)
+        {
+            for (int l = 0; l < _links; l++)
+            {
+                if (_from[l] >= _junctions) outflow[_from[l] - _junctions] += _flow[l];
+                if (_to[l] >= _junctions) outflow[_to[l] - _junctions] -= _flow[l];
+            }
+        }
+        var reservoirs = new ReservoirResult[_reservoirs];
+        for (int r = 0; r < _reservoirs; r++)
+            reservoirs[r] = new ReservoirResult(_model.Reservoirs[r].Id, _head[_junctions + r], outflow[r]);
+        return new NetworkResult(status, multiplier, pipes, pumps, junctions, reservoirs, record, passes,
+            status == NetworkStatus.NoPathToFixedHead ? _unsupplied : [], unable.ToArray(), warnings.ToArray(),
+            _linkIndex, _nodeIndex);
+    }
+
+    /// <summary>The sparsity pattern of the head equations (one row per junction), and each link's entry positions.</summary>
+    private (SymmetricSparseSolver, int[], int[], int[], int[]) BuildPattern()
+    {
+        int n = _junctions;
+        var count = new int[n + 1];
+        for (int j = 0; j < n; j++) count[j] = 1;
+        for (int l = 0; l < _links; l++)
+        {
+            int f = _from[l], t = _to[l];
+            if (f < n && t < n) { count[f]++; count[t]++; }
+        }
+        var rowStart = new int[n + 1];
+        for (int j = 0; j < n; j++) rowStart[j + 1] = rowStart[j] + count[j];
+        var columns = new int[rowStart[n]];
+        var fill = new int[n];
+        for (int j = 0; j < n; j++) { columns[rowStart[j]] = j; fill[j] = 1; }
+        for (int l = 0; l < _links; l++)
+        {
+            int f = _from[l], t = _to[l];
+            if (f < n && t < n)
+            {
+                columns[rowStart[f] + fill[f]++] = t;
+                columns[rowStart[t] + fill[t]++] = f;
+            }
+        }
+        // Sort each row and drop duplicates (parallel links share an entry).
+        var compactStart = new int[n + 1];
+        int write = 0;
+        for (int j = 0; j < n; j++)
+        {
+            int begin = rowStart[j], end = rowStart[j + 1];
+            Array.Sort(columns, begin, end - begin);
+            compactStart[j] = write;
+            for (int k = begin; k < end; k++)
+                if (k == begin || columns[k] != columns[k - 1]) columns[write++] = columns[k];
+        }
+        compactStart[n] = write;
+        Array.Resize(ref columns, write);
+        var matrix = new SymmetricSparseSolver(compactStart, columns);
+        var diagFrom = new int[_links];
+        var diagTo = new int[_links];
+        var offFromTo = new int[_links];
+        var offToFrom = new int[_links];
+        for (int l = 0; l < _links; l++)
+        {
+            int f = _from[l], t = _to[l];
+            diagFrom[l] = f < n ? matrix.PositionOf(f, f) : -1;
+            diagTo[l] = t < n ? matrix.PositionOf(t, t) : -1;
+            offFromTo[l] = f < n && t < n ? matrix.PositionOf(f, t) : -1;
+            offToFrom[l] = f < n && t < n ? matrix.PositionOf(t, f) : -1;
+        }
+        return (matrix, diagFrom, diagTo, offFromTo, offToFrom);
+    }
+
+    /// <summary>Junctions in connected parts without a reservoir (union-find over the links that can carry flow:
+    /// every pipe not shut by the model and every pump with a speed).</summary>
+    private string[] FindUnsupplied()
+    {
+        int nodes = _junctions + _reservoirs;
+        var parent = new int[nodes];
+        for (int i = 0; i < nodes; i++) parent[i] = i;
+        int Find(int i)
+        {
+            while (parent[i] != i) { parent[i] = parent[parent[i]]; i = parent[i]; }
+            return i;
+        }
+        for (int l = 0; l < _links; l++)
+        {
+            if (_kind[l] == Kind.Pump ? !(_speed[l] > 0) : _model.Pipes[l].Closed) continue;
+            int a = Find(_from[l]), b = Find(_to[l]);
+            if (a != b) parent[a] = b;
+        }
+        var supplied = new bool[nodes];
+        for (int r = 0; r < _reservoirs; r++) supplied[Find(_junctions + r)] = true;
+        var list = new List<string>();
+        for (int j = 0; j < _junctions; j++)
+            if (!supplied[Find(j)]) list.Add(_model.Junctions[j].Id);
+        return list.ToArray();
+    }
+
+    /// <summary>Hazen-Williams hf = r Q^(1/0.54) with r = k L / (C^(1/0.54) D^(2.63/0.54)) and
+    /// k = (4^1.63 / (0.849 pi))^(1/0.54), the SI velocity form rearranged exactly (as in <see cref="HazenWilliams"/>).</summary>
+    private static double HazenConstant(double length, double diameter, double coefficient)
+    {
+        double k = Math.Pow(Math.Pow(4.0, 1.63) / (HazenWilliams.VelocityConstant * Math.PI), HazenWilliams.FlowExponent);
+        return k * length / (Math.Pow(coefficient, HazenWilliams.FlowExponent) * Math.Pow(diameter, HazenWilliams.DiameterExponent));
+    }
+}

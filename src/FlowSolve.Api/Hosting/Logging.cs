@@ -1,7 +1,6 @@
 using Serilog;
 using Serilog.Events;
 using Serilog.Formatting.Compact;
-using Serilog.Formatting.Display;
 
 namespace FlowSolve.Api.Hosting;
 
@@ -27,7 +26,7 @@ public static class Logging
             .Enrich.FromLogContext()
             .WriteTo.Async(a => a.Sink(new BufferedStdoutSink(json
                     ? new CompactJsonFormatter()
-                    : new MessageTemplateTextFormatter("[{Timestamp:HH:mm:ss} {Level:u3}] {Message:lj}{NewLine}{Exception}"))),
+                    : new PlainLineFormatter())),
                 bufferSize: 10_000, blockWhenFull: false);
     }
 

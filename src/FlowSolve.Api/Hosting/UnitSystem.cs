@@ -32,6 +32,9 @@ public static class Units
     /// <summary>1 lb/ft3 = 0.45359237 / 0.3048^3 kg/m3 = 16.01846337... kg/m3.</summary>
     public const double PoundPerCubicFoot = Pound / CubicFoot;
 
+    /// <summary>1 hp (mechanical) = 550 ft lbf/s = 745.69987158227022 W exactly.</summary>
+    public const double Horsepower = 550 * Foot * PoundForce;
+
     public static double FahrenheitToCelsius(double f) => (f - 32) * 5.0 / 9.0;
 
     public static double CelsiusToFahrenheit(double c) => c * 9.0 / 5.0 + 32;
@@ -73,6 +76,9 @@ public readonly record struct UnitSystem(bool IsUs)
 
     /// <summary>m to ft for US.</summary>
     public double Length(double si) => IsUs ? si / Units.Foot : si;
+
+    /// <summary>m2 to ft2 for US.</summary>
+    public double Area(double si) => IsUs ? si / (Units.Foot * Units.Foot) : si;
 
     /// <summary>m/s to ft/s for US.</summary>
     public double Velocity(double si) => IsUs ? si / Units.Foot : si;

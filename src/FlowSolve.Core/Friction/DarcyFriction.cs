@@ -12,20 +12,66 @@ public readonly record struct FrictionOptions(double LaminarLimit, double Turbul
 }
 
 /// <summary>A Darcy friction factor with the record of how it was obtained.</summary>
-/// <param name="FrictionFactor">Darcy friction factor f (dimensionless).</param>
-/// <param name="Regime">The regime that chose the relation.</param>
-/// <param name="Relation">The relation actually used: <c>laminar</c> (64/Re), or a <see cref="FrictionMethodInfo.Code"/>.</param>
-/// <param name="Iterations">Solver steps (0 for explicit relations).</param>
-/// <param name="Residual">Colebrook-White residual in 1/sqrt(f) for the exact solve; 0 for explicit relations.</param>
-/// <param name="Status">Solver status; <see cref="SolveStatus.ConvergedOnResidual"/> for explicit relations, which are exact by definition.</param>
-/// <param name="Warnings">Warning flags.</param>
-/// <param name="DerivativeReynolds">df/dRe of the relation used (analytic for the laminar law and Colebrook-White).</param>
-public readonly record struct FrictionResult(
-    double FrictionFactor, FlowRegime Regime, string Relation, int Iterations, double Residual,
-    SolveStatus Status, FrictionWarnings Warnings, double DerivativeReynolds)
+/// <remarks>The derivative df/dRe is computed when read, so the callers that want only the factor (head loss, the
+/// friction endpoint) do not pay for it.</remarks>
+public readonly struct FrictionResult
 {
+    private readonly double _reynolds, _relativeRoughness;
+    private readonly FrictionMethod _method;
+
+    internal FrictionResult(double frictionFactor, FlowRegime regime, string relation, int iterations, double residual,
+        SolveStatus status, FrictionWarnings warnings, double reynolds, double relativeRoughness, FrictionMethod method)
+    {
+        FrictionFactor = frictionFactor;
+        Regime = regime;
+        Relation = relation;
+        Iterations = iterations;
+        Residual = residual;
+        Status = status;
+        Warnings = warnings;
+        _reynolds = reynolds;
+        _relativeRoughness = relativeRoughness;
+        _method = method;
+    }
+
+    /// <summary>Darcy friction factor f (dimensionless).</summary>
+    public double FrictionFactor { get; }
+
+    /// <summary>The regime that chose the relation.</summary>
+    public FlowRegime Regime { get; }
+
+    /// <summary>The relation actually used: <c>laminar</c> (64/Re), or a <see cref="FrictionMethodInfo.Code"/>.</summary>
+    public string Relation { get; }
+
+    /// <summary>Solver steps (0 for explicit relations).</summary>
+    public int Iterations { get; }
+
+    /// <summary>Colebrook-White residual in 1/sqrt(f) for the exact solve; 0 for explicit relations.</summary>
+    public double Residual { get; }
+
+    /// <summary>Solver status; <see cref="SolveStatus.ConvergedOnResidual"/> for explicit relations, which are exact by definition.</summary>
+    public SolveStatus Status { get; }
+
+    /// <summary>Warning flags.</summary>
+    public FrictionWarnings Warnings { get; }
+
     /// <summary>True when the relation's value is trustworthy as a solve (always true for explicit relations).</summary>
     public bool Converged => Status.IsConverged();
+
+    /// <summary>df/dRe of the relation used: analytic for the laminar law and Colebrook-White (implicit
+    /// differentiation), a central difference (about 1e-10 relative) for the explicit formulas.</summary>
+    public double DerivativeReynolds
+    {
+        get
+        {
+            if (Relation == DarcyFriction.LaminarRelation) return -FrictionFactor / _reynolds;
+            if (_method == FrictionMethod.ColebrookWhite)
+                return new ColebrookResult(FrictionFactor, Iterations, 0, Residual, Status, _reynolds, _relativeRoughness).DerivativeReynolds;
+            double h = _reynolds * 1e-5;
+            return (ExplicitFriction.Evaluate(_method, _reynolds + h, _relativeRoughness)
+                  - ExplicitFriction.Evaluate(_method, _reynolds - h, _relativeRoughness)) / (2 * h);
+        }
+    }
 }
 
 /// <summary>
@@ -81,7 +127,7 @@ public static class DarcyFriction
         {
             if (method != FrictionMethod.ColebrookWhite) warnings |= FrictionWarnings.MethodNotApplicableInRegime;
             return new FrictionResult(64.0 / reynolds, FlowRegime.Laminar, LaminarRelation, 0, 0.0,
-                SolveStatus.ConvergedOnResidual, warnings, -64.0 / (reynolds * reynolds));
+                SolveStatus.ConvergedOnResidual, warnings, reynolds, relativeRoughness, FrictionMethod.ColebrookWhite);
         }
 
         if (reynolds < limits.TurbulentLimit)
@@ -98,7 +144,7 @@ public static class DarcyFriction
             var exact = ColebrookWhite.Solve(reynolds, relativeRoughness, trace);
             if (!exact.Converged) warnings |= FrictionWarnings.NotConverged;
             return new FrictionResult(exact.FrictionFactor, FlowRegime.Turbulent, FrictionMethodInfo.ColebrookWhite.Code,
-                exact.Iterations, exact.Residual, exact.Status, warnings, exact.DerivativeReynolds);
+                exact.Iterations, exact.Residual, exact.Status, warnings, reynolds, relativeRoughness, FrictionMethod.ColebrookWhite);
         }
 
         return Explicit(FrictionMethodInfo.For(method), reynolds, relativeRoughness, FlowRegime.Turbulent, warnings);
@@ -117,11 +163,8 @@ public static class DarcyFriction
         if (regime == FlowRegime.Turbulent && !info.InRange(reynolds, relativeRoughness))
             warnings |= FrictionWarnings.ApproximationOutOfRange;
         double f = ExplicitFriction.Evaluate(info.Method, reynolds, relativeRoughness);
-        // A central difference is accurate to about 1e-10 relative here; explicit relations are cheap.
-        double h = reynolds * 1e-5;
-        double dfdRe = (ExplicitFriction.Evaluate(info.Method, reynolds + h, relativeRoughness)
-                      - ExplicitFriction.Evaluate(info.Method, reynolds - h, relativeRoughness)) / (2 * h);
-        return new FrictionResult(f, regime, info.Code, 0, 0.0, SolveStatus.ConvergedOnResidual, warnings, dfdRe);
+        return new FrictionResult(f, regime, info.Code, 0, 0.0, SolveStatus.ConvergedOnResidual, warnings,
+            reynolds, relativeRoughness, info.Method);
     }
 
     /// <summary>Expands warning flags into coded messages (allocates; for reports and the API, not the hot path).</summary>

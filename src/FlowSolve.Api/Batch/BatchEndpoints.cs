@@ -108,6 +108,8 @@ public static class BatchEndpoints
         await using var writer = new Utf8JsonWriter(pipe);
         writer.WriteStartArray();
         long flushed = 0;
+        var okRows = SolverMetrics.BatchRows.WithLabels(descriptor.Name, "ok");
+        var errorRows = SolverMetrics.BatchRows.WithLabels(descriptor.Name, "error");
         for (int i = 0; i < rows.Count; i++)
         {
             if (ct.IsCancellationRequested)
@@ -122,7 +124,7 @@ public static class BatchEndpoints
                 break;
             }
             var (status, value) = RunRow(descriptor, rows[i], logger);
-            SolverMetrics.BatchRows.WithLabels(descriptor.Name, status < 300 ? "ok" : "error").Inc();
+            (status < 300 ? okRows : errorRows).Inc();
             writer.WriteStartObject();
             writer.WriteNumber("row", i + 1);
             writer.WriteNumber("status", status);
@@ -177,6 +179,8 @@ public static class BatchEndpoints
         var plan = new Csv.HeaderPlan(header);
         var buffer = new System.Buffers.ArrayBufferWriter<byte>(1024);
         using var json = new Utf8JsonWriter(buffer);
+        var okRows = SolverMetrics.BatchRows.WithLabels(descriptor.Name, "ok");
+        var errorRows = SolverMetrics.BatchRows.WithLabels(descriptor.Name, "error");
         for (int i = 0; i < rows.Count; i++)
         {
             if (ct.IsCancellationRequested)
@@ -191,11 +195,11 @@ public static class BatchEndpoints
             Csv.WriteJson(json, plan, rows[i]);
             json.Flush();
             var (status, value) = RunRow(descriptor, buffer.WrittenSpan, logger);
-            SolverMetrics.BatchRows.WithLabels(descriptor.Name, status < 300 ? "ok" : "error").Inc();
+            (status < 300 ? okRows : errorRows).Inc();
             line.Clear().Append(i + 1).Append(',').Append(status).Append(',');
             if (status is >= 200 and < 300)
             {
-                foreach (var c in columns) line.Append(',').Append(Csv.Escape(c.Read(value!)));
+                foreach (var c in columns) c.Write(value!, line.Append(','));
             }
             else
             {

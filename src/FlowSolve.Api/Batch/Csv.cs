@@ -52,28 +52,66 @@ public static class Csv
     public static void WriteJson(Utf8JsonWriter writer, HeaderPlan plan, IReadOnlyList<string> row)
     {
         writer.WriteStartObject();
+        // The nested objects open now are the first `depth` names of `open` (a header's parts, never copied).
         string[] open = [];
+        int depth = 0;
         foreach (int i in plan.Order)
         {
             if (i >= row.Count) continue;
-            string cell = row[i].Trim();
+            ReadOnlySpan<char> cell = row[i].AsSpan().Trim();
             if (cell.Length == 0) continue;
             var parts = plan.Parts[i];
             int common = 0;
-            while (common < open.Length && common < parts.Length - 1 && open[common] == parts[common]) common++;
-            for (int k = open.Length; k > common; k--) writer.WriteEndObject();
+            while (common < depth && common < parts.Length - 1 && open[common] == parts[common]) common++;
+            for (int k = depth; k > common; k--) writer.WriteEndObject();
             for (int k = common; k < parts.Length - 1; k++) writer.WriteStartObject(parts[k]);
-            open = parts[..^1];
+            open = parts;
+            depth = parts.Length - 1;
             writer.WritePropertyName(parts[^1]);
             if (double.TryParse(cell, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out double d)
                 && double.IsFinite(d))
-                writer.WriteNumberValue(d);
+            {
+                // A cell already in JSON's number syntax goes through as written (the binder parses it once);
+                // anything else the parser accepted (".5", "+1", "1.") is written from its value, and so is a whole
+                // number, which is then written without fraction or exponent ("5.0" and "5e0" as 5, as an integer field
+                // needs it).
+                if (d != Math.Floor(d) && IsJsonNumber(cell)) writer.WriteRawValue(cell, skipInputValidation: true);
+                else writer.WriteNumberValue(d);
+            }
             else if (cell.Equals("true", StringComparison.OrdinalIgnoreCase)) writer.WriteBooleanValue(true);
             else if (cell.Equals("false", StringComparison.OrdinalIgnoreCase)) writer.WriteBooleanValue(false);
             else writer.WriteStringValue(cell);
         }
-        for (int k = open.Length; k > 0; k--) writer.WriteEndObject();
+        for (int k = depth; k > 0; k--) writer.WriteEndObject();
         writer.WriteEndObject();
+    }
+
+    /// <summary>True when the text is a number in JSON's grammar (RFC 8259 section 6):
+    /// -? (0 | [1-9][0-9]*) (. [0-9]+)? ([eE] [+-]? [0-9]+)?</summary>
+    public static bool IsJsonNumber(ReadOnlySpan<char> text)
+    {
+        int i = 0, n = text.Length;
+        if (i < n && text[i] == '-') i++;
+        if (i >= n) return false;
+        if (text[i] == '0') i++;
+        else if (text[i] is >= '1' and <= '9') { while (i < n && char.IsAsciiDigit(text[i])) i++; }
+        else return false;
+        if (i < n && text[i] == '.')
+        {
+            i++;
+            int start = i;
+            while (i < n && char.IsAsciiDigit(text[i])) i++;
+            if (i == start) return false;
+        }
+        if (i < n && (text[i] == 'e' || text[i] == 'E'))
+        {
+            i++;
+            if (i < n && (text[i] == '+' || text[i] == '-')) i++;
+            int start = i;
+            while (i < n && char.IsAsciiDigit(text[i])) i++;
+            if (i == start) return false;
+        }
+        return i == n;
     }
 
     /// <summary>A header's dotted names split once, and an order that keeps each nested object's columns together.</summary>

@@ -1,3 +1,4 @@
+using System.Linq.Expressions;
 using System.Text.Json;
 using Microsoft.AspNetCore.Http.HttpResults;
 
@@ -65,30 +66,123 @@ public static class CalculationExtensions
     }
 }
 
-/// <summary>One CSV column of a response: its dotted wire name and how to read it as cell text.</summary>
-public sealed class ResponseColumn(string name, System.Reflection.PropertyInfo[] path)
+/// <summary>One CSV column of a response: its dotted wire name and how to write it as cell text.</summary>
+/// <remarks>The reader is compiled once per column at start-up (typed property getters, no reflection per row), and
+/// writes straight into the row's builder without an intermediate string: a batch writes tens of columns per row.</remarks>
+public sealed class ResponseColumn
 {
-    public string Name { get; } = name;
+    private readonly Action<object, System.Text.StringBuilder> _write;
 
-    /// <summary>The value as cell text, formatted as the JSON answer writes it (shortest round-trip numbers,
-    /// invariant culture), so a CSV cell equals the single call's JSON digit for digit.</summary>
+    public ResponseColumn(string name, System.Reflection.PropertyInfo[] path)
+    {
+        Name = name;
+        _write = CellWriter.Compile(path);
+    }
+
+    public string Name { get; }
+
+    /// <summary>Appends the value as cell text, formatted as the JSON answer writes it (shortest round-trip numbers,
+    /// invariant culture), so a CSV cell equals the single call's JSON digit for digit; text is quoted when it holds a
+    /// comma, quote or line break; a missing value (a null on the path) writes nothing.</summary>
+    public void Write(object response, System.Text.StringBuilder cell) => _write(response, cell);
+
+    /// <summary>The value as cell text (see <see cref="Write"/>).</summary>
     public string Read(object response)
     {
-        object? value = response;
-        foreach (var p in path)
+        var cell = new System.Text.StringBuilder();
+        _write(response, cell);
+        return cell.ToString();
+    }
+}
+
+/// <summary>Builds a column's writer: <c>(o, sb) =&gt; { var a = ((T)o).P1; if (a == null) return; ...; Append(sb, leaf); }</c>.</summary>
+internal static class CellWriter
+{
+    private static readonly System.Globalization.CultureInfo Invariant = System.Globalization.CultureInfo.InvariantCulture;
+
+    public static Action<object, System.Text.StringBuilder> Compile(System.Reflection.PropertyInfo[] path)
+    {
+        var response = Expression.Parameter(typeof(object), "response");
+        var cell = Expression.Parameter(typeof(System.Text.StringBuilder), "cell");
+        var end = Expression.Label("end");
+        var variables = new List<ParameterExpression>();
+        var body = new List<Expression>();
+        Expression current = Expression.Convert(response, path[0].DeclaringType!);
+        for (int i = 0; i < path.Length; i++)
         {
-            if (value is null) return "";
-            value = p.GetValue(value);
+            var step = Expression.Variable(path[i].PropertyType, "p" + i);
+            variables.Add(step);
+            body.Add(Expression.Assign(step, Expression.Property(current, path[i])));
+            bool last = i == path.Length - 1;
+            if (!last && !path[i].PropertyType.IsValueType)
+                body.Add(Expression.IfThen(Expression.Equal(step, Expression.Constant(null, step.Type)), Expression.Return(end)));
+            current = step;
         }
-        return value switch
+        body.Add(Expression.Call(Appender(current.Type), cell, current));
+        body.Add(Expression.Label(end));
+        return Expression.Lambda<Action<object, System.Text.StringBuilder>>(Expression.Block(variables, body), response, cell).Compile();
+    }
+
+    private static System.Reflection.MethodInfo Appender(Type type)
+    {
+        var exact = typeof(CellWriter).GetMethod(nameof(Append), [typeof(System.Text.StringBuilder), type]);
+        if (exact is not null) return exact;
+        if (typeof(IEnumerable<Contracts.WarningDto>).IsAssignableFrom(type))
+            return typeof(CellWriter).GetMethod(nameof(AppendWarnings))!;
+        if (Nullable.GetUnderlyingType(type) is { } underlying)
+            return typeof(CellWriter).GetMethod(nameof(AppendNullable))!.MakeGenericMethod(underlying);
+        return typeof(CellWriter).GetMethod(nameof(AppendObject))!.MakeGenericMethod(type);
+    }
+
+    public static void Append(System.Text.StringBuilder cell, double value) => cell.Append(Invariant, $"{value:R}");
+
+    public static void Append(System.Text.StringBuilder cell, double? value)
+    {
+        if (value is { } v) cell.Append(Invariant, $"{v:R}");
+    }
+
+    public static void Append(System.Text.StringBuilder cell, bool value) => cell.Append(value ? "TRUE" : "FALSE");
+
+    public static void Append(System.Text.StringBuilder cell, bool? value)
+    {
+        if (value is { } v) Append(cell, v);
+    }
+
+    public static void Append(System.Text.StringBuilder cell, int value) => cell.Append(Invariant, $"{value}");
+
+    public static void Append(System.Text.StringBuilder cell, string? value)
+    {
+        if (value is null) return;
+        if (value.AsSpan().IndexOfAny(",\"\r\n") < 0) cell.Append(value);
+        else cell.Append('"').Append(value.Replace("\"", "\"\"")).Append('"');
+    }
+
+    public static void AppendWarnings(System.Text.StringBuilder cell, IEnumerable<Contracts.WarningDto>? warnings)
+    {
+        if (warnings is null) return;
+        bool first = true;
+        foreach (var w in warnings)
+        {
+            if (!first) cell.Append(' ');
+            cell.Append(w.Code);
+            first = false;
+        }
+    }
+
+    public static void AppendNullable<T>(System.Text.StringBuilder cell, T? value) where T : struct
+    {
+        if (value is { } v) AppendObject(cell, v);
+    }
+
+    public static void AppendObject<T>(System.Text.StringBuilder cell, T value)
+    {
+        string text = value switch
         {
             null => "",
-            double d => d.ToString("R", System.Globalization.CultureInfo.InvariantCulture),
-            bool b => b ? "TRUE" : "FALSE",
-            IEnumerable<Contracts.WarningDto> w => string.Join(' ', w.Select(x => x.Code)),
-            IFormattable f => f.ToString(null, System.Globalization.CultureInfo.InvariantCulture),
+            IFormattable f => f.ToString(null, Invariant),
             _ => value.ToString() ?? "",
         };
+        Append(cell, text);
     }
 }
 

@@ -17,6 +17,12 @@ public static class JsonSetup
         o.UnmappedMemberHandling = JsonUnmappedMemberHandling.Disallow;
         o.NumberHandling = JsonNumberHandling.Strict;
         o.MaxDepth = 32;
+        // Generated metadata first for the calculations' own types; reflection for everything else.
+        if (!o.TypeInfoResolverChain.Contains(ApiJsonContext.Default))
+        {
+            if (o.TypeInfoResolverChain.Count == 0) o.TypeInfoResolverChain.Add(new System.Text.Json.Serialization.Metadata.DefaultJsonTypeInfoResolver());
+            o.TypeInfoResolverChain.Insert(0, ApiJsonContext.Default);
+        }
         return o;
     }
 }

@@ -1,0 +1,47 @@
+using System.Text.Json;
+using System.Text.Json.Serialization;
+using FlowSolve.Api.Channels;
+using FlowSolve.Api.Check;
+using FlowSolve.Api.Fluids;
+using FlowSolve.Api.Friction;
+using FlowSolve.Api.Pipes;
+using FlowSolve.Api.Pumps;
+
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>
+/// Compile-time JSON metadata for the calculations' requests and responses (System.Text.Json source generation), with
+/// the same conventions as <see cref="JsonSetup"/>: writing a response takes the generated fast path instead of the
+/// reflection-built converters, which is most of a calculation's own cost after the solve. Types not listed here (problem
+/// details, examples) keep the reflection-based resolver behind it in <see cref="JsonSetup.Options"/>.
+/// </summary>
+/// <remarks>A new calculation adds its request and response here; the OpenAPI drift test and the text-format tests
+/// compare the output with the reflection path's shape.</remarks>
+[JsonSourceGenerationOptions(JsonSerializerDefaults.Web,
+    PropertyNamingPolicy = JsonKnownNamingPolicy.CamelCase,
+    DefaultIgnoreCondition = JsonIgnoreCondition.WhenWritingNull,
+    UnmappedMemberHandling = JsonUnmappedMemberHandling.Disallow,
+    NumberHandling = JsonNumberHandling.Strict,
+    MaxDepth = 32)]
+[JsonSerializable(typeof(FrictionFactorRequest))]
+[JsonSerializable(typeof(FrictionFactorResponse))]
+[JsonSerializable(typeof(WaterRequest))]
+[JsonSerializable(typeof(WaterResponse))]
+[JsonSerializable(typeof(PipeHeadLossRequest))]
+[JsonSerializable(typeof(PipeHeadLossResponse))]
+[JsonSerializable(typeof(PipeFlowRequest))]
+[JsonSerializable(typeof(PipeFlowResponse))]
+[JsonSerializable(typeof(PipeDiameterRequest))]
+[JsonSerializable(typeof(PipeDiameterResponse))]
+[JsonSerializable(typeof(PipeSizesResponse))]
+[JsonSerializable(typeof(PipeMaterialsResponse))]
+[JsonSerializable(typeof(PipeFittingsResponse))]
+[JsonSerializable(typeof(NormalDepthRequest))]
+[JsonSerializable(typeof(NormalDepthResponse))]
+[JsonSerializable(typeof(CriticalDepthRequest))]
+[JsonSerializable(typeof(CriticalDepthResponse))]
+[JsonSerializable(typeof(DutyPointRequest))]
+[JsonSerializable(typeof(DutyPointResponse))]
+[JsonSerializable(typeof(PumpCurvesResponse))]
+[JsonSerializable(typeof(CheckResponse))]
+public sealed partial class ApiJsonContext : JsonSerializerContext;

@@ -4,10 +4,12 @@
 #
 # - publishes the API in Release (the Dockerfile's flags) into a temp folder and starts it on 127.0.0.1 on a port of
 #   its own (LOAD_PORT, 18090 by default, or the next free one), with the ConfigMap's logging settings (json,
-#   Information) and the log thrown away, so the per-request log event is paid for as in production;
-# - runs wrk (installed from Debian's packages if missing) on each scenario: a warm-up, then LOAD_DURATION seconds
+#   Information, or LOAD_LOG_LEVEL) and the log thrown away, so the per-request log event is paid for as in production;
+# - runs wrk (installed from Debian's packages if missing) on each scenario: a warm-up of LOAD_WARMUP seconds (10 by
+#   default: tiered compilation with PGO is still recompiling hot methods after 5 s), then LOAD_DURATION seconds
 #   (20 by default) with LOAD_THREADS threads (2) and LOAD_CONNECTIONS connections (32);
-#   scenarios: GET /health/live (ceiling), GET /v1/friction-factor, POST /v1/pipes/flow (skipped on a 404);
+#   scenarios: GET /health/live (ceiling), GET /v1/friction-factor, the same GET with different inputs on every
+#   request, POST /v1/pipes/flow (skipped on a 404);
 # - then a 60-second run of the friction GET while sampling VmRSS from /proc/PID/status every 5 s;
 # - prints a table, and exits non-zero when any scenario saw a non-2xx answer or a socket error.
 #
@@ -18,6 +20,8 @@ set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 port="${LOAD_PORT:-18090}"
 duration="${LOAD_DURATION:-20}"
+warmup="${LOAD_WARMUP:-10}"
+log_level="${LOAD_LOG_LEVEL:-Information}"
 soak=60
 threads="${LOAD_THREADS:-2}"
 connections="${LOAD_CONNECTIONS:-32}"
@@ -51,7 +55,7 @@ echo "publishing (Release) ..."
 (cd "$root" && dotnet publish src/FlowSolve.Api/FlowSolve.Api.csproj -c Release -o "$work/app" -p:UseAppHost=false --nologo -v quiet)
 
 base="http://127.0.0.1:$port"
-(cd "$work/app" && exec env Urls="$base" FlowSolve__Logging__Format=json FlowSolve__Logging__Level=Information \
+(cd "$work/app" && exec env Urls="$base" FlowSolve__Logging__Format=json FlowSolve__Logging__Level="$log_level" \
   dotnet FlowSolve.Api.dll >/dev/null 2>&1) &
 pid=$!
 for _ in $(seq 1 60); do
@@ -63,6 +67,16 @@ done
 
 friction="$base/v1/friction-factor?reynolds=75000&relativeRoughness=0.005"
 pipe_body='{"diameter":0.3,"length":1200,"roughness":0.00026,"headLoss":8,"temperature":15}'
+# The same GET with a different Reynolds number and roughness on every request (no two alike).
+cat >"$work/vary.lua" <<'LUA'
+local n = 0
+request = function()
+  n = n + 1
+  local re = 4000 * 10 ^ ((n * 0.6180339887) % 1 * 4.4)
+  local rr = 1e-6 * 10 ^ ((n * 0.4142135623) % 1 * 4.7)
+  return wrk.format("GET", string.format("/v1/friction-factor?reynolds=%.6g&relativeRoughness=%.6g", re, rr))
+end
+LUA
 cat >"$work/post.lua" <<EOF
 wrk.method = "POST"
 wrk.body = '$pipe_body'
@@ -76,7 +90,7 @@ rows=()
 errors=0
 run() {
   local name="$1" seconds="$2"; shift 2
-  wrk -t"$threads" -c"$connections" -d5s "$@" >/dev/null   # warm-up: JIT tiering, connection pools
+  wrk -t"$threads" -c"$connections" -d"${warmup}s" "$@" >/dev/null   # warm-up: JIT tiering (PGO), connection pools
   local out
   out="$(wrk -t"$threads" -c"$connections" -d"${seconds}s" --latency "$@")"
   local rps p50 p99 total non2xx sockets
@@ -93,6 +107,7 @@ run() {
 
 run "GET /health/live (ceiling)" "$duration" "$base/health/live"
 run "GET /v1/friction-factor" "$duration" "$friction"
+run "GET friction, varied inputs" "$duration" -s "$work/vary.lua" "$base"
 pipe_status="$(curl -s -o /dev/null -w '%{http_code}' -X POST -H 'Content-Type: application/json' -d "$pipe_body" "$base/v1/pipes/flow" || true)"
 if [ "$pipe_status" = 404 ]; then
   pipe_note="POST /v1/pipes/flow: skipped, the endpoint answers 404 in this build"
@@ -116,7 +131,7 @@ mapfile -t samples <"$work/rss"
 
 echo
 echo "machine: $(lscpu | awk -F': +' '/^Model name/ {print $2; exit}'), $(nproc) cores; load average before the run: $load_before, after it: $(cut -d' ' -f1-3 /proc/loadavg)"
-echo "wrk: $threads threads, $connections connections, ${duration} s per scenario after a 5 s warm-up, on the same machine as the service"
+echo "wrk: $threads threads, $connections connections, ${duration} s per scenario after a ${warmup} s warm-up, on the same machine as the service"
 echo
 printf '%-28s %12s %10s %10s %10s %8s %8s\n' scenario "requests/s" p50 p99 requests non-2xx socket
 printf '%s\n' "${rows[@]}"

@@ -233,9 +233,4 @@ public sealed record PumpCurvesResponse(
     [property: Description("The duty point, as from /v1/pumps/duty-point; omitted when there is none.")] DutyPointResponse? DutyPoint,
     int Iterations, bool Converged,
     string Units, string FlowUnit, string HeadUnit,
-    IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary
-{
-    /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
-    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
-}
-
+    IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary;

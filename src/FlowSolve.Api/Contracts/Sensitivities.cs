@@ -3,11 +3,8 @@ using FlowSolve.Core.Fluids;
 namespace FlowSolve.Api.Contracts;
 
 /// <summary>One sensitivity of an output to an input.</summary>
-/// <param name="Derivative">d(output)/d(input) in SI units (output's SI unit per input's SI unit; temperatures per kelvin,
-/// equal to per degree C), whatever the request's units.</param>
-/// <param name="Elasticity">(d output / output) / (d input / input) = derivative x input / output, dimensionless: the
-/// percent change of the output per percent change of the input, with both in SI (temperature in degrees C). Absent
-/// when the output or the input is zero.</param>
+/// <param name="Derivative">d(output)/d(input) in SI units (output's SI unit per input's SI unit; temperatures per kelvin, equal to per degree C), whatever the request's units.</param>
+/// <param name="Elasticity">(d output / output) / (d input / input) = derivative x input / output, dimensionless: the percent change of the output per percent change of the input, with both in SI (temperature in degrees C). Absent when the output or the input is zero.</param>
 public sealed record SensitivityDto(double Derivative, double? Elasticity);
 
 /// <summary>The answer at the two ends of the tabulated roughness range of the material (new to aged).</summary>

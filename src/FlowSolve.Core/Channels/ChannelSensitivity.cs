@@ -37,7 +37,7 @@ public readonly record struct ChannelSensitivities(
 /// (their points are not differentiated).</para>
 /// <para>Secondary outputs: V = Q/A gives dV/dp = Q_p/A - V (T dy/dp + A_p)/A; Fr = V sqrt(T/(gA)) gives
 /// d ln Fr = d ln V + (1/2) d ln T - (1/2) d ln A.</para>
-/// <para>Allocation-free apart from nothing; thread-safe.</para>
+/// <para>Allocation-free and thread-safe.</para>
 /// </remarks>
 public static class ChannelSensitivity
 {

@@ -223,4 +223,22 @@ public sealed class SensitivityEndpointsTests(ApiFixture api)
         Assert.Contains("id=\"roughness-spread\"", html);
         Assert.Contains("<td>headLoss</td><td>flow</td>", html);
     }
+
+    [Fact]
+    public async Task Sensitivities_BatchCsv_NoColumnsAndNoObjects()
+    {
+        // Batches never ask for sensitivities: the CSV header has no sensitivity or spread column, and JSON rows carry neither.
+        using var content = new StringContent("flow,diameter,length,material\r\n0.05,0.2,500,commercial-steel\r\n", System.Text.Encoding.UTF8, "text/csv");
+        using var response = await api.Client.PostAsync("/v1/batch/pipes/head-loss?sensitivities=true", content, TestContext.Current.CancellationToken);
+        string csv = await response.Content.ReadAsStringAsync(TestContext.Current.CancellationToken);
+        Assert.Equal(200, (int)response.StatusCode);
+        string header = csv.Split("\r\n")[0];
+        Assert.Contains("headLoss", header.Split(','));
+        Assert.DoesNotContain("sensitivities", header);
+        Assert.DoesNotContain("roughnessSpread", header);
+        var (status, _, json) = await api.PostRaw("/v1/batch/pipes/head-loss",
+            """[{"flow": 0.05, "diameter": 0.2, "length": 500, "material": "commercial-steel"}]""", "application/json");
+        Assert.Equal(200, status);
+        Assert.False(json[0].GetProperty("result").TryGetProperty("sensitivities", out _));
+    }
 }

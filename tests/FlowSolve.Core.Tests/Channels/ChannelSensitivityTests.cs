@@ -71,6 +71,27 @@ public sealed class ChannelSensitivityTests
         }
     }
 
+    [Theory]
+    [InlineData(double.NaN)]   // one n for the whole surveyed section
+    [InlineData(0.035)]        // composite: the overbank segments carry their own n (Horton-Einstein), the rest the default
+    public void NormalDepth_Surveyed_FlowSlopeAndDefaultNMatchCentralDifferences(double overbankN)
+    {
+        double[] x = [0, 4, 7, 11], z = [2, 0, 0, 2];
+        double[]? own = double.IsNaN(overbankN) ? null : [overbankN, double.NaN, overbankN];
+        var section = new SurveyedSection(x, z, own);
+        double q = 3, slope = 0.001, n = 0.02;
+        NormalDepthResult Run(double qq, double ss, double nn) => ManningSolver.NormalDepth(section, qq, ss, nn);
+        var r = Run(q, slope, n);
+        Assert.True(r.Converged);
+        var s = ChannelSensitivity.NormalDepth(section, r.NormalDepth, q, slope, n);
+        CentralDifference.Check("dy/dQ", s.Flow.Depth, v => Run(v, slope, n).NormalDepth, q);
+        CentralDifference.Check("dy/dS", s.Slope.Depth, v => Run(q, v, n).NormalDepth, slope);
+        CentralDifference.Check("dy/dn", s.ManningN.Depth, v => Run(q, slope, v).NormalDepth, n);
+        CentralDifference.Check("dV/dn", s.ManningN.Velocity, v => Run(q, slope, v).Velocity, n);
+        CentralDifference.Check("dFr/dQ", s.Flow.FroudeNumber, v => Run(v, slope, n).FroudeNumber, q);
+        Assert.True(double.IsNaN(s.BottomWidth.Depth) && double.IsNaN(s.Diameter.Depth)); // points are not differentiated
+    }
+
     [Fact]
     public void NormalDepth_WideRectangle_FlowElasticityApproachesThreeFifths()
     {

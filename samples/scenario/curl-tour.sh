@@ -45,6 +45,9 @@ cell "friction factor (Re 353569, e/D 1.314e-4)" "/v1/friction-factor?reynolds=3
 cell "head loss (friction and fittings), m" "/v1/pipes/head-loss?$main&format=text"
 cell "total head with the 76.5 m lift, m" "/v1/pipes/head-loss?$main&format=text&select=totalHead"
 cell "velocity, m/s" "/v1/pipes/head-loss?$main&format=text&select=velocity"
+cell "d(head loss)/d(flow), m per m3/s" "/v1/pipes/head-loss?$main&sensitivities=true&format=text&select=sensitivities.headLoss.flow.derivative"
+cell "head loss elasticity to roughness" "/v1/pipes/head-loss?$main&sensitivities=true&format=text&select=sensitivities.headLoss.roughness.elasticity"
+cell "head loss if the steel is rusted (aged), m" "/v1/pipes/head-loss?$main&sensitivities=true&format=text&select=roughnessSpread.atAged"
 request "the same as a JSON body (full answer, first 300 bytes)" -X POST "$base/v1/pipes/head-loss" \
   -H 'Content-Type: application/json' \
   -d '{"flow": 0.12, "diameter": 0.35, "length": 2350, "material": "commercial-steel", "temperature": 12,

@@ -19,6 +19,11 @@ public static class ChannelDocs
         "standard gravity, 9.80665 m/s2. Bad input answers 400 with each bad field named (section.bottomWidth, " +
         "section.points[1].station in a body; bottomWidth, points[1].station in a query).\n\n";
 
+    private const string SensitivityNote =
+        "With sensitivities=true: the depth, velocity (and for the normal depth the Froude number) against flow, slope and " +
+        "manningN where they apply, and the section's own dimensions (bottomWidth, sideSlope or leftSideSlope and rightSideSlope, " +
+        "diameter; named as in the request, section.* in a body); a surveyed section's points and segment n are not differentiated.\n\n";
+
     private const string Caution = "Results are engineering estimates to be checked by a qualified engineer; local codes and licensed practice govern.";
 
     public const string NormalDepth =
@@ -30,12 +35,12 @@ public static class ChannelDocs
         "answer), and a flow above the peak has none. A surveyed section can have several normal depths where the water spreads onto " +
         "flat overbanks. Circular and surveyed sections report their capacity (maximumFlow, depthAtMaximumFlow, fullFlow). A flow " +
         "above a pipe's peak, or one that overtops a surveyed section, answers 422 with the capacity in the request's units.\n\n" +
-        Sections + UnitsText + Caution;
+        Sections + UnitsText + SensitivityNote + Caution;
 
     public const string CriticalDepth =
         "Critical depth from Q^2 T = g A^3 (Froude number 1 on the hydraulic depth A/T), solved by safeguarded Newton iteration, with " +
         "the area, top width, velocity and specific energy at that depth (the least specific energy with which the section passes the " +
         "flow), and the critical slope when a Manning n is given. A surveyed compound section can have several critical depths (all " +
         "are returned, the lowest first); a flow whose critical depth would lie above a surveyed section answers 422.\n\n" +
-        Sections + UnitsText + Caution;
+        Sections + UnitsText + SensitivityNote + Caution;
 }

@@ -4,7 +4,9 @@ using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
 using FlowSolve.Core.Channels;
 using FlowSolve.Core.Numerics;
+using System.ComponentModel;
 using Microsoft.AspNetCore.Http.HttpResults;
+using Microsoft.AspNetCore.Mvc;
 
 namespace FlowSolve.Api.Channels;
 
@@ -15,7 +17,8 @@ public static class ChannelEndpoints
     {
         var group = routes.MapGroup("/v1/channels").WithTags("Channels");
 
-        group.MapGet("/normal-depth", ([AsParameters] NormalDepthQuery request) => NormalDepth(request))
+        group.MapGet("/normal-depth", ([AsParameters] NormalDepthQuery request,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => NormalDepth(request, sensitivities == true))
             .WithName("GetNormalDepth")
             .WithSummary("Normal depth by Manning's equation (query parameters)")
             .WithDescription(ChannelDocs.NormalDepth)
@@ -23,21 +26,24 @@ public static class ChannelEndpoints
                 ("slope", "0.001"), ("flow", "10"))
             .AsCalculation("channels/normal-depth", "normalDepth");
 
-        group.MapPost("/normal-depth", (NormalDepthRequest request) => NormalDepth(request))
+        group.MapPost("/normal-depth", (NormalDepthRequest request,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => NormalDepth(request, sensitivities == true))
             .WithName("PostNormalDepth")
             .WithSummary("Normal depth by Manning's equation (JSON body)")
             .WithDescription(ChannelDocs.NormalDepth)
             .WithBodyExample(new NormalDepthRequest(new SectionInput("circular", Diameter: 1.2), ManningN: 0.013, Slope: 0.002, Flow: 1.1))
             .AsCalculation("channels/normal-depth", "normalDepth");
 
-        group.MapGet("/critical-depth", ([AsParameters] CriticalDepthQuery request) => CriticalDepth(request))
+        group.MapGet("/critical-depth", ([AsParameters] CriticalDepthQuery request,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => CriticalDepth(request, sensitivities == true))
             .WithName("GetCriticalDepth")
             .WithSummary("Critical depth (query parameters)")
             .WithDescription(ChannelDocs.CriticalDepth)
             .WithQueryExample(("shape", "rectangular"), ("bottomWidth", "4"), ("flow", "12"), ("manningN", "0.015"))
             .AsCalculation("channels/critical-depth", "criticalDepth");
 
-        group.MapPost("/critical-depth", (CriticalDepthRequest request) => CriticalDepth(request))
+        group.MapPost("/critical-depth", (CriticalDepthRequest request,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => CriticalDepth(request, sensitivities == true))
             .WithName("PostCriticalDepth")
             .WithSummary("Critical depth (JSON body)")
             .WithDescription(ChannelDocs.CriticalDepth)
@@ -51,40 +57,41 @@ public static class ChannelEndpoints
         return routes;
     }
 
-    public static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(NormalDepthRequest request)
+    public static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(NormalDepthRequest request, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         if (request.Section is null) errors.Add("section", "is required: an object with shape and its dimensions");
         return NormalDepth(request.Section is null ? null : SectionFields.From(request.Section), "section.",
-            request.ManningN, request.Slope, request.Flow, request.Units, errors);
+            request.ManningN, request.Slope, request.Flow, request.Units, errors, sensitivities);
     }
 
-    public static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(NormalDepthQuery q)
+    public static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(NormalDepthQuery q, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var fields = new SectionFields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter,
             ChannelInput.ParsePoints(q.Points, errors));
-        return NormalDepth(fields, "", q.ManningN, q.Slope, q.Flow, q.Units, errors);
+        return NormalDepth(fields, "", q.ManningN, q.Slope, q.Flow, q.Units, errors, sensitivities);
     }
 
-    public static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(CriticalDepthRequest request)
+    public static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(CriticalDepthRequest request, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         if (request.Section is null) errors.Add("section", "is required: an object with shape and its dimensions");
         return CriticalDepth(request.Section is null ? null : SectionFields.From(request.Section), "section.",
-            request.ManningN, request.Flow, request.Units, errors);
+            request.ManningN, request.Flow, request.Units, errors, sensitivities);
     }
 
-    public static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(CriticalDepthQuery q)
+    public static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(CriticalDepthQuery q, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var fields = new SectionFields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter,
             ChannelInput.ParsePoints(q.Points, errors));
-        return CriticalDepth(fields, "", q.ManningN, q.Flow, q.Units, errors);
+        return CriticalDepth(fields, "", q.ManningN, q.Flow, q.Units, errors, sensitivities);
     }
 
     private static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(
-        SectionFields? fields, string prefix, double? manningN, double? slope, double? flow, string? unitsText, FieldErrors errors)
+        SectionFields? fields, string prefix, double? manningN, double? slope, double? flow, string? unitsText, FieldErrors errors,
+        bool sensitivities)
     {
         var units = new ChannelUnits(UnitSystem.Parse(unitsText, errors));
         var assumptions = new List<AssumptionDto>();
@@ -120,11 +127,59 @@ public static class ChannelEndpoints
         if (!AllFinite(response.NormalDepth, response.Area, response.WettedPerimeter, response.HydraulicRadius, response.TopWidth,
                 response.Velocity, response.FroudeNumber, response.SpecificEnergy, response.EffectiveManningN, response.Residual))
             return Unrepresentable();
+        if (sensitivities && r.Converged)
+        {
+            double nUsed = n ?? 0.0;
+            var d = ChannelSensitivity.NormalDepth(section, r.NormalDepth, qSi, s, nUsed);
+            var b = new SensitivityBuilder();
+            void Add(string input, double value, in ChannelOutputDerivatives e)
+            {
+                b.Add("normalDepth", r.NormalDepth, input, value, e.Depth);
+                b.Add("velocity", r.Velocity, input, value, e.Velocity);
+                b.Add("froudeNumber", r.FroudeNumber, input, value, e.FroudeNumber);
+            }
+            Add("flow", qSi, d.Flow);
+            Add("slope", s, d.Slope);
+            if (n is double given) Add("manningN", given, d.ManningN);
+            AddDimensions(fields!, prefix, section, d, Add);
+            response = response with { Sensitivities = b.Build() };
+        }
         return TypedResults.Ok(response);
     }
 
+    /// <summary>The section's own dimensions, named as the request gave them (sideSlope moves both sides at once).</summary>
+    private static void AddDimensions(SectionFields fields, string prefix, ChannelSection section, in ChannelSensitivities d,
+        DimensionSink add)
+    {
+        switch (section)
+        {
+            case RectangularSection rect: add(prefix + "bottomWidth", rect.Width, d.BottomWidth); break;
+            case TrapezoidalSection t:
+                add(prefix + "bottomWidth", t.BottomWidth, d.BottomWidth);
+                Sides(t.LeftSideSlope, t.RightSideSlope, d, add);
+                break;
+            case TriangularSection t: Sides(t.LeftSideSlope, t.RightSideSlope, d, add); break;
+            case CircularSection c: add(prefix + "diameter", c.Diameter, d.Diameter); break;
+        }
+
+        void Sides(double left, double right, in ChannelSensitivities d, DimensionSink add)
+        {
+            if (fields.SideSlope is not null)
+                add(prefix + "sideSlope", left, new ChannelOutputDerivatives(d.LeftSideSlope.Depth + d.RightSideSlope.Depth,
+                    d.LeftSideSlope.Velocity + d.RightSideSlope.Velocity, d.LeftSideSlope.FroudeNumber + d.RightSideSlope.FroudeNumber));
+            else
+            {
+                add(prefix + "leftSideSlope", left, d.LeftSideSlope);
+                add(prefix + "rightSideSlope", right, d.RightSideSlope);
+            }
+        }
+    }
+
+    private delegate void DimensionSink(string input, double value, in ChannelOutputDerivatives derivatives);
+
     private static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(
-        SectionFields? fields, string prefix, double? manningN, double? flow, string? unitsText, FieldErrors errors)
+        SectionFields? fields, string prefix, double? manningN, double? flow, string? unitsText, FieldErrors errors,
+        bool sensitivities)
     {
         var units = new ChannelUnits(UnitSystem.Parse(unitsText, errors));
         var assumptions = new List<AssumptionDto>();
@@ -155,6 +210,19 @@ public static class ChannelEndpoints
             Warnings(r.Warnings, units), CommonAssumptions(assumptions, unitsText, units, n));
         if (!AllFinite(response.CriticalDepth, response.Area, response.TopWidth, response.Velocity, response.SpecificEnergy, response.Residual))
             return Unrepresentable();
+        if (sensitivities && r.Converged)
+        {
+            var d = ChannelSensitivity.CriticalDepth(section, r.CriticalDepth, qSi);
+            var b = new SensitivityBuilder();
+            void Add(string input, double value, in ChannelOutputDerivatives e)
+            {
+                b.Add("criticalDepth", r.CriticalDepth, input, value, e.Depth);
+                b.Add("velocity", r.Velocity, input, value, e.Velocity);
+            }
+            Add("flow", qSi, d.Flow);
+            AddDimensions(fields!, prefix, section, d, Add);
+            response = response with { Sensitivities = b.Build() };
+        }
         return TypedResults.Ok(response);
     }
 

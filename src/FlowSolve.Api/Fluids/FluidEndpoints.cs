@@ -31,7 +31,12 @@ public sealed record WaterRequest(
 public sealed record WaterResponse(
     double Temperature, double Density, double DynamicViscosity, double KinematicViscosity, double VapourPressure,
     double Pressure, string Units, string Method,
-    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions);
+    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions)
+{
+    /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+}
+
 
 /// <summary><c>GET /v1/fluids/water</c>.</summary>
 public static class FluidEndpoints
@@ -41,7 +46,8 @@ public static class FluidEndpoints
     public static IEndpointRouteBuilder MapFluidEndpoints(this IEndpointRouteBuilder routes)
     {
         var group = routes.MapGroup("/v1/fluids").WithTags("Fluids");
-        group.MapGet("/water", ([AsParameters] WaterRequest request) => Calculate(request))
+        group.MapGet("/water", ([AsParameters] WaterRequest request,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Calculate(request, sensitivities == true))
             .WithName("GetWater")
             .WithSummary("Properties of liquid water at atmospheric pressure")
             .WithDescription("Density, dynamic and kinematic viscosity and vapour pressure of liquid water at 1 standard atmosphere " +
@@ -53,7 +59,7 @@ public static class FluidEndpoints
         return routes;
     }
 
-    public static Results<Ok<WaterResponse>, ValidationProblem> Calculate(WaterRequest request)
+    public static Results<Ok<WaterResponse>, ValidationProblem> Calculate(WaterRequest request, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var units = UnitSystem.Parse(request.Units, errors);
@@ -85,9 +91,21 @@ public static class FluidEndpoints
                 request.Temperature!.Value, true, "IAPWS R12-08 (2008), industrial form"),
         };
 
-        return TypedResults.Ok(new WaterResponse(
+        var response = new WaterResponse(
             request.Temperature!.Value, units.Density(p.Density), units.DynamicViscosity(p.DynamicViscosity),
             units.KinematicViscosity(p.KinematicViscosity), units.Pressure(p.VapourPressure), units.Pressure(Water.AtmosphericPressure),
-            units.Code, Method, validity, warnings, assumptions));
+            units.Code, Method, validity, warnings, assumptions);
+        if (sensitivities)
+        {
+            // Analytic temperature derivatives (WaterSensitivity), per kelvin, in SI; elasticities against degrees C.
+            var d = WaterSensitivity.At(celsius);
+            var b = new SensitivityBuilder();
+            b.Add("density", p.Density, "temperature", celsius, d.DensityDerivative);
+            b.Add("dynamicViscosity", p.DynamicViscosity, "temperature", celsius, d.DynamicViscosityDerivative);
+            b.Add("kinematicViscosity", p.KinematicViscosity, "temperature", celsius, d.KinematicViscosityDerivative);
+            b.Add("vapourPressure", p.VapourPressure, "temperature", celsius, d.VapourPressureDerivative);
+            response = response with { Sensitivities = b.Build() };
+        }
+        return TypedResults.Ok(response);
     }
 }

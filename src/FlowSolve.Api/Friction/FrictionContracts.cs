@@ -53,4 +53,9 @@ public sealed record FrictionFactorResponse(
     double Reynolds, double RelativeRoughness,
     int Iterations, bool Converged, double Residual, string Status, string SolveVariable,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<ApproximationDto> Approximations, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary;
+    IReadOnlyList<ApproximationDto> Approximations, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
+{
+    /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+}
+

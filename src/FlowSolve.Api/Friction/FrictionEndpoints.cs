@@ -5,7 +5,9 @@ using FlowSolve.Api.Problems;
 using FlowSolve.Core;
 using FlowSolve.Core.Friction;
 using FlowSolve.Core.Numerics;
+using System.ComponentModel;
 using Microsoft.AspNetCore.Http.HttpResults;
+using Microsoft.AspNetCore.Mvc;
 
 namespace FlowSolve.Api.Friction;
 
@@ -16,14 +18,16 @@ public static class FrictionEndpoints
     {
         var group = routes.MapGroup("/v1/friction-factor").WithTags("Friction factor");
 
-        group.MapGet("/", ([AsParameters] FrictionFactorRequest request) => Calculate(request))
+        group.MapGet("/", ([AsParameters] FrictionFactorRequest request,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Calculate(request, sensitivities == true))
             .WithName("GetFrictionFactor")
             .WithSummary("Darcy friction factor (query parameters)")
             .WithDescription(Description)
             .WithQueryExample(("reynolds", "75000"), ("relativeRoughness", "0.005"))
             .AsCalculation("friction-factor", "frictionFactor");
 
-        group.MapPost("/", (FrictionFactorRequest request) => Calculate(request))
+        group.MapPost("/", (FrictionFactorRequest request,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Calculate(request, sensitivities == true))
             .WithName("PostFrictionFactor")
             .WithSummary("Darcy friction factor (JSON body)")
             .WithDescription(Description)
@@ -36,7 +40,7 @@ public static class FrictionEndpoints
 
     private static string Description => FrictionDocs.Description;
 
-    public static Results<Ok<FrictionFactorResponse>, ValidationProblem> Calculate(FrictionFactorRequest request)
+    public static Results<Ok<FrictionFactorResponse>, ValidationProblem> Calculate(FrictionFactorRequest request, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         double reynolds = errors.Required("reynolds", request.Reynolds, DarcyFriction.MinimumReynolds, DarcyFriction.MaximumReynolds);
@@ -106,7 +110,31 @@ public static class FrictionEndpoints
             exact.Status.Code(), "1/sqrt(f)",
             Validity(chosen, reynolds, relativeRoughness, options), warnings, assumptions, approximations,
             TraceStepDto.From(trace));
+        if (sensitivities) response = response with { Sensitivities = Sensitivities(chosen, reynolds, relativeRoughness, request) };
         return TypedResults.Ok(response);
+    }
+
+    /// <summary>df/dRe and df/d(e/D) of the relation used (analytic; <see cref="FrictionSensitivity"/>), and through
+    /// e/D = roughness/diameter when those were given.</summary>
+    private static IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities(
+        in FrictionResult chosen, double reynolds, double relativeRoughness, FrictionFactorRequest request)
+    {
+        var p = FrictionSensitivity.Of(chosen, reynolds, relativeRoughness);
+        var b = new SensitivityBuilder();
+        double f = chosen.FrictionFactor;
+        b.Add("frictionFactor", f, "reynolds", reynolds, p.Reynolds);
+        if (request.RelativeRoughness is not null)
+        {
+            b.Add("frictionFactor", f, "relativeRoughness", relativeRoughness, p.RelativeRoughness);
+        }
+        else
+        {
+            // Roughness and diameter share one (unstated) length unit, so these derivatives are per that unit.
+            double e = request.Roughness!.Value, d = request.Diameter!.Value;
+            b.Add("frictionFactor", f, "roughness", e, p.RelativeRoughness / d);
+            b.Add("frictionFactor", f, "diameter", d, -p.RelativeRoughness * e / (d * d));
+        }
+        return b.Build();
     }
 
     /// <summary>The Colebrook-White residual at the returned factor itself. The Core reports it at the last evaluated

@@ -203,6 +203,9 @@ internal static class ResponseColumns
             string name = prefix + JsonNamingPolicy.CamelCase.ConvertName(p.Name);
             var t = Nullable.GetUnderlyingType(p.PropertyType) ?? p.PropertyType;
             System.Reflection.PropertyInfo[] here = [.. path, p];
+            // The sensitivities (a nested dictionary) and the roughness spread answer only sensitivities=true, which batches do
+            // not take: they stay out of the CSV columns.
+            if (name is "sensitivities" or "roughnessSpread") continue;
             if (t.IsPrimitive || t == typeof(string) || t == typeof(decimal)) columns.Add(new ResponseColumn(name, here));
             else if (name == "warnings") columns.Add(new ResponseColumn(name, here));
             else if (!typeof(System.Collections.IEnumerable).IsAssignableFrom(t) && t.IsClass && depth < 3) Walk(t, name + ".", here, columns, depth + 1);

@@ -228,7 +228,15 @@ public sealed record PipeHeadLossResponse(
     double Length, double Roughness, double MinorLossCoefficient, double KinematicViscosity, double? Density,
     int Iterations, bool Converged, double Residual, string Status, string Method, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    DarcyWeisbachComparisonDto? DarcyWeisbach) : FlowSolve.Api.Hosting.ISolveSummary;
+    DarcyWeisbachComparisonDto? DarcyWeisbach) : FlowSolve.Api.Hosting.ISolveSummary
+{
+    /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+
+    /// <summary>Present only with sensitivities=true and a material whose table entry has new and aged roughness: the answer at both ends of that range.</summary>
+    public RoughnessSpreadDto? RoughnessSpread { get; init; }
+}
+
 
 /// <summary>Flow through a pipe from the head available to drive it.</summary>
 /// <param name="Flow">The flow found, in the flow unit (m3/s, ft3/s or gpm).</param>
@@ -274,7 +282,15 @@ public sealed record PipeFlowResponse(
     int Iterations, int FrictionIterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable,
     string Method, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    DarcyWeisbachComparisonDto? DarcyWeisbach, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary;
+    DarcyWeisbachComparisonDto? DarcyWeisbach, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
+{
+    /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+
+    /// <summary>Present only with sensitivities=true and a material whose table entry has new and aged roughness: the answer at both ends of that range.</summary>
+    public RoughnessSpreadDto? RoughnessSpread { get; init; }
+}
+
 
 /// <summary>The minimum inside diameter for a flow within an allowed head loss, and the smallest listed size meeting it.</summary>
 /// <param name="Diameter">Minimum inside diameter, m (ft with units=us): at it, hf + hm equals the allowed loss.</param>
@@ -320,4 +336,12 @@ public sealed record PipeDiameterResponse(
     int Iterations, int FrictionIterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable,
     string Method, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary;
+    IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
+{
+    /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+
+    /// <summary>Present only with sensitivities=true and a material whose table entry has new and aged roughness: the answer at both ends of that range.</summary>
+    public RoughnessSpreadDto? RoughnessSpread { get; init; }
+}
+

@@ -6,7 +6,9 @@ using FlowSolve.Core;
 using FlowSolve.Core.Friction;
 using FlowSolve.Core.Numerics;
 using FlowSolve.Core.Pipes;
+using System.ComponentModel;
 using Microsoft.AspNetCore.Http.HttpResults;
+using Microsoft.AspNetCore.Mvc;
 
 namespace FlowSolve.Api.Pipes;
 
@@ -23,14 +25,16 @@ public static class PipeEndpoints
         // The calculations answer 422 for a well-formed problem without an answer; ProblemHttpResult does not say so itself.
         var calculations = group.MapGroup("").ProducesProblem(StatusCodes.Status422UnprocessableEntity);
 
-        calculations.MapGet("/head-loss", ([AsParameters] PipeHeadLossRequest request, ILoggerFactory log) => HeadLoss(request, log))
+        calculations.MapGet("/head-loss", ([AsParameters] PipeHeadLossRequest request, ILoggerFactory log,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => HeadLoss(request, log, sensitivities == true))
             .WithName("GetPipeHeadLoss")
             .WithSummary("Head loss of a pipe at a flow (query parameters)")
             .WithDescription(PipeDocs.HeadLoss)
             .WithQueryExample(("flow", "0.2"), ("diameter", "0.2"), ("length", "500"), ("material", "cast-iron"),
                 ("kinematicViscosity", "1e-5"), ("density", "900"), ("fittings", "elbow-90-flanged-regular:3,gate-valve-open:1"))
             .AsCalculation("pipes/head-loss", "headLoss");
-        calculations.MapPost("/head-loss", (PipeHeadLossRequest request, ILoggerFactory log) => HeadLoss(request, log))
+        calculations.MapPost("/head-loss", (PipeHeadLossRequest request, ILoggerFactory log,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => HeadLoss(request, log, sensitivities == true))
             .WithName("PostPipeHeadLoss")
             .WithSummary("Head loss of a pipe at a flow (JSON body)")
             .WithDescription(PipeDocs.HeadLoss)
@@ -38,14 +42,16 @@ public static class PipeEndpoints
                 Fittings: [new("elbow-90-flanged-regular", 4), new("gate-valve-open", 2)], ElevationChange: 8, Temperature: 15))
             .AsCalculation("pipes/head-loss", "headLoss");
 
-        calculations.MapGet("/flow", ([AsParameters] PipeFlowRequest request, ILoggerFactory log) => Flow(request, log))
+        calculations.MapGet("/flow", ([AsParameters] PipeFlowRequest request, ILoggerFactory log,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Flow(request, log, sensitivities == true))
             .WithName("GetPipeFlow")
             .WithSummary("Flow through a pipe from the available head (query parameters)")
             .WithDescription(PipeDocs.Flow)
             .WithQueryExample(("headLoss", "20"), ("diameter", "0.15"), ("length", "800"), ("roughness", "0.000045"),
                 ("elevationChange", "5"), ("temperature", "10"))
             .AsCalculation("pipes/flow", "flow");
-        calculations.MapPost("/flow", (PipeFlowRequest request, ILoggerFactory log) => Flow(request, log))
+        calculations.MapPost("/flow", (PipeFlowRequest request, ILoggerFactory log,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Flow(request, log, sensitivities == true))
             .WithName("PostPipeFlow")
             .WithSummary("Flow through a pipe from the available head (JSON body)")
             .WithDescription(PipeDocs.Flow)
@@ -53,14 +59,16 @@ public static class PipeEndpoints
                 MinorLossCoefficient: 2.5, Method: "hazen-williams", HazenWilliamsC: 120, Temperature: 15))
             .AsCalculation("pipes/flow", "flow");
 
-        calculations.MapGet("/diameter", ([AsParameters] PipeDiameterRequest request, ILoggerFactory log) => Diameter(request, log))
+        calculations.MapGet("/diameter", ([AsParameters] PipeDiameterRequest request, ILoggerFactory log,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Diameter(request, log, sensitivities == true))
             .WithName("GetPipeDiameter")
             .WithSummary("Minimum diameter, and the smallest listed size, for a flow within an allowed head loss (query parameters)")
             .WithDescription(PipeDocs.Diameter)
             .WithQueryExample(("flow", "0.03"), ("headLoss", "6"), ("length", "400"), ("material", "commercial-steel"),
                 ("sizeTable", "asme-b36.10m-schedule-40"))
             .AsCalculation("pipes/diameter", "diameter");
-        calculations.MapPost("/diameter", (PipeDiameterRequest request, ILoggerFactory log) => Diameter(request, log))
+        calculations.MapPost("/diameter", (PipeDiameterRequest request, ILoggerFactory log,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Diameter(request, log, sensitivities == true))
             .WithName("PostPipeDiameter")
             .WithSummary("Minimum diameter, and the smallest listed size, for a flow within an allowed head loss (JSON body)")
             .WithDescription(PipeDocs.Diameter)
@@ -77,7 +85,8 @@ public static class PipeEndpoints
         return routes;
     }
 
-    public static Results<Ok<PipeHeadLossResponse>, ValidationProblem, ProblemHttpResult> HeadLoss(PipeHeadLossRequest request, ILoggerFactory log)
+    public static Results<Ok<PipeHeadLossResponse>, ValidationProblem, ProblemHttpResult> HeadLoss(PipeHeadLossRequest request, ILoggerFactory log,
+        bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var input = PipeInput.Read(request, errors);
@@ -102,7 +111,7 @@ public static class PipeEndpoints
 
             if (!input.HazenWilliams)
             {
-                return TypedResults.Ok(new PipeHeadLossResponse(
+                var dw = new PipeHeadLossResponse(
                     u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss), u.Length(s.MinorHeadLoss), input.Pressure(result.PressureDrop),
                     u.Length(result.ElevationRise), u.Length(result.TotalHead), input.Pressure(result.TotalPressureDifference),
                     input.FlowUnit.FromSi(s.Flow), u.Length(s.Diameter), u.Velocity(s.Velocity), u.Length(s.VelocityHead),
@@ -110,7 +119,20 @@ public static class PipeEndpoints
                     u.Length(input.Length), u.Length(input.Roughness), input.MinorLossCoefficient,
                     u.KinematicViscosity(input.Fluid.KinematicViscosity), input.DensityOut,
                     result.Iterations, result.Converged, residual, result.Status.Code(), input.MethodCode, u.Code, input.FlowUnit.Code,
-                    validity, PipeInput.Warnings(result.DescribeWarnings()), input.Assumptions, null));
+                    validity, PipeInput.Warnings(result.DescribeWarnings()), input.Assumptions, null);
+                if (sensitivities && result.Converged)
+                {
+                    var spread = PipeSensitivityTables.Spread("headLoss", input, e =>
+                        e < diameter ? u.Length(PipeHeadLoss.Compute(pipe with { Roughness = e }, input.Fluid, flow, input.ElevationRise).HeadLoss) : null);
+                    dw = dw with
+                    {
+                        Sensitivities = PipeSensitivityTables.Build(PipeSensitivityTables.Problem.HeadLoss,
+                            PipeSensitivity.HeadLoss(s, input.Length, input.Fluid.KinematicViscosity), s, input, 0),
+                        RoughnessSpread = spread,
+                        Warnings = PipeSensitivityTables.With(dw.Warnings, PipeSensitivityTables.SpreadWarning(input, spread)),
+                    };
+                }
+                return TypedResults.Ok(dw);
             }
 
             var hw = HazenWilliams.HeadLoss(pipe, input.Fluid, flow, input.HazenWilliamsC);
@@ -120,7 +142,7 @@ public static class PipeEndpoints
             var comparison = new DarcyWeisbachComparisonDto("headLoss", u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss),
                 input.FlowUnit.FromSi(s.Flow), u.Velocity(s.Velocity), s.Reynolds, s.FrictionFactor, PipeInput.RegimeCode(s.Regime),
                 result.Status.Code(), result.Iterations, u.Length(hw.Difference), hw.RelativeDifference * 100);
-            return TypedResults.Ok(new PipeHeadLossResponse(
+            var hwResponse = new PipeHeadLossResponse(
                 u.Length(hw.HeadLoss), u.Length(hw.FrictionHeadLoss), u.Length(hw.MinorHeadLoss), input.Pressure(rhoG * hw.HeadLoss),
                 u.Length(input.ElevationRise), u.Length(total), input.Pressure(rhoG * total),
                 input.FlowUnit.FromSi(hw.Flow), u.Length(hw.Diameter), u.Velocity(hw.Velocity), u.Length(s.VelocityHead),
@@ -129,7 +151,9 @@ public static class PipeEndpoints
                 u.Length(input.Length), u.Length(input.Roughness), input.MinorLossCoefficient,
                 u.KinematicViscosity(input.Fluid.KinematicViscosity), input.DensityOut,
                 0, true, 0.0, PipeStatus.Solved.Code(), input.MethodCode, u.Code, input.FlowUnit.Code,
-                validity, PipeInput.Warnings(hw.DescribeWarnings()), input.Assumptions, comparison));
+                validity, PipeInput.Warnings(hw.DescribeWarnings()), input.Assumptions, comparison);
+            if (sensitivities) hwResponse = hwResponse with { Warnings = PipeSensitivityTables.With(hwResponse.Warnings, PipeSensitivityTables.HazenWilliams) };
+            return TypedResults.Ok(hwResponse);
         }
         catch (ArgumentException ex)
         {
@@ -137,7 +161,8 @@ public static class PipeEndpoints
         }
     }
 
-    public static Results<Ok<PipeFlowResponse>, ValidationProblem, ProblemHttpResult> Flow(PipeFlowRequest request, ILoggerFactory log)
+    public static Results<Ok<PipeFlowResponse>, ValidationProblem, ProblemHttpResult> Flow(PipeFlowRequest request, ILoggerFactory log,
+        bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var input = PipeInput.Read(request, errors);
@@ -155,7 +180,7 @@ public static class PipeEndpoints
                 var r = PipeFlow.Solve(pipe, input.Fluid, head, input.ElevationRise, null, trace);
                 if (NoAnswer(r.Status, r.DrivingHead, input) is { } problem) return problem;
                 var s = r.State;
-                return TypedResults.Ok(new PipeFlowResponse(
+                var dwResponse = new PipeFlowResponse(
                     input.FlowUnit.FromSi(s.Flow), u.Velocity(s.Velocity), s.Reynolds, s.RelativeRoughness, s.FrictionFactor,
                     PipeInput.RegimeCode(s.Regime), s.Relation,
                     u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss), u.Length(s.MinorHeadLoss), input.Pressure(r.PressureDrop),
@@ -165,7 +190,25 @@ public static class PipeEndpoints
                     r.Iterations, r.FrictionIterations, r.Converged, r.Residual, r.Status.Code(), r.SolverStatus.Code(), "ln(Q)",
                     input.MethodCode, u.Code, input.FlowUnit.Code,
                     s.Validity().Select(input.Validity).ToArray(), PipeInput.Warnings(r.DescribeWarnings()), input.Assumptions,
-                    null, TraceStepDto.From(trace)));
+                    null, TraceStepDto.From(trace));
+                if (sensitivities && r.Status == PipeStatus.Solved)
+                {
+                    var spread = PipeSensitivityTables.Spread("flow", input, e =>
+                        e < diameter && PipeFlow.Solve(pipe with { Roughness = e }, input.Fluid, head, input.ElevationRise) is { Status: PipeStatus.Solved } at
+                            ? input.FlowUnit.FromSi(at.Flow) : null);
+                    dwResponse = dwResponse with
+                    {
+                        Sensitivities = PipeSensitivityTables.Build(PipeSensitivityTables.Problem.Flow,
+                            PipeSensitivity.Flow(s, input.Length, input.Fluid.KinematicViscosity), s, input, head),
+                        RoughnessSpread = spread,
+                        Warnings = PipeSensitivityTables.With(dwResponse.Warnings, PipeSensitivityTables.SpreadWarning(input, spread)),
+                    };
+                }
+                else if (sensitivities)
+                {
+                    dwResponse = dwResponse with { Warnings = PipeSensitivityTables.With(dwResponse.Warnings, PipeSensitivityTables.AtRegimeLimit) };
+                }
+                return TypedResults.Ok(dwResponse);
             }
 
             var hwFlow = HazenWilliams.Flow(pipe, input.Fluid, head, input.HazenWilliamsC, input.ElevationRise);
@@ -184,7 +227,7 @@ public static class PipeEndpoints
                 warnings.Add(new("darcy-weisbach-unavailable", "The Darcy-Weisbach flow from the same head has no answer: " + dw.Status.Reason() + "."));
             var validity = hw.Validity().Select(input.Validity).Concat(at.Validity().Select(input.Validity)).ToArray();
             double? rhoG = input.Fluid.Density * Physical.StandardGravity;
-            return TypedResults.Ok(new PipeFlowResponse(
+            var hwResponse = new PipeFlowResponse(
                 input.FlowUnit.FromSi(hw.Flow), u.Velocity(hw.Velocity), at.Reynolds, at.RelativeRoughness,
                 EquivalentDarcyFactor(hw.FrictionHeadLoss, at, input.Length), PipeInput.RegimeCode(at.Regime), "hazen-williams",
                 u.Length(hw.HeadLoss), u.Length(hw.FrictionHeadLoss), u.Length(hw.MinorHeadLoss), input.Pressure(rhoG * hw.HeadLoss),
@@ -194,7 +237,9 @@ public static class PipeEndpoints
                 hwFlow.Iterations, 0, hwFlow.Converged, Math.Log(hw.HeadLoss) - Math.Log(hwFlow.DrivingHead), hwFlow.Status.Code(),
                 hwFlow.Iterations == 0 ? "explicit" : hwFlow.Converged ? "converged" : "not-converged", "ln(Q)",
                 input.MethodCode, u.Code, input.FlowUnit.Code, validity, warnings, input.Assumptions,
-                comparison, TraceStepDto.From(trace)));
+                comparison, TraceStepDto.From(trace));
+            if (sensitivities) hwResponse = hwResponse with { Warnings = PipeSensitivityTables.With(hwResponse.Warnings, PipeSensitivityTables.HazenWilliams) };
+            return TypedResults.Ok(hwResponse);
         }
         catch (ArgumentException ex)
         {
@@ -202,7 +247,8 @@ public static class PipeEndpoints
         }
     }
 
-    public static Results<Ok<PipeDiameterResponse>, ValidationProblem, ProblemHttpResult> Diameter(PipeDiameterRequest request, ILoggerFactory log)
+    public static Results<Ok<PipeDiameterResponse>, ValidationProblem, ProblemHttpResult> Diameter(PipeDiameterRequest request, ILoggerFactory log,
+        bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var input = PipeInput.Read(request, errors, allowHazenWilliams: false);
@@ -255,7 +301,7 @@ public static class PipeEndpoints
                     .Select(w => w with { Message = $"At the selected size {size.Name}: {w.Message}" }));
             }
             double? pressureDrop = input.Fluid.Density * Physical.StandardGravity * s.HeadLoss;
-            return TypedResults.Ok(new PipeDiameterResponse(
+            var response = new PipeDiameterResponse(
                 u.Length(s.Diameter), input.FlowUnit.FromSi(s.Flow), u.Velocity(s.Velocity), s.Reynolds, s.RelativeRoughness,
                 s.FrictionFactor, PipeInput.RegimeCode(s.Regime), s.Relation,
                 u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss), u.Length(s.MinorHeadLoss), input.Pressure(pressureDrop),
@@ -264,7 +310,25 @@ public static class PipeEndpoints
                 u.KinematicViscosity(input.Fluid.KinematicViscosity), input.DensityOut, selected,
                 r.Iterations, r.FrictionIterations, r.Converged, r.Residual, r.Status.Code(), r.SolverStatus.Code(), "ln(D)",
                 input.MethodCode, u.Code, input.FlowUnit.Code,
-                validity.Select(input.Validity).ToArray(), warnings, input.Assumptions, TraceStepDto.From(trace)));
+                validity.Select(input.Validity).ToArray(), warnings, input.Assumptions, TraceStepDto.From(trace));
+            if (sensitivities && r.Status == PipeStatus.Solved)
+            {
+                var spread = PipeSensitivityTables.Spread("diameter", input, e =>
+                    PipeDiameter.Solve(input.Length, e, input.MinorLossCoefficient, input.Fluid, flow, allowed) is { Status: PipeStatus.Solved } at
+                        ? u.Length(at.Diameter) : null);
+                response = response with
+                {
+                    Sensitivities = PipeSensitivityTables.Build(PipeSensitivityTables.Problem.Diameter,
+                        PipeSensitivity.Diameter(s, input.Length, input.Fluid.KinematicViscosity), s, input, head),
+                    RoughnessSpread = spread,
+                    Warnings = PipeSensitivityTables.With(response.Warnings, PipeSensitivityTables.SpreadWarning(input, spread)),
+                };
+            }
+            else if (sensitivities)
+            {
+                response = response with { Warnings = PipeSensitivityTables.With(response.Warnings, PipeSensitivityTables.AtRegimeLimit) };
+            }
+            return TypedResults.Ok(response);
         }
         catch (ArgumentException ex)
         {

@@ -45,6 +45,11 @@ internal sealed class PipeInput
     public required bool HazenWilliams { get; init; }
     public required double HazenWilliamsC { get; init; }
     public required List<AssumptionDto> Assumptions { get; init; }
+    /// <summary>The water temperature in degrees C when the fluid is water (given or by default); null for a fluid given by
+    /// kinematicViscosity.</summary>
+    public double? WaterCelsius { get; init; }
+    /// <summary>The material whose table gave the roughness, when one was named.</summary>
+    public RoughnessMaterial? Material { get; init; }
 
     public string MethodCode => HazenWilliams ? "hazen-williams" : "darcy-weisbach";
 
@@ -99,7 +104,7 @@ internal sealed class PipeInput
         if (r.ElevationChange is null) assumptions.Add(new("elevationChange", "0", "outlet at the inlet's elevation (default)"));
         else elevation = units.LengthToSi(errors.Required("elevationChange", r.ElevationChange, -units.Length(MaxHead), units.Length(MaxHead), unit: units.LengthUnit));
 
-        var fluid = ReadFluid(r, units, errors, assumptions);
+        var fluid = ReadFluid(r, units, errors, assumptions, out double? waterCelsius);
 
         bool hazenWilliams = false;
         double c = double.NaN;
@@ -124,6 +129,7 @@ internal sealed class PipeInput
             Units = units, FlowUnit = flowUnit, Length = length, Roughness = roughness, RoughnessField = roughnessField,
             MinorLossCoefficient = minorLoss, ElevationRise = elevation, Fluid = fluid,
             HazenWilliams = hazenWilliams, HazenWilliamsC = c, Assumptions = assumptions,
+            WaterCelsius = waterCelsius, Material = r.Material is not null && RoughnessTable.TryGet(r.Material, out var m) ? m : null,
         };
     }
 
@@ -189,8 +195,10 @@ internal sealed class PipeInput
         return total;
     }
 
-    private static FluidProperties ReadFluid(IPipeRequest r, UnitSystem units, FieldErrors errors, List<AssumptionDto> assumptions)
+    private static FluidProperties ReadFluid(IPipeRequest r, UnitSystem units, FieldErrors errors, List<AssumptionDto> assumptions,
+        out double? waterCelsius)
     {
+        waterCelsius = null;
         if (r.Temperature is not null)
         {
             if (r.KinematicViscosity is not null || r.Density is not null)
@@ -199,10 +207,12 @@ internal sealed class PipeInput
                 ? errors.Required("temperature", r.Temperature, 32, 212, unit: "degrees F")
                 : errors.Required("temperature", r.Temperature, Water.MinimumTemperature, Water.MaximumTemperature, unit: "degrees C");
             if (errors.Has("temperature")) return default;
+            waterCelsius = Math.Clamp(units.TemperatureToCelsius(t), Water.MinimumTemperature, Water.MaximumTemperature);
             return WaterAt(units.TemperatureToCelsius(t), assumptions, null);
         }
         if (r.KinematicViscosity is null && r.Density is null)
         {
+            waterCelsius = DefaultWaterTemperature;
             return WaterAt(DefaultWaterTemperature, assumptions, units.IsUs ? "68 degrees F" : "20 degrees C");
         }
         double nu = units.KinematicViscosityToSi(errors.Required("kinematicViscosity", r.KinematicViscosity,

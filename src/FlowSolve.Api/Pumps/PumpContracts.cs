@@ -202,7 +202,12 @@ public sealed record DutyPointResponse(
     double? BestEfficiencyFlow, double? BestEfficiencyRatio,
     double? NpshAvailable, double? SuctionLoss, double? NpshRequired, double? NpshMargin, double? NpshRatio,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary;
+    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary
+{
+    /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+}
+
 
 /// <summary>The pump, pump-set and system curves sampled on one flow axis, for plotting, with the duty point.</summary>
 /// <param name="Flow">Set flows, evenly spaced from 0 (flow unit).</param>

@@ -19,7 +19,13 @@ public static class PumpDocs
         "static head, or curves that never meet, answer 422 with the figures (headShortfall, closestApproach and its flow). " +
         "Results are engineering estimates to be checked by a qualified engineer; local codes and licensed practice govern.";
 
-    public const string DutyPoint = "Duty point of identical pumps in parallel or series on a system curve. " + Common;
+    public const string DutyPoint = "Duty point of identical pumps in parallel or series on a system curve. " + SensitivityNote + Common;
+
+    /// <summary>What sensitivities=true adds to a duty point.</summary>
+    public const string SensitivityNote =
+        "With sensitivities=true: the flow and head against the curve's coefficients (when given as coefficients, not points; " +
+        "SI coefficients), speedRatio, staticHead, resistance, each pipe's length, diameter, roughness and minorLossCoefficient, " +
+        "and the fluid (temperature or kinematicViscosity) when there are pipes. ";
 
     public const string DutyPointGet =
         "Duty point, compact form for a spreadsheet cell: the pump as coefficients c0, c1, c2 (and c3) of one pump at rated " +
@@ -31,7 +37,8 @@ public static class PumpDocs
         "(the combined parallel or series curve), the system, and with data efficiency and NPSH required; plus the duty point " +
         "itself as from /v1/pumps/duty-point. The curves are returned also when there is no duty point (status and a warning " +
         "say why), since the plot shows where they fail to meet. The flows run from 0 to 1.2 times the larger of the duty flow " +
-        "and the set's zero-head flow; pump heads are the polynomial as it is and may fall below zero beyond the zero-head flow. " + Common;
+        "and the set's zero-head flow; pump heads are the polynomial as it is and may fall below zero beyond the zero-head flow. " +
+        "With sensitivities=true the duty point carries them (dutyPoint.sensitivities: its flow and head); the sampled curves have none. " + Common;
 
     /// <summary>A fictional pump and rising main (invented data, for the example only).</summary>
     public static DutyPointRequest Example { get; } = new(

@@ -21,14 +21,16 @@ public static class PumpEndpoints
     {
         var group = routes.MapGroup("/v1/pumps").WithTags("Pumps");
 
-        group.MapGet("/duty-point", ([AsParameters] DutyPointQuery query) => DutyPointFromQuery(query))
+        group.MapGet("/duty-point", ([AsParameters] DutyPointQuery query,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => DutyPointFromQuery(query, sensitivities == true))
             .WithName("GetPumpDutyPoint")
             .WithSummary("Pump duty point, compact form (query parameters)")
             .WithDescription(PumpDocs.DutyPointGet)
             .WithQueryExample(("c0", "40"), ("c1", "0"), ("c2", "-5000"), ("staticHead", "15"), ("resistance", "3000"))
             .AsCalculation("pumps/duty-point", "flow");
 
-        group.MapPost("/duty-point", (DutyPointRequest request) => CalculateDutyPoint(request))
+        group.MapPost("/duty-point", (DutyPointRequest request,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => CalculateDutyPoint(request, sensitivities == true))
             .WithName("PostPumpDutyPoint")
             .WithSummary("Pump duty point (JSON body)")
             .WithDescription(PumpDocs.DutyPoint)
@@ -37,8 +39,9 @@ public static class PumpEndpoints
 
         group.MapPost("/curves", (DutyPointRequest request,
                 [FromQuery(Name = "samplePoints")]
-                [Description("Number of points on each curve, 2 to 10001; 41 when omitted.")] int? samplePoints) =>
-                CalculateCurves(request, samplePoints))
+                [Description("Number of points on each curve, 2 to 10001; 41 when omitted.")] int? samplePoints,
+                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) =>
+                CalculateCurves(request, samplePoints, sensitivities == true))
             .WithName("PostPumpCurves")
             .WithSummary("Pump, pump-set and system curves for plotting, with the duty point (JSON body)")
             .WithDescription(PumpDocs.Curves)
@@ -77,20 +80,20 @@ public static class PumpEndpoints
             q.KinematicViscosity, q.Density, suction, q.Units, q.FlowUnit, q.Trace);
     }
 
-    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> DutyPointFromQuery(DutyPointQuery q)
+    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> DutyPointFromQuery(DutyPointQuery q, bool sensitivities = false)
     {
         var request = ToRequest(q);
         var system = request.System;
         // With no system at all, the first thing to say is that the static head is missing.
         var names = system is null ? new Dictionary<string, string>(QueryNames) { ["system"] = "staticHead" } : QueryNames;
-        return Calculate(request, names);
+        return Calculate(request, names, sensitivities);
     }
 
-    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> CalculateDutyPoint(DutyPointRequest request) =>
-        Calculate(request, null);
+    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> CalculateDutyPoint(DutyPointRequest request, bool sensitivities = false) =>
+        Calculate(request, null, sensitivities);
 
     private static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> Calculate(
-        DutyPointRequest request, IReadOnlyDictionary<string, string>? names)
+        DutyPointRequest request, IReadOnlyDictionary<string, string>? names, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var input = PumpInputReader.Read(request, errors, names);
@@ -98,10 +101,12 @@ public static class PumpEndpoints
         var (result, trace) = Solve(input);
         if (!result.Status.HasAnswer() && result.Status != DutyStatus.NotConverged) return NoAnswer(result, input.Units);
         if (!IsFinite(result)) return OutOfRange();
-        return TypedResults.Ok(Response(input, result, trace));
+        var response = Response(input, result, trace);
+        if (sensitivities && result.Status == DutyStatus.Solved) response = response with { Sensitivities = Sensitivities(request, input, result, names) };
+        return TypedResults.Ok(response);
     }
 
-    public static Results<Ok<PumpCurvesResponse>, ValidationProblem> CalculateCurves(DutyPointRequest request, int? samplePoints)
+    public static Results<Ok<PumpCurvesResponse>, ValidationProblem> CalculateCurves(DutyPointRequest request, int? samplePoints, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var input = PumpInputReader.Read(request, errors, null);
@@ -112,6 +117,7 @@ public static class PumpEndpoints
         var (result, trace) = Solve(input);
         var u = input.Units;
         DutyPointResponse? duty = result.Status is DutyStatus.Solved or DutyStatus.NotConverged && IsFinite(result) ? Response(input, result, trace) : null;
+        if (sensitivities && duty is not null && result.Status == DutyStatus.Solved) duty = duty with { Sensitivities = Sensitivities(request, input, result, null) };
         var curves = OperatingCurves.Sample(input.Curve, input.System, input.Arrangement, duty is null ? null : result.Flow,
             samplePoints ?? OperatingCurves.DefaultPoints, input.Data.Efficiency, input.Data.NpshRequired);
         var warnings = new List<WarningDto>(duty?.Warnings ?? input.Warnings);
@@ -125,6 +131,52 @@ public static class PumpEndpoints
             curves.NpshRequired is null ? null : Convert(curves.NpshRequired, u.Head),
             result.Status.Code(), result.Status.Reason(), duty, duty?.Iterations ?? 0, result.Status.HasAnswer(),
             u.Code, u.FlowUnit, u.HeadUnit, warnings, input.Assumptions));
+    }
+
+    /// <summary>The duty point's flow and head against every numeric input they depend on (<see cref="DutyPointSensitivity"/>),
+    /// keyed by the request's field names (the GET form's names for the GET form), in SI.</summary>
+    private static IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities(
+        DutyPointRequest request, PumpProblem input, in DutyPointResult r, IReadOnlyDictionary<string, string>? names)
+    {
+        string N(string field) => names is not null && names.TryGetValue(field, out var n) ? n : field;
+        var pipes = input.System.Pipes;
+        var perPipe = new DutyPipeDerivatives[pipes.Count];
+        var d = DutyPointSensitivity.At(input.Curve, input.System, input.Arrangement, r.Flow, perPipe);
+        var b = new SensitivityBuilder();
+        double q = r.Flow, h = r.Head;
+        void Add(string field, double value, DutyOutputDerivatives e)
+        {
+            b.Add("flow", q, N(field), value, e.Flow);
+            b.Add("head", h, N(field), value, e.Head);
+        }
+        var curve = input.Curve;
+        if (input.Fit is null && request.Pump?.Coefficients is { } given)
+        {
+            // The coefficients as the Core holds them (SI), whatever units the request used.
+            (double C, DutyOutputDerivatives D)[] c = [(curve.C0, d.C0), (curve.C1, d.C1), (curve.C2, d.C2), (curve.C3, d.C3)];
+            for (int k = 0; k < Math.Min(given.Count, 4); k++) Add($"pump.coefficients[{k}]", c[k].C, c[k].D);
+        }
+        Add("speedRatio", input.Arrangement.SpeedRatio, d.SpeedRatio);
+        Add("system.staticHead", input.System.StaticHead, d.StaticHead);
+        if (request.System?.Resistance is not null) Add("system.resistance", input.System.Coefficient, d.Resistance);
+        for (int i = 0; i < pipes.Count; i++)
+        {
+            var p = pipes[i];
+            Add($"system.pipes[{i}].length", p.Length, perPipe[i].Length);
+            Add($"system.pipes[{i}].diameter", p.Diameter, perPipe[i].Diameter);
+            Add($"system.pipes[{i}].roughness", p.Roughness, perPipe[i].Roughness);
+            Add($"system.pipes[{i}].minorLossCoefficient", p.MinorLossCoefficient, perPipe[i].MinorLossCoefficient);
+        }
+        if (pipes.Count > 0)
+        {
+            if (input.WaterCelsius is double t)
+            {
+                double dnu = SensitivityBuilder.KinematicViscosityPerKelvin(t);
+                Add("temperature", t, new DutyOutputDerivatives(d.KinematicViscosity.Flow * dnu, d.KinematicViscosity.Head * dnu));
+            }
+            else Add("kinematicViscosity", input.System.KinematicViscosity, d.KinematicViscosity);
+        }
+        return b.Build();
     }
 
     private static double[] Convert(IReadOnlyList<double> values, Func<double, double> to)

@@ -11,7 +11,7 @@ namespace FlowSolve.Api.Pumps;
 internal sealed record PumpProblem(
     PumpUnits Units, PumpCurve Curve, PumpCurveFit? Fit, SystemCurve System, PumpArrangement Arrangement,
     DutyPointData Data, FluidProperties Fluid, string Method, bool Trace,
-    List<AssumptionDto> Assumptions, List<WarningDto> Warnings, List<ValidityDto> Validity);
+    List<AssumptionDto> Assumptions, List<WarningDto> Warnings, List<ValidityDto> Validity, double? WaterCelsius = null);
 
 /// <summary>
 /// Reads and validates a pump request: every bad field is reported at once under its wire name (dotted for nested
@@ -333,7 +333,7 @@ internal static class PumpInputReader
 
         return new PumpProblem(u, curve, fit, system, new PumpArrangement(parallel, series, speed),
             new DutyPointData(efficiency, npsh, suction, fluid), fluid, string.Join("; ", method), request.Trace == true,
-            assumptions, warnings, validity);
+            assumptions, warnings, validity, waterCelsius);
 
         static double ToFahrenheit(double celsius) => celsius * 9.0 / 5.0 + 32;
     }

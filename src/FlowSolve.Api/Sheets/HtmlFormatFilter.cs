@@ -30,6 +30,11 @@ public sealed class HtmlFormatFilter : IEndpointFilter
             && Request(context) is { } request)
         {
             var sheet = builder.Build(new SheetContext(request, value, http.RequestServices));
+            // Every response that carries sensitivities names them alike, so one table serves every sheet.
+            var type = value.GetType();
+            sheet.Sensitivities ??= type.GetProperty("Sensitivities")?.GetValue(value)
+                as IReadOnlyDictionary<string, IReadOnlyDictionary<string, Contracts.SensitivityDto>>;
+            sheet.RoughnessSpread ??= type.GetProperty("RoughnessSpread")?.GetValue(value) as Contracts.RoughnessSpreadDto;
             return TypedResults.Text(SheetHtml.Render(sheet, now), ContentType, Encoding.UTF8, status);
         }
         if (status is >= 200 and < 300)

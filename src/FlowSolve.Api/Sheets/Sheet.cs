@@ -49,4 +49,10 @@ public sealed class Sheet
     public List<AssumptionDto> Assumptions { get; } = [];
 
     public List<SheetFigure> Figures { get; } = [];
+
+    /// <summary>The response's sensitivities (sensitivities=true), shown as a table; null otherwise.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; set; }
+
+    /// <summary>The response's roughness spread, when it has one.</summary>
+    public RoughnessSpreadDto? RoughnessSpread { get; set; }
 }

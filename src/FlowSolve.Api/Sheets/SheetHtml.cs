@@ -79,6 +79,8 @@ public static class SheetHtml
             sb.Append("</tbody></table>\n");
         });
         Section(sb, "results", "Results", () => Rows(sb, sheet.Results, "Result", highlightFirst: true));
+        if (sheet.Sensitivities is { Count: > 0 } || sheet.RoughnessSpread is not null)
+            Section(sb, "sensitivities", "Sensitivities", () => Sensitivities(sb, sheet));
 
         foreach (var f in sheet.Figures)
         {
@@ -153,6 +155,25 @@ public static class SheetHtml
         sb.Append("<section id=\"").Append(id).Append("\">\n<h2>").Append(E(title)).Append("</h2>\n");
         body();
         sb.Append("</section>\n");
+    }
+
+    private static void Sensitivities(StringBuilder sb, Sheet sheet)
+    {
+        if (sheet.Sensitivities is { Count: > 0 } table)
+        {
+            sb.Append("<p class=\"note\">Derivatives of each output with respect to each input, in SI units (temperature per kelvin), from implicit differentiation of the solved equation; elasticity is the percent change of the output per percent change of the input.</p>\n");
+            sb.Append("<table><thead><tr><th>Output</th><th>Input</th><th>Derivative (SI)</th><th>Elasticity</th></tr></thead><tbody>\n");
+            foreach (var (output, row) in table)
+                foreach (var (input, e) in row)
+                    sb.Append("<tr><td>").Append(E(output)).Append("</td><td>").Append(E(input)).Append("</td><td class=\"num\">")
+                      .Append(E(Fmt(e.Derivative))).Append("</td><td class=\"num\">").Append(e.Elasticity is double el ? E(Fmt(el)) : "&ndash;")
+                      .Append("</td></tr>\n");
+            sb.Append("</tbody></table>\n");
+        }
+        if (sheet.RoughnessSpread is { } r)
+            sb.Append("<p id=\"roughness-spread\">").Append(E(string.Create(C,
+                $"Across the roughness of {r.Material} from new ({Fmt(r.NewRoughness)}) to aged ({Fmt(r.AgedRoughness)}), {r.Output} ranges from {Fmt(r.Low)} to {Fmt(r.High)} (in this sheet's units). Roughness: {r.Source}.")))
+              .Append("</p>\n");
     }
 
     private static void Rows(StringBuilder sb, List<SheetRow> rows, string head, bool highlightFirst = false)

@@ -32,16 +32,16 @@ public static class Iapws2008Viscosity
     public const double ReducingViscosity = 1e-6;
 
     // IAPWS R12-08 (2008), Table 1: H_0..H_3 of Eq. (11).
-    private const double H0 = 1.67752;
-    private const double H1 = 2.20462;
-    private const double H2 = 0.6366564;
-    private const double H3 = -0.241605;
+    internal const double H0 = 1.67752;
+    internal const double H1 = 2.20462;
+    internal const double H2 = 0.6366564;
+    internal const double H3 = -0.241605;
 
-    private const int DensityTerms = 7;
+    internal const int DensityTerms = 7;
 
     // IAPWS R12-08 (2008), Table 2: H_ij of Eq. (12), i = 0..5 (powers of 1/Tbar - 1) by rows,
     // j = 0..6 (powers of rhobar - 1) along each row; the table's empty cells are zeros.
-    private static ReadOnlySpan<double> Hij =>
+    internal static ReadOnlySpan<double> Hij =>
     [
         5.20094e-1, 2.22531e-1, -2.81378e-1, 1.61913e-1, -3.25372e-2, 0.0, 0.0,
         8.50895e-2, 9.99115e-1, -9.06851e-1, 2.57399e-1, 0.0, 0.0, 0.0,

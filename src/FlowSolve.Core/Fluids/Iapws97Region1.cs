@@ -42,19 +42,19 @@ public static class Iapws97Region1
     // IAPWS-IF97 (2007), Table 2: exponents I_i, J_i and coefficients n_i of Eq. (7), i = 1..34.
     // Collection expressions over ReadOnlySpan of primitives compile to references into the assembly's data
     // section, so reading them allocates nothing.
-    private static ReadOnlySpan<int> I =>
+    internal static ReadOnlySpan<int> I =>
     [
         0, 0, 0, 0, 0, 0, 0, 0, 1, 1, 1, 1, 1, 1, 2, 2, 2,
         2, 2, 3, 3, 3, 4, 4, 4, 5, 8, 8, 21, 23, 29, 30, 31, 32,
     ];
 
-    private static ReadOnlySpan<int> J =>
+    internal static ReadOnlySpan<int> J =>
     [
         -2, -1, 0, 1, 2, 3, 4, 5, -9, -7, -1, 0, 1, 3, -3, 0, 1,
         3, 17, -4, 0, 6, -5, -2, 10, -8, -11, -6, -29, -31, -38, -39, -40, -41,
     ];
 
-    private static ReadOnlySpan<double> N =>
+    internal static ReadOnlySpan<double> N =>
     [
         0.14632971213167, -0.84548187169114, -0.37563603672040e1, 0.33855169168385e1,
         -0.95791963387872, 0.15772038513228, -0.16616417199501e-1, 0.81214629983568e-3,

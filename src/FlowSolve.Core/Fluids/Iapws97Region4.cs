@@ -36,16 +36,16 @@ public static class Iapws97Region4
     public const double CriticalPressure = 22.064e6;
 
     // IAPWS-IF97 (2007), Table 34: n1..n10 of Eq. (28).
-    private const double N1 = 0.11670521452767e4;
-    private const double N2 = -0.72421316703206e6;
-    private const double N3 = -0.17073846940092e2;
-    private const double N4 = 0.12020824702470e5;
-    private const double N5 = -0.32325550322333e7;
-    private const double N6 = 0.14915108613530e2;
-    private const double N7 = -0.48232657361591e4;
-    private const double N8 = 0.40511340542057e6;
-    private const double N9 = -0.23855557567849;
-    private const double N10 = 0.65017534844798e3;
+    internal const double N1 = 0.11670521452767e4;
+    internal const double N2 = -0.72421316703206e6;
+    internal const double N3 = -0.17073846940092e2;
+    internal const double N4 = 0.12020824702470e5;
+    internal const double N5 = -0.32325550322333e7;
+    internal const double N6 = 0.14915108613530e2;
+    internal const double N7 = -0.48232657361591e4;
+    internal const double N8 = 0.40511340542057e6;
+    internal const double N9 = -0.23855557567849;
+    internal const double N10 = 0.65017534844798e3;
 
     /// <summary>Saturation (vapour) pressure of water at a temperature, IAPWS-IF97 Eq. (30).</summary>
     /// <param name="temperatureKelvin">Temperature T in K, 273.15 to 647.096.</param>

@@ -79,6 +79,7 @@ public static class SheetHtml
             sb.Append("</tbody></table>\n");
         });
         Section(sb, "results", "Results", () => Rows(sb, sheet.Results, "Result", highlightFirst: true));
+        foreach (var t in sheet.Tables) Section(sb, "table-" + t.Id, t.Title, () => Table(sb, t));
 
         foreach (var f in sheet.Figures)
         {
@@ -165,6 +166,21 @@ public static class SheetHtml
               .Append(E(r.Value)).Append("</td><td>").Append(E(r.Unit)).Append("</td><td class=\"note\">").Append(E(r.Note)).Append("</td></tr>\n");
         }
         sb.Append("</tbody></table>\n");
+    }
+
+    private static void Table(StringBuilder sb, SheetTable t)
+    {
+        sb.Append("<table><thead><tr>");
+        foreach (var c in t.Columns) sb.Append("<th>").Append(E(c)).Append("</th>");
+        sb.Append("</tr></thead><tbody>\n");
+        foreach (var row in t.Rows)
+        {
+            sb.Append("<tr>");
+            for (int i = 0; i < row.Length; i++) sb.Append(i == 0 ? "<td>" : "<td class=\"num\">").Append(E(row[i])).Append("</td>");
+            sb.Append("</tr>\n");
+        }
+        sb.Append("</tbody></table>\n");
+        if (t.Note.Length > 0) sb.Append("<p class=\"note\">").Append(E(t.Note)).Append("</p>\n");
     }
 
     private static void Solver(StringBuilder sb, SolverRecord s)

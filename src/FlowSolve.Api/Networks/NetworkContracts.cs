@@ -84,7 +84,9 @@ public sealed record NetworkSolveRequest(
     [property: Description("Unit system of the request and response: si (default: m, m3/s, m/s, m2/s, degrees C) or us (ft, ft3/s, ft/s, ft2/s, degrees F).")]
     string? Units = null,
     [property: Description("Flow unit: m3/s with units=si; ft3/s (default) or gpm (US gallons per minute) with units=us.")]
-    string? FlowUnit = null);
+    string? FlowUnit = null,
+    [property: Description("A name for the network, shown as the calculation sheet's subtitle; optional, at most 200 characters.")]
+    string? Title = null);
 
 /// <summary>One pipe in a load case's answer.</summary>
 /// <param name="Id">The pipe's id.</param>

@@ -73,5 +73,6 @@ public static class NetworkDocs
             new("hollins-booster", "school", "booster-out", new PumpInput(Coefficients: [48, 0, -300000], MaximumFlow: 0.01)),
         ],
         DemandMultipliers: [0.4, 1.0, 1.8],
-        Temperature: 12);
+        Temperature: 12,
+        Title: "Millbeck village network, Fernbrook Vale (invented for the demo: no real place, firm or person)");
 }

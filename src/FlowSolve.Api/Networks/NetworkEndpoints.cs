@@ -64,9 +64,10 @@ public static class NetworkEndpoints
         }
         catch (ArgumentOutOfRangeException)
         {
-            // The friction relations hold to Reynolds 1e15; an iterate beyond that (absurd demands or pump flows for the
-            // pipe sizes and viscosity) is refused by the Core rather than answered with a number.
-            return OutOfRange("The iteration reached flows beyond the range of the friction relations (Reynolds number above 1e15). Check the demands, pump curves, diameters and viscosity for a misplaced unit or exponent.");
+            // The friction relations hold to Reynolds 1e15; an iterate beyond that (absurd demands for the pipe sizes and
+            // viscosity, or a diverging iteration, seen with a pump running backwards against too high a lift) is refused
+            // by the Core rather than answered with a number.
+            return OutOfRange("The Newton iteration diverged: it reached flows beyond the range of the friction relations (Reynolds number above 1e15). A pump that cannot lift against the system can cause this; otherwise check the demands, pump curves, diameters and viscosity for a misplaced unit or exponent.");
         }
 
         if (NoAnswer(input, results) is { } none) return none;

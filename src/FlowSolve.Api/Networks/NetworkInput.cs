@@ -112,6 +112,8 @@ internal static class NetworkInput
             }
         }
 
+        if (request.Title is { Length: > 200 }) fields.Add("title", "must be at most 200 characters");
+
         // Load cases.
         double[] multipliers = [1.0];
         if (request.DemandMultipliers is null) assumptions.Add(new("demandMultipliers", "[1]", "one load case, the demands as given (default)"));

@@ -23,7 +23,7 @@ public sealed class NetworkSheet : ISheetBuilder
         var request = context.Request as NetworkSolveRequest ?? throw new ArgumentException("not a network request", nameof(context));
         var r = (NetworkSolveResponse)context.Response;
         string qu = r.FlowUnit, hu = r.HeadUnit, vu = r.VelocityUnit;
-        var sheet = new Sheet { Title = "Pipe network", Calculation = Name };
+        var sheet = new Sheet { Title = request.Title is { Length: > 0 } t ? "Pipe network: " + t : "Pipe network", Calculation = Name };
 
         Inputs(sheet, request, r);
         sheet.Assumptions.AddRange(r.Assumptions);

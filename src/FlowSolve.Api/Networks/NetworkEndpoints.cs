@@ -112,7 +112,7 @@ public static class NetworkEndpoints
             string list = string.Join(", ", ids.Take(10).Select(i => "'" + i + "'")) + (ids.Count > 10 ? $" and {ids.Count - 10} more" : "");
             return ProblemResults.NoAnswer("Part of the network has no path to a fixed head.",
                 $"Junctions {list} are not connected to any reservoir through pipes or pumps, so their heads are undefined. Connect that part to a reservoir, or remove it.",
-                new Dictionary<string, object?> { ["status"] = first.Status.Code(), ["unsuppliedJunctions"] = ids.ToArray() });
+                new Dictionary<string, object?> { ["networkStatus"] = first.Status.Code(), ["unsuppliedJunctions"] = ids.ToArray() });
         }
         var lift = results.Where(r => r.Status == NetworkStatus.PumpCannotLift).ToArray();
         if (lift.Length > 0)
@@ -134,19 +134,19 @@ public static class NetworkEndpoints
                 + (lift.Sum(r => r.PumpsUnableToLift.Count) > 1 ? " Other pumps or load cases are affected too (see cases)." : "")
                 + " Raise its speed or choose a larger pump, or lower the delivery head.";
             return ProblemResults.NoAnswer("A pump cannot lift against the system.", detail,
-                new Dictionary<string, object?> { ["status"] = NetworkStatus.PumpCannotLift.Code(), ["headUnit"] = u.HeadUnit, ["cases"] = cases });
+                new Dictionary<string, object?> { ["networkStatus"] = NetworkStatus.PumpCannotLift.Code(), ["headUnit"] = u.HeadUnit, ["cases"] = cases });
         }
         if (results.FirstOrDefault(r => r.Status == NetworkStatus.LinearSolveFailed) is { } failed)
             return ProblemResults.NoAnswer("The head equations could not be solved.",
                 string.Create(CultureInfo.InvariantCulture,
                     $"At demand multiplier {failed.DemandMultiplier:G6} the head equations met a non-finite value or could not be solved. Check for pipes whose sizes differ by many orders of magnitude, or extreme demands."),
-                new Dictionary<string, object?> { ["status"] = failed.Status.Code() });
+                new Dictionary<string, object?> { ["networkStatus"] = failed.Status.Code() });
         return null;
     }
 
     private static ProblemHttpResult OutOfRange(string detail) =>
         ProblemResults.NoAnswer("The network lies outside the range of the arithmetic.", detail,
-            new Dictionary<string, object?> { ["status"] = "not-finite" });
+            new Dictionary<string, object?> { ["networkStatus"] = "not-finite" });
 
     private static double? FiniteOrNull(double v) => double.IsFinite(v) ? v : null;
 

@@ -369,7 +369,8 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
         var r = await Post(body);
         Assert.Equal(422, r.Status);
         Assert.Equal("application/problem+json", r.ContentType);
-        Assert.Equal("no-path-to-fixed-head", r.Body.GetProperty("status").GetString());
+        Assert.Equal(422, r.Body.GetProperty("status").GetInt32());
+        Assert.Equal("no-path-to-fixed-head", r.Body.GetProperty("networkStatus").GetString());
         Assert.Equal(["island-a", "island-b"], r.Body.GetProperty("unsuppliedJunctions").EnumerateArray().Select(e => e.GetString()!).Order().ToArray());
         Assert.Contains("island-a", r.Body.GetProperty("detail").GetString());
     }
@@ -388,7 +389,8 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
             """)!;
         var r = await Post(body);
         Assert.Equal(422, r.Status);
-        Assert.Equal("pump-cannot-lift", r.Body.GetProperty("status").GetString());
+        Assert.Equal(422, r.Body.GetProperty("status").GetInt32());
+        Assert.Equal("pump-cannot-lift", r.Body.GetProperty("networkStatus").GetString());
         Assert.Contains("'weak-pump'", r.Body.GetProperty("detail").GetString());
         var pump = r.Body.GetProperty("cases")[0].GetProperty("pumps")[0];
         Assert.Equal("weak-pump", pump.GetProperty("id").GetString());

@@ -78,7 +78,7 @@ public sealed class NetworkSheet : ISheetBuilder
 
     private static string E3(double v) => double.IsFinite(v) ? v.ToString("E3", C) : "not finite";
 
-    private static SheetTable Table(string id, string title, string[] columns, IEnumerable<string[]> rows, string note = "")
+    private static SheetTable Table(string id, string title, string[] columns, IEnumerable<string[]> rows, string note = "", bool inputs = false)
     {
         var all = rows.ToList();
         if (all.Count > MaximumTableRows)
@@ -86,7 +86,7 @@ public sealed class NetworkSheet : ISheetBuilder
             note = (note.Length > 0 ? note + " " : "") + string.Create(C, $"The first {MaximumTableRows} of {all.Count} rows are shown; the JSON answer holds every row.");
             all = all.Take(MaximumTableRows).ToList();
         }
-        return new SheetTable(id, title, columns, all, note);
+        return new SheetTable(id, title, columns, all, note, inputs);
     }
 
     private static void Inputs(Sheet sheet, NetworkSolveRequest q, NetworkSolveResponse r)
@@ -114,7 +114,7 @@ public sealed class NetworkSheet : ISheetBuilder
 
         var nodes = junctions.Select(j => new[] { j.Id ?? "", "junction", F(j.Elevation ?? double.NaN), "", F(j.Demand ?? 0), Coord(j.X, j.Y) })
             .Concat(reservoirs.Select(x => new[] { x.Id ?? "", "reservoir", "", F(x.Head ?? double.NaN), "", Coord(x.X, x.Y) }));
-        sheet.Tables.Add(Table("nodes", "Network as understood: nodes", ["Node", "Kind", $"Elevation ({hu})", $"Fixed head ({hu})", $"Demand ({qu})", "x, y"], nodes));
+        sheet.Tables.Add(Table("nodes", "Nodes", ["Node", "Kind", $"Elevation ({hu})", $"Fixed head ({hu})", $"Demand ({qu})", "x, y"], nodes, inputs: true));
         var links = pipes.Select(p => new[]
             {
                 p.Id ?? "", p.CheckValve == true ? "pipe, check valve" : p.Closed == true ? "pipe, closed" : "pipe", p.From ?? "", p.To ?? "",
@@ -126,7 +126,7 @@ public sealed class NetworkSheet : ISheetBuilder
             {
                 p.Id ?? "", "pump", p.From ?? "", p.To ?? "", "", "", PumpCurve(p), "speed ratio " + (p.SpeedRatio ?? 1).ToString("G6", C),
             }));
-        sheet.Tables.Add(Table("links", "Network as understood: links", ["Link", "Kind", "From", "To", $"Length ({hu})", $"Diameter ({hu})", "Roughness or C; pump curve", "K; pump speed"], links));
+        sheet.Tables.Add(Table("links", "Links", ["Link", "Kind", "From", "To", $"Length ({hu})", $"Diameter ({hu})", "Roughness or C; pump curve", "K; pump speed"], links, inputs: true));
     }
 
     private static string PumpCurve(NetworkPumpInput p)

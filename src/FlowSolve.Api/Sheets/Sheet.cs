@@ -17,7 +17,9 @@ public sealed record SheetFigure(string Id, string Svg, string Caption);
 /// <param name="Columns">Column headings, units included.</param>
 /// <param name="Rows">One array of cell texts per row, as many as there are columns.</param>
 /// <param name="Note">A line below the table (empty for none).</param>
-public sealed record SheetTable(string Id, string Title, IReadOnlyList<string> Columns, IReadOnlyList<string[]> Rows, string Note = "");
+/// <param name="InInputs">True for a table of inputs (the network as understood): shown in the inputs section, after
+/// the input rows, rather than after the results.</param>
+public sealed record SheetTable(string Id, string Title, IReadOnlyList<string> Columns, IReadOnlyList<string[]> Rows, string Note = "", bool InInputs = false);
 
 /// <summary>The solver's record for the sheet: the summary the response gave, and the iterations behind it.</summary>
 /// <param name="Iterations">Iterations the response reports.</param>

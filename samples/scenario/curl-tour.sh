@@ -90,4 +90,10 @@ else
 fi
 
 echo
+echo "== Millbeck village network: fed from Quarrytop reservoir, three loops, a booster pump and two check valves"
+echo "   (load cases: night 0.4, average day 1.0 and peak hour 1.8 times the demands)"
+request "network solve (JSON answer, first 300 bytes)" -X POST "$base/v1/networks/solve" \
+  -H 'Content-Type: application/json' --data-binary "@$here/fernbrook-network.json"
+
+echo
 echo "curl tour: every call answered 200"

@@ -4,6 +4,7 @@ using FlowSolve.Api.Check;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Networks;
 using FlowSolve.Api.Pipes;
 using FlowSolve.Api.Pumps;
 using Serilog;
@@ -29,6 +30,7 @@ try
     app.MapBatchEndpoints();
     app.MapPipeEndpoints();
     app.MapChannelEndpoints();
+    app.MapNetworkEndpoints();
     app.MapCheckEndpoints(); // after every calculation: it registers a check for each
     app.Run();
 }

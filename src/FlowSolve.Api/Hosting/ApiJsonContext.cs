@@ -3,6 +3,7 @@ using System.Text.Json.Serialization;
 using FlowSolve.Api.Channels;
 using FlowSolve.Api.Check;
 using FlowSolve.Api.Fluids;
+using FlowSolve.Api.Networks;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Pipes;
 using FlowSolve.Api.Pumps;
@@ -44,4 +45,6 @@ namespace FlowSolve.Api.Hosting;
 [JsonSerializable(typeof(DutyPointResponse))]
 [JsonSerializable(typeof(PumpCurvesResponse))]
 [JsonSerializable(typeof(CheckResponse))]
+[JsonSerializable(typeof(NetworkSolveRequest))]
+[JsonSerializable(typeof(NetworkSolveResponse))]
 public sealed partial class ApiJsonContext : JsonSerializerContext;

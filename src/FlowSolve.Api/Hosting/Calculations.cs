@@ -7,7 +7,9 @@ namespace FlowSolve.Api.Hosting;
 /// <summary>Endpoint metadata naming a calculation and its primary output (what <c>format=text</c> returns).</summary>
 /// <param name="Name">The calculation's route below /v1, for example <c>pipes/head-loss</c>.</param>
 /// <param name="PrimaryOutput">The response field returned by <c>format=text</c> when no <c>select</c> is given.</param>
-public sealed record CalculationMetadata(string Name, string PrimaryOutput);
+/// <param name="Text">False for a calculation whose answer is tables rather than one value per row (a network):
+/// <c>format=text</c> then answers 400 naming <c>format</c>.</param>
+public sealed record CalculationMetadata(string Name, string PrimaryOutput, bool Text = true);
 
 /// <summary>One calculation as the batch and text machinery see it: a request type, a response type, and a handler.</summary>
 public sealed class CalculationDescriptor(string name, string primaryOutput, Type requestType, Type responseType, Func<object, IResult> invoke)
@@ -47,8 +49,8 @@ public static class CalculationExtensions
 {
     /// <summary>Marks an endpoint as a calculation: it answers <c>format=text</c> with <paramref name="primaryOutput"/> (or <c>select</c>),
     /// and <c>format=html</c> with its calculation sheet.</summary>
-    public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput) =>
-        builder.WithMetadata(new CalculationMetadata(name, primaryOutput)).AddEndpointFilter<SolverMetricsFilter>().AddEndpointFilter<TextFormatFilter>()
+    public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput, bool text = true) =>
+        builder.WithMetadata(new CalculationMetadata(name, primaryOutput, text)).AddEndpointFilter<SolverMetricsFilter>().AddEndpointFilter<TextFormatFilter>()
             .AddEndpointFilter<FlowSolve.Api.Sheets.HtmlFormatFilter>();
 
     /// <summary>Registers a calculation for <c>POST /v1/batch/{name}</c>.</summary>

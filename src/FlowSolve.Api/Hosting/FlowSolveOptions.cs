@@ -30,6 +30,13 @@ public sealed class FlowSolveOptions
 
         /// <summary>Time budget of one request in seconds (default 30); a request over it answers 503, a batch is cut off with a final error row.</summary>
         public double RequestTimeoutSeconds { get; set; } = 30;
+
+        /// <summary>Most links (pipes and pumps together), and most nodes (junctions and reservoirs together), in one
+        /// network solve (default 10 000; a grid of that size solves in about a quarter of a second); more answers 413.</summary>
+        public int NetworkMaxPipes { get; set; } = 10_000;
+
+        /// <summary>Most load cases (demand multipliers) in one network solve (default 24, a day in hours); more answers 413.</summary>
+        public int NetworkMaxDemandMultipliers { get; set; } = 24;
     }
 
     public sealed class RateLimitSettings

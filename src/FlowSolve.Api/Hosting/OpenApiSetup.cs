@@ -97,14 +97,16 @@ public static class OpenApiSetup
                 operation.Parameters.Add(new OpenApiParameter
                 {
                     Name = "format", In = ParameterLocation.Query,
-                    Description = "json (default), text or html. text returns only the primary output (" + calc.PrimaryOutput +
-                        ") as plain text, invariant culture, full precision, for a spreadsheet cell; an error is one line 'error: ...' with the same status. " +
+                    Description = (calc.Text
+                        ? "json (default), text or html. text returns only the primary output (" + calc.PrimaryOutput +
+                          ") as plain text, invariant culture, full precision, for a spreadsheet cell; an error is one line 'error: ...' with the same status. "
+                        : "json (default) or html; text is not offered (the answer is tables, not one value) and answers 400. ") +
                         "html returns the calculation sheet: a self-contained printable page (no scripts or external files; A4 and Letter) with the inputs " +
                         "as understood and every default applied, the method and its published sources, the results, the solver record, the validity " +
                         "table, the warnings, the cautions, and inline SVG plots; an error is a small page stating the problem, with the same status.",
                     Schema = new OpenApiSchema { Type = JsonSchemaType.String },
                 });
-                operation.Parameters.Add(new OpenApiParameter
+                if (calc.Text) operation.Parameters.Add(new OpenApiParameter
                 {
                     Name = "select", In = ParameterLocation.Query,
                     Description = "With format=text: the output field to return instead of " + calc.PrimaryOutput + " (dotted for nested fields).",
@@ -113,7 +115,7 @@ public static class OpenApiSetup
                 if (operation.Responses?.TryGetValue("200", out var ok) == true && ok is OpenApiResponse okResponse)
                 {
                     okResponse.Content ??= new Dictionary<string, IOpenApiMediaType>();
-                    okResponse.Content["text/plain"] = new OpenApiMediaType { Schema = new OpenApiSchema { Type = JsonSchemaType.String } };
+                    if (calc.Text) okResponse.Content["text/plain"] = new OpenApiMediaType { Schema = new OpenApiSchema { Type = JsonSchemaType.String } };
                     okResponse.Content["text/html"] = new OpenApiMediaType { Schema = new OpenApiSchema { Type = JsonSchemaType.String } };
                 }
             }

@@ -27,6 +27,14 @@ public sealed class TextFormatFilter : IEndpointFilter
         }
 
         var metadata = http.GetEndpoint()?.Metadata.GetMetadata<CalculationMetadata>();
+        if (metadata is { Text: false })
+        {
+            return TypedResults.ValidationProblem(new Dictionary<string, string[]>
+                {
+                    ["format"] = [$"must be json or html for {metadata.Name}: its answer is tables (one row per element and load case), not one value for a cell"],
+                },
+                title: "One or more fields are invalid.", type: "https://flowsolve.example/problems/invalid-input");
+        }
         object? result = await next(context);
         if (result is not IResult typed || metadata is null) return result;
         var (status, value) = typed.Unwrap();

@@ -13,6 +13,9 @@ internal sealed record PumpProblem(
     DutyPointData Data, FluidProperties Fluid, string Method, bool Trace,
     List<AssumptionDto> Assumptions, List<WarningDto> Warnings, List<ValidityDto> Validity, double? WaterCelsius = null);
 
+/// <summary>A pump's curves as read from a request, in SI.</summary>
+internal sealed record PumpCurveReading(PumpCurve Curve, PumpCurveFit? Fit, EfficiencyCurve? Efficiency, NpshCurve? Npsh);
+
 /// <summary>
 /// Reads and validates a pump request: every bad field is reported at once under its wire name (dotted for nested
 /// fields, or the GET form's own name), and nothing reaches the Core that it would reject.
@@ -99,144 +102,12 @@ internal static class PumpInputReader
         }
 
         // Pump curve.
-        PumpCurve curve = default;
-        PumpCurveFit? fit = null;
-        EfficiencyCurve? efficiency = null;
-        NpshCurve? npsh = null;
-        bool curveOk = false;
-        var p = request.Pump;
-        var degree = CurveDegree.Quadratic;
-        if (p?.CurveDegree is string cd)
-        {
-            if (cd.Equals("cubic", StringComparison.OrdinalIgnoreCase)) degree = CurveDegree.Cubic;
-            else if (!cd.Equals("quadratic", StringComparison.OrdinalIgnoreCase)) errors.Add(N("pump.curveDegree"), "must be quadratic or cubic");
-        }
-        if (p is null) errors.Add(N("pump"), "is required");
-        else if (p.Points is not null && p.Coefficients is not null) errors.Add(N("pump"), "give either points or coefficients, not both");
-        else if (p.Points is null && p.Coefficients is null) errors.Add(N("pump"), "give points (flow and head) or coefficients [c0, c1, c2]");
-        else if (p.Coefficients is { } c)
-        {
-            int before = Count(errors);
-            if (c.Count is not (3 or 4)) errors.Add(N("pump.coefficients"), "must hold 3 numbers [c0, c1, c2] or 4 [c0, c1, c2, c3]");
-            else
-            {
-                if (p.CurveDegree is not null && (degree == CurveDegree.Cubic) != (c.Count == 4))
-                    errors.Add(N("pump.curveDegree"), $"is {p.CurveDegree} but {c.Count} coefficients were given");
-                var si = new double[4];
-                for (int i = 0; i < c.Count; i++)
-                {
-                    string f = N($"pump.coefficients[{i}]");
-                    double v = i == 0
-                        ? errors.Required(f, c[i], 0, double.PositiveInfinity, minExclusive: true, unit: hu)
-                        : errors.Required(f, c[i], double.NegativeInfinity, double.PositiveInfinity);
-                    si[i] = i == 0 ? u.HeadToSi(v) : u.CoefficientToSi(v, i);
-                    if (double.IsFinite(v) && !double.IsFinite(si[i])) errors.Add(f, "is too large once converted to SI");
-                }
-                if (c.Count > 0 && errors.Has(N("pump.coefficients[0]")) && c[0] <= 0)
-                {
-                    // Say what c0 is, so the message is actionable.
-                    errors.Add(N("pump.coefficients[0]"), "c0 is the shut-off head H(0); a pump curve needs it above 0");
-                }
-                double? qmax = errors.Optional(N("pump.maximumFlow"), p.MaximumFlow, 0, double.PositiveInfinity, minExclusive: true, unit: qu);
-                if (Count(errors) == before)
-                {
-                    if (qmax is null && !double.IsFinite(CauchyBound(si[0], si[1], si[2], si[3])))
-                        errors.Add(N("pump.coefficients"), "the coefficients span too many orders of magnitude for double precision (the zero-head flow would overflow); rescale them, for example with another flow unit");
-                    else if (qmax is null && !ReachesZeroHead(si[0], si[1], si[2], si[3]))
-                        errors.Add(N("pump.coefficients"), "the curve never falls to zero head, so the search for a duty point has no end; give " + N("pump.maximumFlow"));
-                    else
-                    {
-                        curve = PumpCurve.FromCoefficients(si[0], si[1], si[2], si[3], qmax is double m ? u.FlowToSi(m) : null);
-                        curveOk = true;
-                        method.Add("pump curve from the coefficients given");
-                    }
-                }
-            }
-        }
-        else if (p.Points is { } points)
-        {
-            int before = Count(errors);
-            if (p.MaximumFlow is not null) errors.Add(N("pump.maximumFlow"), "only with coefficients (points give their own range)");
-            int needed = degree == CurveDegree.Cubic ? 4 : 3;
-            if (points.Count < needed)
-                errors.Add("pump.points", $"at least {needed} points are needed for a {(degree == CurveDegree.Cubic ? "cubic" : "quadratic")} fit, {points.Count} given");
-            else if (points.Count > MaximumPoints)
-                errors.Add("pump.points", $"at most {MaximumPoints} points are accepted");
-            else
-            {
-                var flows = new double[points.Count];
-                var heads = new double[points.Count];
-                var effFlows = new List<double>();
-                var effs = new List<double>();
-                var npshFlows = new List<double>();
-                var npshs = new List<double>();
-                for (int i = 0; i < points.Count; i++)
-                {
-                    var pt = points[i];
-                    string at = $"pump.points[{i}]";
-                    if (pt is null) { errors.Add(at, "must be an object {flow, head}"); continue; }
-                    flows[i] = u.FlowToSi(errors.Required(at + ".flow", pt.Flow, 0, double.PositiveInfinity, unit: qu));
-                    heads[i] = u.HeadToSi(errors.Required(at + ".head", pt.Head, 0, double.PositiveInfinity, unit: hu));
-                    if (!errors.Has(at + ".flow"))
-                    {
-                        for (int j = 0; j < i; j++)
-                            if (flows[j] == flows[i] && !errors.Has($"pump.points[{j}].flow"))
-                            {
-                                errors.Add(at + ".flow", string.Create(CultureInfo.InvariantCulture,
-                                    $"duplicates pump.points[{j}].flow ({pt.Flow} {qu}): each flow may appear once"));
-                                break;
-                            }
-                    }
-                    if (pt.Efficiency is double e)
-                    {
-                        if (double.IsFinite(e) && e > 1)
-                            errors.Add(at + ".efficiency", "must be a fraction from 0 to 1 (write 0.78 for 78 percent)");
-                        else
-                        {
-                            double ev = errors.Required(at + ".efficiency", e, 0, 1);
-                            effFlows.Add(flows[i]);
-                            effs.Add(ev);
-                        }
-                    }
-                    if (pt.NpshRequired is double nr)
-                    {
-                        npshFlows.Add(flows[i]);
-                        npshs.Add(u.HeadToSi(errors.Required(at + ".npshRequired", nr, 0, double.PositiveInfinity, unit: hu)));
-                    }
-                }
-                if (effs.Count is > 0 and < 3)
-                    errors.Add("pump.points", $"efficiency is given at {effs.Count} points; at least 3 are needed for an efficiency curve (or give it at none)");
-                if (npshs.Count is > 0 and < 3)
-                    errors.Add("pump.points", $"npshRequired is given at {npshs.Count} points; at least 3 are needed for an NPSH-required curve (or give it at none)");
-                if (Count(errors) == before)
-                {
-                    var f = PumpCurve.Fit(flows, heads, degree);
-                    if (!IsFinite(f.Curve))
-                        errors.Add("pump.points", "the points could not be fitted (the least-squares solve is singular)");
-                    else if (!f.Accepted)
-                        errors.Add("pump.points", string.Create(CultureInfo.InvariantCulture,
-                            $"the fitted {(degree == CurveDegree.Cubic ? "cubic" : "quadratic")} head rises with flow within the data: dH/dQ = {f.MaximumSlope * u.FlowFactor / u.HeadFactor:G4} {hu} per {qu} at {u.Flow(f.MaximumSlopeFlow):G4} {qu} (data from 0 to {u.Flow(f.Curve.DataMaximumFlow ?? 0):G4} {qu}); a stable pump curve falls with flow. Check the points{(degree == CurveDegree.Cubic ? " or fit a quadratic" : "")}"));
-                    else
-                    {
-                        fit = f;
-                        curve = f.Curve;
-                        curveOk = true;
-                        method.Add($"pump curve fitted to {points.Count} points by least squares ({(degree == CurveDegree.Cubic ? "cubic" : "quadratic")}, Householder QR)");
-                        if (p.CurveDegree is null) assumptions.Add(new("pump.curveDegree", "quadratic", "a quadratic fit (default)"));
-                        if (effs.Count >= 3)
-                        {
-                            efficiency = EfficiencyCurve.Fit(effFlows.ToArray(), effs.ToArray(), degree, throughOrigin: true).Curve;
-                            method.Add("efficiency curve fitted through the origin (no flow, no useful work)");
-                        }
-                        if (npshs.Count >= 3)
-                        {
-                            npsh = NpshCurve.Interpolate(npshFlows.ToArray(), npshs.ToArray());
-                            method.Add("NPSH required interpolated linearly between the points");
-                        }
-                    }
-                }
-            }
-        }
+        var reading = ReadCurve(request.Pump, "pump", u, errors, N, method, assumptions);
+        bool curveOk = reading is not null;
+        PumpCurve curve = reading?.Curve ?? default;
+        PumpCurveFit? fit = reading?.Fit;
+        EfficiencyCurve? efficiency = reading?.Efficiency;
+        NpshCurve? npsh = reading?.Npsh;
 
         // System curve.
         SystemCurve system = default;
@@ -336,6 +207,154 @@ internal static class PumpInputReader
             assumptions, warnings, validity, waterCelsius);
 
         static double ToFahrenheit(double celsius) => celsius * 9.0 / 5.0 + 32;
+    }
+
+    /// <summary>The head curve of one pump at rated speed from points or coefficients, in SI, with the efficiency and
+    /// NPSH-required curves where the points carry them; every bad field is reported under <paramref name="prefix"/>
+    /// (through <paramref name="N"/>, the GET form's names). Shared by the duty point and the network pumps.</summary>
+    /// <returns>The curves, or null when an error was recorded.</returns>
+    internal static PumpCurveReading? ReadCurve(PumpInput? p, string prefix, PumpUnits u, FieldErrors errors,
+        Func<string, string> N, List<string> method, List<AssumptionDto> assumptions)
+    {
+        string hu = u.HeadUnit, qu = u.FlowUnit;
+        PumpCurve curve = default;
+        PumpCurveFit? fit = null;
+        EfficiencyCurve? efficiency = null;
+        NpshCurve? npsh = null;
+        bool curveOk = false;
+        var degree = CurveDegree.Quadratic;
+        if (p?.CurveDegree is string cd)
+        {
+            if (cd.Equals("cubic", StringComparison.OrdinalIgnoreCase)) degree = CurveDegree.Cubic;
+            else if (!cd.Equals("quadratic", StringComparison.OrdinalIgnoreCase)) errors.Add(N(prefix + ".curveDegree"), "must be quadratic or cubic");
+        }
+        if (p is null) errors.Add(N(prefix), "is required");
+        else if (p.Points is not null && p.Coefficients is not null) errors.Add(N(prefix), "give either points or coefficients, not both");
+        else if (p.Points is null && p.Coefficients is null) errors.Add(N(prefix), "give points (flow and head) or coefficients [c0, c1, c2]");
+        else if (p.Coefficients is { } c)
+        {
+            int before = Count(errors);
+            if (c.Count is not (3 or 4)) errors.Add(N(prefix + ".coefficients"), "must hold 3 numbers [c0, c1, c2] or 4 [c0, c1, c2, c3]");
+            else
+            {
+                if (p.CurveDegree is not null && (degree == CurveDegree.Cubic) != (c.Count == 4))
+                    errors.Add(N(prefix + ".curveDegree"), $"is {p.CurveDegree} but {c.Count} coefficients were given");
+                var si = new double[4];
+                for (int i = 0; i < c.Count; i++)
+                {
+                    string f = N($"{prefix}.coefficients[{i}]");
+                    double v = i == 0
+                        ? errors.Required(f, c[i], 0, double.PositiveInfinity, minExclusive: true, unit: hu)
+                        : errors.Required(f, c[i], double.NegativeInfinity, double.PositiveInfinity);
+                    si[i] = i == 0 ? u.HeadToSi(v) : u.CoefficientToSi(v, i);
+                    if (double.IsFinite(v) && !double.IsFinite(si[i])) errors.Add(f, "is too large once converted to SI");
+                }
+                if (c.Count > 0 && errors.Has(N(prefix + ".coefficients[0]")) && c[0] <= 0)
+                {
+                    // Say what c0 is, so the message is actionable.
+                    errors.Add(N(prefix + ".coefficients[0]"), "c0 is the shut-off head H(0); a pump curve needs it above 0");
+                }
+                double? qmax = errors.Optional(N(prefix + ".maximumFlow"), p.MaximumFlow, 0, double.PositiveInfinity, minExclusive: true, unit: qu);
+                if (Count(errors) == before)
+                {
+                    if (qmax is null && !double.IsFinite(CauchyBound(si[0], si[1], si[2], si[3])))
+                        errors.Add(N(prefix + ".coefficients"), "the coefficients span too many orders of magnitude for double precision (the zero-head flow would overflow); rescale them, for example with another flow unit");
+                    else if (qmax is null && !ReachesZeroHead(si[0], si[1], si[2], si[3]))
+                        errors.Add(N(prefix + ".coefficients"), "the curve never falls to zero head, so the search for a duty point has no end; give " + N(prefix + ".maximumFlow"));
+                    else
+                    {
+                        curve = PumpCurve.FromCoefficients(si[0], si[1], si[2], si[3], qmax is double m ? u.FlowToSi(m) : null);
+                        curveOk = true;
+                        method.Add("pump curve from the coefficients given");
+                    }
+                }
+            }
+        }
+        else if (p.Points is { } points)
+        {
+            int before = Count(errors);
+            if (p.MaximumFlow is not null) errors.Add(N(prefix + ".maximumFlow"), "only with coefficients (points give their own range)");
+            int needed = degree == CurveDegree.Cubic ? 4 : 3;
+            if (points.Count < needed)
+                errors.Add(prefix + ".points", $"at least {needed} points are needed for a {(degree == CurveDegree.Cubic ? "cubic" : "quadratic")} fit, {points.Count} given");
+            else if (points.Count > MaximumPoints)
+                errors.Add(prefix + ".points", $"at most {MaximumPoints} points are accepted");
+            else
+            {
+                var flows = new double[points.Count];
+                var heads = new double[points.Count];
+                var effFlows = new List<double>();
+                var effs = new List<double>();
+                var npshFlows = new List<double>();
+                var npshs = new List<double>();
+                for (int i = 0; i < points.Count; i++)
+                {
+                    var pt = points[i];
+                    string at = $"{prefix}.points[{i}]";
+                    if (pt is null) { errors.Add(at, "must be an object {flow, head}"); continue; }
+                    flows[i] = u.FlowToSi(errors.Required(at + ".flow", pt.Flow, 0, double.PositiveInfinity, unit: qu));
+                    heads[i] = u.HeadToSi(errors.Required(at + ".head", pt.Head, 0, double.PositiveInfinity, unit: hu));
+                    if (!errors.Has(at + ".flow"))
+                    {
+                        for (int j = 0; j < i; j++)
+                            if (flows[j] == flows[i] && !errors.Has($"{prefix}.points[{j}].flow"))
+                            {
+                                errors.Add(at + ".flow", string.Create(CultureInfo.InvariantCulture,
+                                    $"duplicates pump.points[{j}].flow ({pt.Flow} {qu}): each flow may appear once"));
+                                break;
+                            }
+                    }
+                    if (pt.Efficiency is double e)
+                    {
+                        if (double.IsFinite(e) && e > 1)
+                            errors.Add(at + ".efficiency", "must be a fraction from 0 to 1 (write 0.78 for 78 percent)");
+                        else
+                        {
+                            double ev = errors.Required(at + ".efficiency", e, 0, 1);
+                            effFlows.Add(flows[i]);
+                            effs.Add(ev);
+                        }
+                    }
+                    if (pt.NpshRequired is double nr)
+                    {
+                        npshFlows.Add(flows[i]);
+                        npshs.Add(u.HeadToSi(errors.Required(at + ".npshRequired", nr, 0, double.PositiveInfinity, unit: hu)));
+                    }
+                }
+                if (effs.Count is > 0 and < 3)
+                    errors.Add(prefix + ".points", $"efficiency is given at {effs.Count} points; at least 3 are needed for an efficiency curve (or give it at none)");
+                if (npshs.Count is > 0 and < 3)
+                    errors.Add(prefix + ".points", $"npshRequired is given at {npshs.Count} points; at least 3 are needed for an NPSH-required curve (or give it at none)");
+                if (Count(errors) == before)
+                {
+                    var f = PumpCurve.Fit(flows, heads, degree);
+                    if (!IsFinite(f.Curve))
+                        errors.Add(prefix + ".points", "the points could not be fitted (the least-squares solve is singular)");
+                    else if (!f.Accepted)
+                        errors.Add(prefix + ".points", string.Create(CultureInfo.InvariantCulture,
+                            $"the fitted {(degree == CurveDegree.Cubic ? "cubic" : "quadratic")} head rises with flow within the data: dH/dQ = {f.MaximumSlope * u.FlowFactor / u.HeadFactor:G4} {hu} per {qu} at {u.Flow(f.MaximumSlopeFlow):G4} {qu} (data from 0 to {u.Flow(f.Curve.DataMaximumFlow ?? 0):G4} {qu}); a stable pump curve falls with flow. Check the points{(degree == CurveDegree.Cubic ? " or fit a quadratic" : "")}"));
+                    else
+                    {
+                        fit = f;
+                        curve = f.Curve;
+                        curveOk = true;
+                        method.Add($"pump curve fitted to {points.Count} points by least squares ({(degree == CurveDegree.Cubic ? "cubic" : "quadratic")}, Householder QR)");
+                        if (p.CurveDegree is null) assumptions.Add(new(prefix + ".curveDegree", "quadratic", "a quadratic fit (default)"));
+                        if (effs.Count >= 3)
+                        {
+                            efficiency = EfficiencyCurve.Fit(effFlows.ToArray(), effs.ToArray(), degree, throughOrigin: true).Curve;
+                            method.Add("efficiency curve fitted through the origin (no flow, no useful work)");
+                        }
+                        if (npshs.Count >= 3)
+                        {
+                            npsh = NpshCurve.Interpolate(npshFlows.ToArray(), npshs.ToArray());
+                            method.Add("NPSH required interpolated linearly between the points");
+                        }
+                    }
+                }
+            }
+        }
+        return curveOk ? new PumpCurveReading(curve, fit, efficiency, npsh) : null;
     }
 
     /// <summary>How many messages are recorded (to tell whether one section of the request added any).</summary>

@@ -37,6 +37,7 @@ public static class SheetBuilders
         new CriticalDepthSheet(),
         new WaterSheet(),
         new PumpDutySheet(),
+        new NetworkSheet(),
     }.ToDictionary(b => b.Name, StringComparer.OrdinalIgnoreCase);
 
     public static IEnumerable<string> Names => ByName.Keys;

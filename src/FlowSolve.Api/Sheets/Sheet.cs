@@ -11,6 +11,16 @@ public sealed record SheetMethod(string Name, string Equation, string Source);
 /// <summary>A figure: an inline SVG element and its caption.</summary>
 public sealed record SheetFigure(string Id, string Svg, string Caption);
 
+/// <summary>A table of results with its own columns (a network's pipes, junctions, convergence record).</summary>
+/// <param name="Id">Element id suffix: the table's section is <c>table-{Id}</c>.</param>
+/// <param name="Title">The section heading.</param>
+/// <param name="Columns">Column headings, units included.</param>
+/// <param name="Rows">One array of cell texts per row, as many as there are columns.</param>
+/// <param name="Note">A line below the table (empty for none).</param>
+/// <param name="InInputs">True for a table of inputs (the network as understood): shown in the inputs section, after
+/// the input rows, rather than after the results.</param>
+public sealed record SheetTable(string Id, string Title, IReadOnlyList<string> Columns, IReadOnlyList<string[]> Rows, string Note = "", bool InInputs = false);
+
 /// <summary>The solver's record for the sheet: the summary the response gave, and the iterations behind it.</summary>
 /// <param name="Iterations">Iterations the response reports.</param>
 /// <param name="Converged">Whether the response's solve converged.</param>
@@ -39,6 +49,9 @@ public sealed class Sheet
     public List<SheetMethod> Methods { get; } = [];
 
     public List<SheetRow> Results { get; } = [];
+
+    /// <summary>Result tables shown after the results (empty for a single-value calculation).</summary>
+    public List<SheetTable> Tables { get; } = [];
 
     public SolverRecord? Solver { get; set; }
 

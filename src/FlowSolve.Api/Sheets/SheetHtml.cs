@@ -28,6 +28,7 @@ public static class SheetHtml
         body { max-width: 178mm; margin: 12mm auto; padding: 0 4mm; line-height: 1.35; }
         header { border-bottom: 2px solid #111; margin-bottom: 5mm; padding-bottom: 2mm; }
         h1 { font-size: 16pt; margin: 0 0 1mm 0; font-weight: 600; }
+        h3 { font-size: 10.5pt; margin: 4mm 0 1mm 0; font-weight: 600; }
         h2 { font-size: 11.5pt; margin: 6mm 0 2mm 0; padding-bottom: 0.8mm; border-bottom: 1px solid #9a9a9a; font-weight: 600; }
         .meta { color: #555; font-size: 9pt; margin: 0; }
         table { border-collapse: collapse; width: 100%; font-size: 9.5pt; margin: 1mm 0 2mm 0; }
@@ -60,7 +61,16 @@ public static class SheetHtml
           .Append(C, $"<p class=\"meta\">FlowSolve {E(Version)} &middot; calculation <code>/v1/{E(sheet.Calculation)}</code> &middot; prepared {E(now.UtcDateTime.ToString("yyyy-MM-dd HH:mm 'UTC'", C))}</p>\n")
           .Append("</header>\n");
 
-        Section(sb, "inputs", "Inputs as understood", () => Rows(sb, sheet.Inputs, "Input"));
+        Section(sb, "inputs", "Inputs as understood", () =>
+        {
+            Rows(sb, sheet.Inputs, "Input");
+            foreach (var t in sheet.Tables.Where(t => t.InInputs))
+            {
+                sb.Append("<div id=\"table-").Append(E(t.Id)).Append("\">\n<h3>").Append(E(t.Title)).Append("</h3>\n");
+                Table(sb, t);
+                sb.Append("</div>\n");
+            }
+        });
         if (sheet.Assumptions.Count > 0)
         {
             Section(sb, "defaults", "Defaults applied", () =>
@@ -81,6 +91,7 @@ public static class SheetHtml
         Section(sb, "results", "Results", () => Rows(sb, sheet.Results, "Result", highlightFirst: true));
         if (sheet.Sensitivities is { Count: > 0 } || sheet.RoughnessSpread is not null)
             Section(sb, "sensitivities", "Sensitivities", () => Sensitivities(sb, sheet));
+        foreach (var t in sheet.Tables.Where(t => !t.InInputs)) Section(sb, "table-" + t.Id, t.Title, () => Table(sb, t));
 
         foreach (var f in sheet.Figures)
         {
@@ -186,6 +197,21 @@ public static class SheetHtml
               .Append(E(r.Value)).Append("</td><td>").Append(E(r.Unit)).Append("</td><td class=\"note\">").Append(E(r.Note)).Append("</td></tr>\n");
         }
         sb.Append("</tbody></table>\n");
+    }
+
+    private static void Table(StringBuilder sb, SheetTable t)
+    {
+        sb.Append("<table><thead><tr>");
+        foreach (var c in t.Columns) sb.Append("<th>").Append(E(c)).Append("</th>");
+        sb.Append("</tr></thead><tbody>\n");
+        foreach (var row in t.Rows)
+        {
+            sb.Append("<tr>");
+            for (int i = 0; i < row.Length; i++) sb.Append(i == 0 ? "<td>" : "<td class=\"num\">").Append(E(row[i])).Append("</td>");
+            sb.Append("</tr>\n");
+        }
+        sb.Append("</tbody></table>\n");
+        if (t.Note.Length > 0) sb.Append("<p class=\"note\">").Append(E(t.Note)).Append("</p>\n");
     }
 
     private static void Solver(StringBuilder sb, SolverRecord s)

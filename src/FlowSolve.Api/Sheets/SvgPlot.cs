@@ -145,6 +145,25 @@ public sealed class SvgPlot
         return this;
     }
 
+    /// <summary>A straight link between two points (a pipe or pump on a schematic), with its ends in data units and an
+    /// optional label at its middle; dashed for a pump, grey for a closed link.</summary>
+    public SvgPlot Segment(string name, double x1, double y1, double x2, double y2, string label, string role = "link", bool dashed = false, bool grey = false)
+    {
+        string colour = grey ? LightGrey : Ink;
+        _body.Append(C, $"<line data-role=\"{Enc(role)}\" data-name=\"{Enc(name)}\" data-x1=\"{Num(x1)}\" data-y1=\"{Num(y1)}\" data-x2=\"{Num(x2)}\" data-y2=\"{Num(y2)}\" x1=\"{Px(x1)}\" y1=\"{Py(y1)}\" x2=\"{Px(x2)}\" y2=\"{Py(y2)}\" stroke=\"{colour}\" stroke-width=\"2\"{(dashed ? " stroke-dasharray=\"6 4\"" : "")}/>");
+        if (label.Length > 0)
+            _body.Append(C, $"<text x=\"{0.5 * (Px(x1) + Px(x2)):0.##}\" y=\"{0.5 * (Py(y1) + Py(y2)) - 4:0.##}\" font-size=\"9.5\" text-anchor=\"middle\" fill=\"{Grey}\">{Enc(label)}</text>");
+        return this;
+    }
+
+    /// <summary>A square marker (a reservoir on a schematic) with its data coordinates and a label.</summary>
+    public SvgPlot Square(string name, double x, double y, string label, string role = "reservoir")
+    {
+        _body.Append(C, $"<rect data-role=\"{Enc(role)}\" data-name=\"{Enc(name)}\" data-x=\"{Num(x)}\" data-y=\"{Num(y)}\" x=\"{Px(x) - 6:0.##}\" y=\"{Py(y) - 6:0.##}\" width=\"12\" height=\"12\" fill=\"#ffffff\" stroke=\"{Ink}\" stroke-width=\"2\"/>");
+        _body.Append(C, $"<text x=\"{Px(x) + 9:0.##}\" y=\"{Py(y) + 14:0.##}\" font-size=\"10.5\" fill=\"{Ink}\">{Enc(label)}</text>");
+        return this;
+    }
+
     /// <summary>A note in the plot's upper left corner (for example "no iterations: explicit relation").</summary>
     public SvgPlot Note(string text)
     {

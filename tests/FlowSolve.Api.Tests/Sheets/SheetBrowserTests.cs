@@ -17,6 +17,8 @@ public sealed class SheetBrowserTests
     /// <summary>A sheet per kind: its name for the artifacts, the URL, and the plots it must show.</summary>
     public static TheoryData<string, string, string[]> Kinds => new()
     {
+        // POST: the browser's navigation is turned into a POST of the sample network (see the route below).
+        { "networks-solve", "/v1/networks/solve?format=html", ["plot-schematic", "plot-convergence"] },
         { "friction-factor", "/v1/friction-factor?reynolds=75000&relativeRoughness=0.005&format=html", ["plot-moody", "plot-convergence"] },
         { "pipes-head-loss", "/v1/pipes/head-loss?flow=0.2&diameter=0.2&length=500&material=cast-iron&fittings=elbow-90-flanged-regular:3&format=html", ["plot-head-loss", "plot-convergence"] },
         { "pipes-flow", "/v1/pipes/flow?headLoss=20&diameter=0.15&length=800&roughness=0.000045&elevationChange=5&temperature=10&format=html", ["plot-head-loss", "plot-convergence"] },
@@ -56,6 +58,17 @@ public sealed class SheetBrowserTests
             page.PageError += (_, e) => errors.Add(e);
             page.Request += (_, r) => requests.Add(r.Url);
 
+            if (url.StartsWith("/v1/networks/", StringComparison.Ordinal))
+            {
+                // A network is POST only: the navigation itself carries the Fernbrook sample as its body.
+                string body = File.ReadAllText(Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "fernbrook-network.json"));
+                await page.RouteAsync("**/v1/networks/**", route => route.ContinueAsync(new RouteContinueOptions
+                {
+                    Method = "POST",
+                    PostData = System.Text.Encoding.UTF8.GetBytes(body),
+                    Headers = new Dictionary<string, string>(route.Request.Headers) { ["content-type"] = "application/json" },
+                }));
+            }
             var response = await page.GotoAsync(app.BaseAddress + url, new PageGotoOptions { WaitUntil = WaitUntilState.Load });
             Assert.NotNull(response);
             Assert.Equal(200, response.Status);

@@ -110,17 +110,12 @@ public sealed class NetworkSolverTests
         AssertBalanced(model, result);
     }
 
-    // Two-loop network of Alperovits and Shamir 1977 (Water Resources Research 13(6)), from memory: one reservoir at
-    // 210 m, 8 pipes of 1000 m, Hazen-Williams C = 130, elevations and demands (m3/h) below; diameters (inches) of the
-    // least-cost design usually quoted for it (18, 10, 16, 4, 16, 10, 10, 1), also from memory.
-    private static NetworkModel TwoLoop()
-    {
-        (string Id, double Z, double Q)[] nodes = [("2", 150, 100), ("3", 160, 100), ("4", 155, 120), ("5", 150, 270), ("6", 165, 330), ("7", 160, 200)];
-        (string Id, string From, string To, double Inches)[] pipes =
-            [("1", "1", "2", 18), ("2", "2", "3", 10), ("3", "2", "4", 16), ("4", "4", "5", 4), ("5", "4", "6", 16), ("6", "6", "7", 10), ("7", "3", "5", 10), ("8", "7", "5", 1)];
-        return Model(nodes.Select(n => new Junction(n.Id, n.Z, n.Q * CubicMetrePerHour)).ToArray(), [new("1", 210)],
-            pipes.Select(p => new NetworkPipe(p.Id, p.From, p.To, 1000, p.Inches * Inch, HazenWilliamsC: 130)).ToArray());
-    }
+    // Two-loop network of Alperovits and Shamir 1977 (Water Resources Research 13(6)), from memory: see AlperovitsShamirData.
+    private static NetworkModel TwoLoop() =>
+        Model(AlperovitsShamirData.Junctions.Select(n => new Junction(n.Id, n.Elevation, n.DemandCubicMetresPerHour * CubicMetrePerHour)).ToArray(),
+            [new(AlperovitsShamirData.Reservoir, AlperovitsShamirData.ReservoirHead)],
+            AlperovitsShamirData.Pipes.Select(p => new NetworkPipe(p.Id, p.From, p.To, AlperovitsShamirData.PipeLength, p.Inches * Inch,
+                HazenWilliamsC: AlperovitsShamirData.HazenWilliamsC)).ToArray());
 
     [Fact]
     public void Solve_AlperovitsShamirTwoLoop_BalancesAndMatchesHardyCross()

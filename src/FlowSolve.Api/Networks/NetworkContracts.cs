@@ -1,0 +1,173 @@
+using System.ComponentModel;
+using FlowSolve.Api.Contracts;
+using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Pumps;
+
+namespace FlowSolve.Api.Networks;
+
+/// <summary>A junction of the network: a node of unknown head where water may be drawn off.</summary>
+public sealed record NetworkJunctionInput(
+    [property: Description("Identifier, unique among all nodes (junctions and reservoirs); 1 to 64 characters. Required.")]
+    string? Id,
+    [property: Description("Elevation z of the junction above the datum: m (ft with units=us); any sign. Pressure head is head - elevation. Required.")]
+    double? Elevation,
+    [property: Description("Water drawn off at the junction: m3/s (ft3/s with units=us, US gal/min with flowUnit=gpm); any sign (negative for an inflow). Multiplied by each of demandMultipliers. 0 when omitted.")]
+    double? Demand = null,
+    [property: Description("Easting of the junction for the schematic on the calculation sheet, in any consistent length unit; optional (give x and y on every node, or on none).")]
+    double? X = null,
+    [property: Description("Northing of the junction for the schematic, in the same unit as x; optional.")]
+    double? Y = null);
+
+/// <summary>A reservoir (or tank held at a level): a node of fixed total head.</summary>
+public sealed record NetworkReservoirInput(
+    [property: Description("Identifier, unique among all nodes; 1 to 64 characters. Required.")]
+    string? Id,
+    [property: Description("Fixed total head (water-surface level) above the datum: m (ft with units=us). Required.")]
+    double? Head,
+    [property: Description("Easting of the reservoir for the schematic; optional.")]
+    double? X = null,
+    [property: Description("Northing of the reservoir for the schematic; optional.")]
+    double? Y = null);
+
+/// <summary>A pipe between two nodes: Darcy-Weisbach with Colebrook-White (roughness) or Hazen-Williams (hazenWilliamsC).</summary>
+public sealed record NetworkPipeInput(
+    [property: Description("Identifier, unique among all links (pipes and pumps); 1 to 64 characters. Required.")]
+    string? Id,
+    [property: Description("Id of the start node; flow is reported positive from 'from' to 'to'. Required.")]
+    string? From,
+    [property: Description("Id of the end node; not the start node. Required.")]
+    string? To,
+    [property: Description("Length L: m (ft with units=us); above 0. Required.")]
+    double? Length,
+    [property: Description("Inside diameter D: m (ft with units=us); above 0. Required.")]
+    double? Diameter,
+    [property: Description("Absolute roughness e for Darcy-Weisbach: m (ft with units=us); 0 or more, below the diameter. Give this or hazenWilliamsC.")]
+    double? Roughness = null,
+    [property: Description("Hazen-Williams C factor (dimensionless, the same number in SI and US units); above 0, usually 40 to 150. Give this or roughness.")]
+    double? HazenWilliamsC = null,
+    [property: Description("Sum of the fittings' loss coefficients K on the pipe's velocity head (dimensionless); 0 or more; 0 when omitted.")]
+    double? MinorLossCoefficient = null,
+    [property: Description("True for a check valve that lets water pass only from 'from' to 'to'; false when omitted.")]
+    bool? CheckValve = null,
+    [property: Description("True for a pipe shut by an isolating valve (it carries no flow); false when omitted.")]
+    bool? Closed = null);
+
+/// <summary>A pump between two nodes, lifting water from 'from' (suction) to 'to' (delivery).</summary>
+public sealed record NetworkPumpInput(
+    [property: Description("Identifier, unique among all links (pipes and pumps); 1 to 64 characters. Required.")]
+    string? Id,
+    [property: Description("Id of the suction node. Required.")]
+    string? From,
+    [property: Description("Id of the delivery node; not the suction node. Required.")]
+    string? To,
+    [property: Description("The head curve of the pump at rated speed, as in /v1/pumps/duty-point's pump: catalogue points (flow, head) or coefficients [c0, c1, c2(, c3)] of H = c0 + c1 Q + c2 Q^2 (+ c3 Q^3), H in m and Q in m3/s (ft and ft3/s with units=us, ft and US gal/min with flowUnit=gpm). Required. Efficiency and NPSH on the points are not used here.")]
+    PumpInput? Curve,
+    [property: Description("Speed ratio s = n / n_rated (dimensionless), 0 to 1.5; 1 when omitted; 0 switches the pump off. Affinity laws: H_s(Q) = s^2 H(Q/s).")]
+    double? SpeedRatio = null);
+
+/// <summary>A pipe network to solve: nodes, links, the fluid and the load cases.</summary>
+public sealed record NetworkSolveRequest(
+    [property: Description("Junctions: nodes of unknown head (id, elevation, demand; x and y for the schematic).")]
+    IReadOnlyList<NetworkJunctionInput>? Junctions,
+    [property: Description("Reservoirs: nodes of fixed total head (id, head). Every connected part of the network needs at least one.")]
+    IReadOnlyList<NetworkReservoirInput>? Reservoirs,
+    [property: Description("Pipes (id, from, to, length, diameter, roughness or hazenWilliamsC, minorLossCoefficient, checkValve, closed). At least one pipe or pump.")]
+    IReadOnlyList<NetworkPipeInput>? Pipes,
+    [property: Description("Pumps (id, from, to, curve, speedRatio); optional.")]
+    IReadOnlyList<NetworkPumpInput>? Pumps = null,
+    [property: Description("Load cases: each multiplies every junction demand; finite, 0 to 100; [1] when omitted. At most FlowSolve:Limits:NetworkMaxDemandMultipliers (24 by default); more answers 413. Each case is solved from the one before.")]
+    IReadOnlyList<double>? DemandMultipliers = null,
+    [property: Description("Water temperature: degrees C, 0 to 100 (degrees F, 32 to 212, with units=us), for the kinematic viscosity (IAPWS 2008). Water at 20 degrees C when no fluid is given.")]
+    double? Temperature = null,
+    [property: Description("Kinematic viscosity of the fluid: m2/s (ft2/s with units=us); above 0. Instead of temperature.")]
+    double? KinematicViscosity = null,
+    [property: Description("Unit system of the request and response: si (default: m, m3/s, m/s, m2/s, degrees C) or us (ft, ft3/s, ft/s, ft2/s, degrees F).")]
+    string? Units = null,
+    [property: Description("Flow unit: m3/s with units=si; ft3/s (default) or gpm (US gallons per minute) with units=us.")]
+    string? FlowUnit = null,
+    [property: Description("A name for the network, shown as the calculation sheet's subtitle; optional, at most 200 characters.")]
+    string? Title = null);
+
+/// <summary>One pipe in a load case's answer.</summary>
+/// <param name="Id">The pipe's id.</param>
+/// <param name="Flow">Flow, positive from the pipe's 'from' node to its 'to' node (flow unit: m3/s, ft3/s or gpm).</param>
+/// <param name="Velocity">Mean velocity Q/A, signed like the flow (m/s, or ft/s with units=us).</param>
+/// <param name="HeadLoss">Head at 'from' minus head at 'to' (m, or ft with units=us): for an open pipe the friction and minor losses, signed like the flow; for a closed pipe or check valve, the head held across it.</param>
+/// <param name="FrictionFactor">Darcy friction factor f (dimensionless); for a Hazen-Williams pipe the equivalent f = 2 g D hf / (L V^2); 0 at zero flow.</param>
+/// <param name="Reynolds">Reynolds number |V| D / nu (dimensionless).</param>
+/// <param name="Status">open, closed or check-valve-closed.</param>
+public sealed record NetworkPipeResultDto(string Id, double Flow, double Velocity, double HeadLoss, double FrictionFactor, double Reynolds, string Status);
+
+/// <summary>One junction in a load case's answer.</summary>
+/// <param name="Id">The junction's id.</param>
+/// <param name="Head">Total (piezometric) head above the datum (m, or ft with units=us).</param>
+/// <param name="PressureHead">Head minus elevation (m, or ft with units=us).</param>
+/// <param name="Demand">Demand applied: the junction's demand times the case's multiplier (flow unit).</param>
+public sealed record NetworkJunctionResultDto(string Id, double Head, double PressureHead, double Demand);
+
+/// <summary>One pump in a load case's answer.</summary>
+/// <param name="Id">The pump's id.</param>
+/// <param name="Flow">Flow from suction to delivery (flow unit); 0 when off.</param>
+/// <param name="Head">Head added, delivery head minus suction head (m, or ft with units=us); for a stopped pump the head across it.</param>
+/// <param name="Status">open (running) or pump-off.</param>
+public sealed record NetworkPumpResultDto(string Id, double Flow, double Head, string Status);
+
+/// <summary>One reservoir in a load case's answer.</summary>
+/// <param name="Id">The reservoir's id.</param>
+/// <param name="Head">Its fixed head (m, or ft with units=us).</param>
+/// <param name="Outflow">Net flow out of it into the network (flow unit); negative when it fills.</param>
+public sealed record NetworkReservoirResultDto(string Id, double Head, double Outflow);
+
+/// <summary>One Newton iteration of the global gradient solve.</summary>
+/// <param name="Iteration">1-based, counted over all status passes.</param>
+/// <param name="StatusPass">The status pass (check valves and pumps re-examined between passes) it belongs to, from 1.</param>
+/// <param name="MaxFlowChange">Largest change of a link's flow in this step (flow unit).</param>
+/// <param name="MaxHeadImbalance">Largest energy imbalance |H_from - H_to - h(Q)| over the open links after the step (m, or ft with units=us).</param>
+/// <param name="MaxContinuityError">Largest continuity error |inflow - outflow - demand| over the junctions after the step (flow unit).</param>
+/// <param name="LinearIterations">Conjugate-gradient iterations of this step's head solve.</param>
+public sealed record NetworkIterationDto(int Iteration, int StatusPass, double MaxFlowChange, double MaxHeadImbalance, double MaxContinuityError, int LinearIterations);
+
+/// <summary>A warning about one element of the network.</summary>
+/// <param name="Code">Stable kebab-case code: velocity-below-design-range, velocity-above-design-range, negative-pressure, pump-cannot-lift, pump-outside-curve-range, not-converged.</param>
+/// <param name="Message">What it means, naming the element (figures in SI).</param>
+/// <param name="Element">The id of the pipe, pump or junction it is about; omitted for the whole case.</param>
+public sealed record NetworkWarningDto(string Code, string Message, string? Element);
+
+/// <summary>The answer for one load case.</summary>
+/// <param name="DemandMultiplier">The multiplier applied to every demand.</param>
+/// <param name="Status">solved, iteration-cap-reached or statuses-not-settled (no-path-to-fixed-head, pump-cannot-lift and linear-solve-failed answer 422).</param>
+/// <param name="Reason">What the status means.</param>
+/// <param name="Converged">True when continuity and energy balance are met within the tolerances (1e-10 m3/s and 1e-10 m).</param>
+/// <param name="Iterations">Newton iterations over all status passes.</param>
+/// <param name="StatusPasses">Status passes run (1 when no check valve or pump changed state).</param>
+/// <param name="Pipes">Every pipe, in request order.</param>
+/// <param name="Junctions">Every junction, in request order.</param>
+/// <param name="Pumps">Every pump, in request order.</param>
+/// <param name="Reservoirs">Every reservoir, in request order.</param>
+/// <param name="TotalDemand">Sum of the demands applied (flow unit).</param>
+/// <param name="TotalSupply">Sum of the reservoirs' net outflows (flow unit); equals totalDemand within the flow tolerance.</param>
+/// <param name="Convergence">The convergence record, one row per Newton iteration.</param>
+/// <param name="Warnings">Warnings with stable codes, each naming its element.</param>
+public sealed record NetworkCaseDto(
+    double DemandMultiplier, string Status, string Reason, bool Converged, int Iterations, int StatusPasses,
+    IReadOnlyList<NetworkPipeResultDto> Pipes, IReadOnlyList<NetworkJunctionResultDto> Junctions,
+    IReadOnlyList<NetworkPumpResultDto> Pumps, IReadOnlyList<NetworkReservoirResultDto> Reservoirs,
+    double TotalDemand, double TotalSupply, IReadOnlyList<NetworkIterationDto> Convergence, IReadOnlyList<NetworkWarningDto> Warnings);
+
+/// <summary>The solved network: one answer per load case, with the method, units and defaults.</summary>
+/// <param name="Cases">One answer per demand multiplier, in the order given.</param>
+/// <param name="Iterations">Newton iterations of the slowest load case (the largest count of any case).</param>
+/// <param name="Converged">True when every load case converged.</param>
+/// <param name="Method">The relations and the algorithm used.</param>
+/// <param name="Units">si or us.</param>
+/// <param name="FlowUnit">m3/s, ft3/s or gpm.</param>
+/// <param name="HeadUnit">m or ft: heads, head losses, elevations.</param>
+/// <param name="VelocityUnit">m/s or ft/s.</param>
+/// <param name="KinematicViscosity">Kinematic viscosity used (m2/s, or ft2/s with units=us).</param>
+/// <param name="Validity">Each correlation's published range beside the extremes of the inputs over every case.</param>
+/// <param name="Warnings">Warnings about the request as a whole (the fluid); the element warnings are in each case.</param>
+/// <param name="Assumptions">Defaults that were applied.</param>
+public sealed record NetworkSolveResponse(
+    IReadOnlyList<NetworkCaseDto> Cases, int Iterations, bool Converged, string Method,
+    string Units, string FlowUnit, string HeadUnit, string VelocityUnit, double KinematicViscosity,
+    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary;

@@ -1,0 +1,78 @@
+using FlowSolve.Api.Hosting;
+using FlowSolve.Api.Pumps;
+
+namespace FlowSolve.Api.Networks;
+
+/// <summary>The network endpoint's OpenAPI description and example.</summary>
+public static class NetworkDocs
+{
+    public const string Solve =
+        "Steady flows and heads of a looped (or branched) pipe network by the global gradient algorithm of Todini and Pilati " +
+        "(1988): Newton iteration on the energy equation of every link and the continuity equation of every junction together. " +
+        "The request is a network document: junctions (id, elevation, demand), reservoirs (id, fixed head), pipes (id, from, to, " +
+        "length, diameter, and roughness for Darcy-Weisbach with the exact Colebrook-White friction factor, or hazenWilliamsC for " +
+        "Hazen-Williams; minorLossCoefficient; checkValve; closed), pumps (id, from, to, curve as in /v1/pumps/duty-point, " +
+        "speedRatio), optional x and y on the nodes for the schematic of the calculation sheet, the fluid (water's temperature or " +
+        "kinematicViscosity; water at 20 degrees C when neither is given) and demandMultipliers, one load case each (default [1]). " +
+        "Flows are positive from a pipe's 'from' node to its 'to' node. Each load case reports every pipe (flow, velocity, head " +
+        "loss, friction factor, Reynolds number, status), junction (head, pressure head, demand), pump and reservoir, the supply " +
+        "and demand totals, iterations, the convergence record per iteration (largest flow change, head imbalance and continuity " +
+        "error) and warnings with stable codes naming their element (velocities outside 0.6 to 3 m/s, common practice; negative " +
+        "pressures; pumps). Converged means continuity to 1e-10 m3/s at every junction and energy to 1e-10 m on every link. " +
+        "Units: SI by default (m, m3/s, m/s, m2/s, degrees C); units=us gives ft, ft3/s (or US gal/min with flowUnit=gpm), ft/s, " +
+        "ft2/s and degrees F, for inputs and outputs alike; warning messages quote SI figures. Bad input answers 400 whose errors " +
+        "map names each field (pipes[2].length) and whose messages name the element by id (duplicate ids, unknown nodes, a link " +
+        "from a node to itself, non-positive lengths); elements lists those ids. A network over the size limit " +
+        "(FlowSolve:Limits:NetworkMaxPipes links or nodes, 10 000 by default) or with too many load cases " +
+        "(FlowSolve:Limits:NetworkMaxDemandMultipliers, 24) answers 413 naming the limit. A part of the network with no path to a " +
+        "reservoir, a pump that cannot lift against the system, or head equations that cannot be solved answer 422 saying which. " +
+        "format=text is not offered (the answer is tables, not one value), nor batch or check; format=html gives the calculation " +
+        "sheet with a schematic drawn from the coordinates. Steady state only: water hammer and surge are out of scope.\n\n" +
+        OpenApiSetup.Cautions;
+
+    /// <summary>The Fernbrook Vale demo network (invented data, no real place; samples/scenario/fernbrook-network.json holds
+    /// the same document, and a test keeps the two equal): Millbeck village, fed from Quarrytop reservoir by a trunk main,
+    /// three loops, a back-feed from the Wrenfold tank through a check valve, and a booster pump to the Hollins Rise zone.</summary>
+    public static NetworkSolveRequest Example { get; } = new(
+        Junctions:
+        [
+            new("trunk-end", 74, 0, 600, 600),
+            new("mill-lane", 70, 0.004, 1000, 600),
+            new("brook-end", 66, 0.005, 1400, 600),
+            new("green", 69, 0.006, 600, 200),
+            new("church-row", 67, 0.005, 1000, 200),
+            new("ferry-row", 64, 0.004, 1400, 200),
+            new("school", 71, 0.003, 600, -200),
+            new("booster-out", 71, 0, 300, -200),
+            new("hollins-rise", 104, 0.003, 0, -200),
+            new("hollins-top", 110, 0.002, 0, -500),
+        ],
+        Reservoirs:
+        [
+            new("quarrytop", 118.5, 0, 600),
+            new("wrenfold-tank", 96.0, 1800, 200),
+        ],
+        Pipes:
+        [
+            new("trunk", "quarrytop", "trunk-end", 1800, 0.25, Roughness: 0.0001, MinorLossCoefficient: 2),
+            new("p1", "trunk-end", "mill-lane", 400, 0.2, Roughness: 0.0001),
+            new("p2", "mill-lane", "brook-end", 400, 0.15, Roughness: 0.0001),
+            new("p3", "trunk-end", "green", 400, 0.2, Roughness: 0.0001),
+            new("p4", "mill-lane", "church-row", 400, 0.1, HazenWilliamsC: 100),
+            new("p5", "brook-end", "ferry-row", 400, 0.1, HazenWilliamsC: 100),
+            new("p6", "green", "church-row", 400, 0.15, Roughness: 0.0001),
+            new("p7", "church-row", "ferry-row", 400, 0.1, Roughness: 0.0001),
+            new("p8", "green", "school", 400, 0.15, Roughness: 0.0001),
+            new("p9", "school", "church-row", 560, 0.1, Roughness: 0.0001),
+            new("rise-main", "booster-out", "hollins-rise", 300, 0.1, Roughness: 0.00001, MinorLossCoefficient: 3, CheckValve: true),
+            new("hollins-spur", "hollins-rise", "hollins-top", 300, 0.08, Roughness: 0.00001),
+            new("tank-feed", "wrenfold-tank", "ferry-row", 900, 0.15, Roughness: 0.0001, MinorLossCoefficient: 3, CheckValve: true),
+        ],
+        Pumps:
+        [
+            new("hollins-booster", "school", "booster-out", new PumpInput(Coefficients: [48, 0, -300000], MaximumFlow: 0.01)),
+        ],
+        DemandMultipliers: [0.4, 1.0, 1.8],
+        Temperature: 12,
+        Title: "Millbeck village network, Fernbrook Vale (invented for the demo: no real place, firm or person)");
+}

@@ -1,0 +1,249 @@
+using System.Globalization;
+using FlowSolve.Api.Contracts;
+using FlowSolve.Api.Networks;
+
+namespace FlowSolve.Api.Sheets;
+
+/// <summary>
+/// The network sheet: the network as understood (nodes and links), the method with its sources, per load case the
+/// totals and the tables of pipes, junctions, pumps and reservoirs, the convergence record, a schematic drawn from the
+/// node coordinates (when every node has them), the convergence plot, validity, warnings and the cautions.
+/// </summary>
+public sealed class NetworkSheet : ISheetBuilder
+{
+    private static readonly CultureInfo C = CultureInfo.InvariantCulture;
+
+    /// <summary>Most rows of one table on the sheet; the JSON answer always holds every element.</summary>
+    public const int MaximumTableRows = 2000;
+
+    public string Name => NetworkEndpoints.Calculation;
+
+    public Sheet Build(SheetContext context)
+    {
+        var request = context.Request as NetworkSolveRequest ?? throw new ArgumentException("not a network request", nameof(context));
+        var r = (NetworkSolveResponse)context.Response;
+        string qu = r.FlowUnit, hu = r.HeadUnit, vu = r.VelocityUnit;
+        var sheet = new Sheet { Title = request.Title is { Length: > 0 } t ? "Pipe network: " + t : "Pipe network", Calculation = Name };
+
+        Inputs(sheet, request, r);
+        sheet.Assumptions.AddRange(r.Assumptions);
+        Methods(sheet, request);
+
+        for (int c = 0; c < r.Cases.Count; c++)
+        {
+            var k = r.Cases[c];
+            string tag = Tag(c, k);
+            string lowest = k.Junctions.Count == 0 ? "no junctions" : k.Junctions.MinBy(j => j.PressureHead)!.Id;
+            double lowestHead = k.Junctions.Count == 0 ? double.NaN : k.Junctions.Min(j => j.PressureHead);
+            {
+                sheet.Results.Add(new($"{tag}: status", k.Status, "", k.Reason));
+                sheet.Results.Add(new($"{tag}: total demand", F(k.TotalDemand), qu, "sum of the junction demands times the multiplier"));
+                sheet.Results.Add(new($"{tag}: total supply", F(k.TotalSupply), qu, "sum of the reservoirs' net outflows"));
+                sheet.Results.Add(new($"{tag}: lowest pressure head", F(lowestHead), hu, k.Junctions.Count == 0 ? "" : $"at junction '{lowest}'"));
+                sheet.Results.Add(new($"{tag}: iterations", k.Iterations.ToString(C), "", $"{k.StatusPasses} status pass(es); converged: {(k.Converged ? "yes" : "no")}"));
+            }
+            sheet.Tables.Add(Table($"pipes-{c + 1}", $"Pipes, {tag}", ["Pipe", $"Flow ({qu})", $"Velocity ({vu})", $"Head loss ({hu})", "Friction factor f", "Reynolds number", "Status"],
+                k.Pipes.Select(p => new[] { p.Id, F(p.Flow), F(p.Velocity), F(p.HeadLoss), F(p.FrictionFactor), F(p.Reynolds), p.Status }),
+                "Flow is positive from the pipe's 'from' node to its 'to' node; head loss is the head at 'from' minus the head at 'to'."));
+            sheet.Tables.Add(Table($"junctions-{c + 1}", $"Junctions, {tag}", ["Junction", $"Head ({hu})", $"Pressure head ({hu})", $"Demand ({qu})"],
+                k.Junctions.Select(j => new[] { j.Id, F(j.Head), F(j.PressureHead), F(j.Demand) })));
+            if (k.Pumps.Count > 0)
+                sheet.Tables.Add(Table($"pumps-{c + 1}", $"Pumps, {tag}", ["Pump", $"Flow ({qu})", $"Head added ({hu})", "Status"],
+                    k.Pumps.Select(p => new[] { p.Id, F(p.Flow), F(p.Head), p.Status })));
+            sheet.Tables.Add(Table($"reservoirs-{c + 1}", $"Reservoirs, {tag}", ["Reservoir", $"Head ({hu})", $"Outflow ({qu})"],
+                k.Reservoirs.Select(x => new[] { x.Id, F(x.Head), F(x.Outflow) })));
+            sheet.Tables.Add(Table($"convergence-{c + 1}", $"Convergence record, {tag}",
+                ["Iteration", "Status pass", $"Largest flow change ({qu})", $"Largest head imbalance ({hu})", $"Largest continuity error ({qu})", "CG iterations"],
+                k.Convergence.Select(t => new[] { t.Iteration.ToString(C), t.StatusPass.ToString(C), E3(t.MaxFlowChange), E3(t.MaxHeadImbalance), E3(t.MaxContinuityError), t.LinearIterations.ToString(C) })));
+            foreach (var w in k.Warnings) sheet.Warnings.Add(new WarningDto(w.Code, $"{tag}: {w.Message}"));
+        }
+
+        var slowest = r.Cases.MaxBy(k => k.Iterations)!;
+        var last = slowest.Convergence.Count > 0 ? slowest.Convergence[^1] : null;
+        sheet.Solver = new SolverRecord(r.Iterations, r.Converged, last?.MaxHeadImbalance ?? 0,
+            $"largest energy imbalance over the open links after the last iteration of the slowest load case, {hu}", slowest.Status, slowest.Reason,
+            "every junction head and link flow at once (Newton on the whole network)", [],
+            "Each load case's iterations are in its convergence record above; the tolerances are 1e-10 m on every link's energy balance and 1e-10 m3/s on every junction's continuity.");
+        sheet.Validity.AddRange(r.Validity);
+        sheet.Warnings.InsertRange(0, r.Warnings);
+
+        if (Schematic(request, r) is { } schematic) sheet.Figures.Add(schematic);
+        sheet.Figures.Add(Convergence(r));
+        return sheet;
+    }
+
+    private static string Tag(int c, NetworkCaseDto k) => string.Create(C, $"case {c + 1} (demands x {k.DemandMultiplier:G6})");
+
+    private static string F(double v) => SheetHtml.Fmt(v);
+
+    private static string E3(double v) => double.IsFinite(v) ? v.ToString("E3", C) : "not finite";
+
+    private static SheetTable Table(string id, string title, string[] columns, IEnumerable<string[]> rows, string note = "", bool inputs = false)
+    {
+        var all = rows.ToList();
+        if (all.Count > MaximumTableRows)
+        {
+            note = (note.Length > 0 ? note + " " : "") + string.Create(C, $"The first {MaximumTableRows} of {all.Count} rows are shown; the JSON answer holds every row.");
+            all = all.Take(MaximumTableRows).ToList();
+        }
+        return new SheetTable(id, title, columns, all, note, inputs);
+    }
+
+    private static void Inputs(Sheet sheet, NetworkSolveRequest q, NetworkSolveResponse r)
+    {
+        string hu = r.HeadUnit, qu = r.FlowUnit;
+        var junctions = q.Junctions ?? [];
+        var reservoirs = q.Reservoirs ?? [];
+        var pipes = q.Pipes ?? [];
+        var pumps = q.Pumps ?? [];
+        sheet.Inputs.Add(new("Junctions", junctions.Count.ToString(C), "", "nodes of unknown head"));
+        sheet.Inputs.Add(new("Reservoirs", reservoirs.Count.ToString(C), "", "nodes of fixed head"));
+        sheet.Inputs.Add(new("Pipes", pipes.Count.ToString(C), "", pipes.Count(p => p.HazenWilliamsC is not null).ToString(C) + " by Hazen-Williams, the rest by Darcy-Weisbach"));
+        sheet.Inputs.Add(new("Pumps", pumps.Count.ToString(C), "", ""));
+        sheet.Inputs.Add(new("Demand multipliers", string.Join(", ", r.Cases.Select(k => k.DemandMultiplier.ToString("G6", C))), "-",
+            q.DemandMultipliers is null ? "default: one load case" : "one load case each"));
+        if (q.KinematicViscosity is not null)
+            sheet.Inputs.Add(new("Kinematic viscosity nu", F(r.KinematicViscosity), r.Units == "us" ? "ft2/s" : "m2/s", "as given"));
+        else
+        {
+            sheet.Inputs.Add(new("Water temperature", SheetHtml.Fmt(q.Temperature ?? (r.Units == "us" ? 68 : 20)), r.Units == "us" ? "degrees F" : "degrees C",
+                q.Temperature is null ? "default fluid" : "as given"));
+            sheet.Inputs.Add(new("Kinematic viscosity nu", F(r.KinematicViscosity), r.Units == "us" ? "ft2/s" : "m2/s", "of water at that temperature (IAPWS)"));
+        }
+        sheet.Inputs.Add(new("Units", r.Units + ", flows in " + qu + ", heads and lengths in " + hu, "", q.Units is null ? "default" : "as given"));
+
+        var nodes = junctions.Select(j => new[] { j.Id ?? "", "junction", F(j.Elevation ?? double.NaN), "", F(j.Demand ?? 0), Coord(j.X, j.Y) })
+            .Concat(reservoirs.Select(x => new[] { x.Id ?? "", "reservoir", "", F(x.Head ?? double.NaN), "", Coord(x.X, x.Y) }));
+        sheet.Tables.Add(Table("nodes", "Nodes", ["Node", "Kind", $"Elevation ({hu})", $"Fixed head ({hu})", $"Demand ({qu})", "x, y"], nodes, inputs: true));
+        var links = pipes.Select(p => new[]
+            {
+                p.Id ?? "", p.CheckValve == true ? "pipe, check valve" : p.Closed == true ? "pipe, closed" : "pipe", p.From ?? "", p.To ?? "",
+                F(p.Length ?? double.NaN), F(p.Diameter ?? double.NaN),
+                p.HazenWilliamsC is double c ? "C " + c.ToString("G6", C) : "e " + F(p.Roughness ?? double.NaN) + " " + hu,
+                F(p.MinorLossCoefficient ?? 0),
+            })
+            .Concat(pumps.Select(p => new[]
+            {
+                p.Id ?? "", "pump", p.From ?? "", p.To ?? "", "", "", PumpCurve(p), "speed ratio " + (p.SpeedRatio ?? 1).ToString("G6", C),
+            }));
+        sheet.Tables.Add(Table("links", "Links", ["Link", "Kind", "From", "To", $"Length ({hu})", $"Diameter ({hu})", "Roughness or C; pump curve", "K; pump speed"], links, inputs: true));
+    }
+
+    private static string PumpCurve(NetworkPumpInput p)
+    {
+        if (p.Curve?.Coefficients is { } c) return "H = " + string.Join(" + ", c.Select((v, i) => v.ToString("G6", C) + (i == 0 ? "" : i == 1 ? " Q" : $" Q^{i}")));
+        if (p.Curve?.Points is { } pts) return pts.Count.ToString(C) + " catalogue points, " + (p.Curve.CurveDegree ?? "quadratic") + " fit";
+        return "";
+    }
+
+    private static string Coord(double? x, double? y) => x is double a && y is double b ? a.ToString("G6", C) + ", " + b.ToString("G6", C) : "";
+
+    private static void Methods(Sheet sheet, NetworkSolveRequest q)
+    {
+        var pipes = q.Pipes ?? [];
+        sheet.Methods.Add(new("Global gradient algorithm",
+            "Newton iteration on energy H_i - H_j = h(Q) for every link and continuity (inflow - outflow = demand) for every junction together; each step solves the Schur complement A21 D^-1 A12 H = b for the junction heads, then the link flows",
+            "Todini, E. and Pilati, S. (1988), A gradient algorithm for the analysis of pipe networks, in Computer Applications in Water Supply, vol. 1, Research Studies Press, 1-20 (from memory)"));
+        sheet.Methods.Add(new("Head equations",
+            "conjugate gradients with an incomplete Cholesky preconditioner on the sparse symmetric positive-definite head matrix",
+            "Hestenes and Stiefel (1952); Meijerink and van der Vorst (1977), from memory"));
+        if (pipes.Any(p => p.HazenWilliamsC is null))
+        {
+            sheet.Methods.Add(new("Darcy-Weisbach", "hf = f (L/D) V^2/(2g), hm = K V^2/(2g); V = 4Q/(pi D^2); g = 9.80665 m/s2",
+                "Weisbach (1845) and Darcy (1857), from memory; standard gravity, 3rd CGPM (1901)"));
+            sheet.Methods.Add(new("Colebrook-White, exact", "1/sqrt(f) = -2 log10(e/(3.7 D) + 2.51/(Re sqrt(f))) above Re 4000; 64/Re below 2000; a cubic blend of the two, values and slopes matched, between",
+                "Colebrook, C. F. (1939), J. Inst. Civ. Eng. 11(4), 133-156; the blend after Dunlop (1991), from memory"));
+        }
+        if (pipes.Any(p => p.HazenWilliamsC is not null))
+            sheet.Methods.Add(new("Hazen-Williams", "V = 0.849 C R^0.63 S^0.54 (SI); below 1 mm/s an odd cubic with the same value and slope, so dh/dQ never vanishes",
+                "Williams and Hazen (1905), from memory; the low-flow remedy: Elhay and Simpson (2011), J. Hydraul. Eng. 137(10)"));
+        if ((q.Pumps ?? []).Count > 0)
+            sheet.Methods.Add(new("Pumps", "H_s(Q) = s^2 H(Q/s) for speed ratio s; a pump driven backwards stops, one that cannot lift against the system answers 422", "affinity laws, common practice"));
+        if (pipes.Any(p => p.CheckValve == true))
+            sheet.Methods.Add(new("Check valves", "closed under reverse flow, reopened under forward head; statuses re-examined between Newton solves until they settle", "common practice"));
+    }
+
+    /// <summary>The network to scale from the node coordinates: pipes as lines (pumps dashed, closed links grey) labelled
+    /// with their flow in the design case (the case with multiplier 1, else the first), reservoirs as squares, junctions as
+    /// points, and the junction of lowest pressure head marked.</summary>
+    private static SheetFigure? Schematic(NetworkSolveRequest q, NetworkSolveResponse r)
+    {
+        var at = new Dictionary<string, (double X, double Y)>(StringComparer.Ordinal);
+        foreach (var j in q.Junctions ?? []) { if (j.X is not double x || j.Y is not double y) return null; at[j.Id!] = (x, y); }
+        foreach (var v in q.Reservoirs ?? []) { if (v.X is not double x || v.Y is not double y) return null; at[v.Id!] = (x, y); }
+        if (at.Count == 0) return null;
+        double xMin = at.Values.Min(p => p.X), xMax = at.Values.Max(p => p.X), yMin = at.Values.Min(p => p.Y), yMax = at.Values.Max(p => p.Y);
+        double span = Math.Max(Math.Max(xMax - xMin, yMax - yMin), 1e-9);
+        double pad = 0.12 * span;
+        var plot = SvgPlot.EqualScale("plot-schematic", "Network schematic", "x", "y", xMin - pad, xMax + pad, yMin - pad, yMax + pad, maxHeight: 560);
+        int design = Math.Max(0, r.Cases.ToList().FindIndex(k => k.DemandMultiplier == 1));
+        var k = r.Cases[design];
+        var pipes = q.Pipes ?? [];
+        for (int i = 0; i < pipes.Count; i++)
+        {
+            var p = pipes[i];
+            var (a, b) = (at[p.From!], at[p.To!]);
+            var res = k.Pipes[i];
+            plot.Segment(p.Id!, a.X, a.Y, b.X, b.Y, p.Id + " " + res.Flow.ToString("G3", C), role: "pipe", grey: res.Status != "open");
+        }
+        var pumps = q.Pumps ?? [];
+        for (int i = 0; i < pumps.Count; i++)
+        {
+            var p = pumps[i];
+            var (a, b) = (at[p.From!], at[p.To!]);
+            plot.Segment(p.Id!, a.X, a.Y, b.X, b.Y, p.Id + " (pump)", role: "pump", dashed: true, grey: k.Pumps[i].Status != "open");
+        }
+        foreach (var v in q.Reservoirs ?? []) plot.Square(v.Id!, v.X!.Value, v.Y!.Value, v.Id!);
+        string? lowest = k.Junctions.Count == 0 ? null : k.Junctions.MinBy(j => j.PressureHead)!.Id;
+        foreach (var j in q.Junctions ?? [])
+        {
+            if (j.Id == lowest) continue;
+            plot.Marker(j.Id!, j.X!.Value, j.Y!.Value, j.Id!, role: "junction", accent: false);
+        }
+        if (lowest is not null)
+        {
+            var j = (q.Junctions ?? []).First(x => x.Id == lowest);
+            plot.Marker(lowest, j.X!.Value, j.Y!.Value, lowest, role: "case");
+        }
+        else
+        {
+            var v = (q.Reservoirs ?? [])[0];
+            plot.Marker(v.Id!, v.X!.Value, v.Y!.Value, "", role: "case");
+        }
+        return new SheetFigure("schematic", plot.Render(), string.Create(C,
+            $"The network drawn from the node coordinates (equal scale); each pipe is labelled with its flow in {r.FlowUnit} in {Tag(design, k)}, positive from its 'from' node to its 'to' node. Squares are reservoirs, dashed lines pumps, grey lines closed links; the junction of lowest pressure head is marked in the accent colour."));
+    }
+
+    /// <summary>The three convergence measures per iteration on a log scale for the slowest load case, the head
+    /// imbalance of every other case beside them, the final iteration marked.</summary>
+    private static SheetFigure Convergence(NetworkSolveResponse r)
+    {
+        int slowest = r.Cases.ToList().FindIndex(k => k.Iterations == r.Iterations);
+        var k = r.Cases[slowest];
+        const double floor = SheetParts.ResidualFloor;
+        double Y(double v) => Math.Max(Math.Abs(v), floor);
+        var all = r.Cases.SelectMany(c => c.Convergence).SelectMany(t => new[] { Y(t.MaxFlowChange), Y(t.MaxHeadImbalance), Y(t.MaxContinuityError) }).DefaultIfEmpty(1).ToArray();
+        double yMax = Math.Pow(10, Math.Ceiling(Math.Log10(all.Max()) + 0.01));
+        double yMin = Math.Pow(10, Math.Floor(Math.Log10(all.Min()) - 0.01));
+        if (yMax / yMin < 100) yMin = yMax / 100;
+        var plot = new SvgPlot("plot-convergence", "Convergence history", new PlotAxis("iteration", 0.5, Math.Max(1, r.Iterations) + 0.5, Integer: true),
+            new PlotAxis($"largest change or error ({r.HeadUnit}, {r.FlowUnit})", yMin, yMax, Log: true), height: 300);
+        if (k.Convergence.Count == 0)
+        {
+            plot.Note("No iterations were needed.");
+            return new SheetFigure("convergence", plot.Render(), "No iterations.");
+        }
+        plot.Curve("largest flow change", k.Convergence.Select(t => ((double)t.Iteration, Y(t.MaxFlowChange))).ToArray(), role: "flow-change");
+        plot.Curve("largest head imbalance", k.Convergence.Select(t => ((double)t.Iteration, Y(t.MaxHeadImbalance))).ToArray(), accent: true, role: "head-imbalance");
+        plot.Curve("largest continuity error", k.Convergence.Select(t => ((double)t.Iteration, Y(t.MaxContinuityError))).ToArray(), dashed: true, role: "continuity-error");
+        for (int c = 0; c < r.Cases.Count; c++)
+        {
+            if (c == slowest || r.Cases[c].Convergence.Count == 0) continue;
+            plot.Curve($"largest head imbalance, {Tag(c, r.Cases[c])}", r.Cases[c].Convergence.Select(t => ((double)t.Iteration, Y(t.MaxHeadImbalance))).ToArray(), dashed: true, role: "other-case");
+        }
+        var lastRow = k.Convergence[^1];
+        plot.Marker("final iteration", lastRow.Iteration, Y(lastRow.MaxHeadImbalance), "final", role: "case");
+        return new SheetFigure("convergence", plot.Render(), string.Create(C,
+            $"{Tag(slowest, k)}, the slowest load case: the largest flow change (grey), head imbalance (accent) and continuity error (grey, dashed) at each Newton iteration, log scale; other cases' head imbalance dashed. Values below 1e-17 (including exact zeros) are drawn at 1e-17. The tolerances are 1e-10 m and 1e-10 m3/s."));
+    }
+}

@@ -155,18 +155,28 @@ public static class BatchEndpoints
 
     private static async Task<IResult> RunCsv(CalculationDescriptor descriptor, HttpContext http, int limit, double timeBudget, ILogger logger, CancellationToken ct)
     {
-        using var reader = new StreamReader(http.Request.Body, Encoding.UTF8);
+        using var reader = new StreamReader(http.Request.Body, Encoding.UTF8, detectEncodingFromByteOrderMarks: true, bufferSize: 65_536);
         var header = await Csv.ReadRecordAsync(reader, ct);
         if (header is null || header.All(h => h.Trim().Length == 0))
             return ProblemResults.BadInput("body", "CSV needs a header row of request field names");
         for (int i = 0; i < header.Count; i++) header[i] = header[i].Trim().TrimStart('\uFEFF');
 
-        var rows = new List<List<string>>();
-        while (await Csv.ReadRecordAsync(reader, ct) is { } record)
+        // Each row is turned into its request's UTF-8 JSON as it is read and kept in one growing buffer (a few hundred
+        // bytes a row, no objects per row survive the read), so that the 413 for too many rows comes before any answer.
+        var plan = new Csv.HeaderPlan(header);
+        var store = new System.Buffers.ArrayBufferWriter<byte>(65_536);
+        var ends = new List<int>();
+        await using (var json = new Utf8JsonWriter(store))
         {
-            if (record.All(f => f.Trim().Length == 0)) continue; // blank line
-            if (rows.Count == limit) return TooMany(limit);
-            rows.Add(record);
+            while (await Csv.ReadRecordAsync(reader, ct) is { } record)
+            {
+                if (record.All(f => f.Trim().Length == 0)) continue; // blank line
+                if (ends.Count == limit) return TooMany(limit);
+                Csv.WriteJson(json, plan, record);
+                json.Flush();
+                json.Reset(store);
+                ends.Add(store.WrittenCount);
+            }
         }
 
         http.Response.ContentType = "text/csv; charset=utf-8";
@@ -176,25 +186,19 @@ public static class BatchEndpoints
         foreach (var c in columns) { await writer.WriteAsync(','); await writer.WriteAsync(c.Name); }
         await writer.WriteAsync("\r\n");
         var line = new StringBuilder();
-        var plan = new Csv.HeaderPlan(header);
-        var buffer = new System.Buffers.ArrayBufferWriter<byte>(1024);
-        using var json = new Utf8JsonWriter(buffer);
         var okRows = SolverMetrics.BatchRows.WithLabels(descriptor.Name, "ok");
         var errorRows = SolverMetrics.BatchRows.WithLabels(descriptor.Name, "error");
-        for (int i = 0; i < rows.Count; i++)
+        for (int i = 0; i < ends.Count; i++)
         {
             if (ct.IsCancellationRequested)
             {
                 if (http.RequestAborted.IsCancellationRequested) return Results.Empty;
                 await writer.WriteAsync($"{i + 1},503,{Csv.Escape(TimeBudgetMessage(timeBudget, i + 1))}{new string(',', columns.Count)}\r\n");
-                SolverMetrics.BatchRows.WithLabels(descriptor.Name, "cut-off").Inc(rows.Count - i);
+                SolverMetrics.BatchRows.WithLabels(descriptor.Name, "cut-off").Inc(ends.Count - i);
                 break;
             }
-            buffer.ResetWrittenCount();
-            json.Reset(buffer);
-            Csv.WriteJson(json, plan, rows[i]);
-            json.Flush();
-            var (status, value) = RunRow(descriptor, buffer.WrittenSpan, logger);
+            int start = i == 0 ? 0 : ends[i - 1];
+            var (status, value) = RunRow(descriptor, store.WrittenSpan[start..ends[i]], logger);
             (status < 300 ? okRows : errorRows).Inc();
             line.Clear().Append(i + 1).Append(',').Append(status).Append(',');
             if (status is >= 200 and < 300)

@@ -72,7 +72,7 @@ internal static class NestedDissection
                 continue;
             }
             // Pseudo-peripheral root: restart from the last vertex reached while the eccentricity grows.
-            for (int round = 0; round < 4; round++)
+            for (int round = 0; round < 2; round++)
             {
                 int far = queue[count - 1];
                 ClearLevels(queue.AsSpan(0, count), level);

@@ -123,6 +123,7 @@ public sealed class NetworkSolver
         _turbulentSlope = new double[_links];
         var linkIndex = new Dictionary<string, int>(_links, StringComparer.Ordinal);
         double g = Physical.StandardGravity;
+        var turbulentLimit = new Dictionary<double, (double, double)>();
         for (int l = 0; l < _pipes; l++)
         {
             var p = model.Pipes[l];
@@ -143,8 +144,14 @@ public sealed class NetworkSolver
             {
                 _kind[l] = Kind.Darcy;
                 _geometry[l] = new PipeGeometry(p.Length, p.Diameter, p.Roughness, p.MinorLossCoefficient);
-                var cw = ColebrookWhite.Solve(_options.Friction.TurbulentLimit, p.Roughness / p.Diameter);
-                (_turbulentFriction[l], _turbulentSlope[l]) = (cw.FrictionFactor, cw.DerivativeReynolds);
+                // Pipes of one size and material share a relative roughness: solve Colebrook-White once for each.
+                double relative = p.Roughness / p.Diameter;
+                if (!turbulentLimit.TryGetValue(relative, out var limit))
+                {
+                    var cw = ColebrookWhite.Solve(_options.Friction.TurbulentLimit, relative);
+                    turbulentLimit[relative] = limit = (cw.FrictionFactor, cw.DerivativeReynolds);
+                }
+                (_turbulentFriction[l], _turbulentSlope[l]) = limit;
             }
         }
         for (int k = 0; k < model.Pumps.Count; k++)

@@ -59,8 +59,9 @@ public enum NetworkLinearSolver
 {
     /// <summary>Direct: a supernodal sparse Cholesky factorisation under a nested-dissection ordering
     /// (<see cref="Networks.SparseCholesky"/>), analysed once per network and refactorised each iteration, with iterative
-    /// refinement when the residual exceeds the tolerance. The default: fastest measured from small networks to 100,000
-    /// pipes, and exact up to rounding.</summary>
+    /// refinement when the residual exceeds the tolerance. The default: measured 6 times faster than the
+    /// conjugate-gradient path on a 10,000-pipe grid and 14 times on 100,000 (DEVELOPERS.md), exact up to rounding; it
+    /// holds the factor, about 45 % more memory.</summary>
     SparseCholesky,
 
     /// <summary>Iterative: conjugate gradients with an incomplete Cholesky IC(0) preconditioner

@@ -22,9 +22,12 @@ namespace FlowSolve.Core.Networks;
 /// keeps g positive; Hazen-Williams (whose g vanishes at 0) is replaced below <see cref="NetworkOptions.RegularisationVelocity"/>
 /// by an odd cubic with matching value and slope (after Elhay and Simpson 2011, J. Hydraul. Eng. 137(10)); a pump's g
 /// is floored at a small positive value.</para>
-/// <para>Linear algebra: the head system is solved by conjugate gradients with an incomplete Cholesky preconditioner
-/// (<see cref="SymmetricSparseSolver"/>) on a pattern built once, warm-started from the current heads; buffers are
-/// reused across iterations and load cases.</para>
+/// <para>Linear algebra (<see cref="NetworkOptions.LinearSolver"/>): by default a direct sparse Cholesky factorisation
+/// (<see cref="SparseCholesky"/>) whose nested-dissection ordering and symbolic analysis run once per network, since the
+/// pattern never changes across Newton iterations and load cases; each iteration refactorises in place and solves, with
+/// iterative refinement if the residual exceeds the tolerance. Alternatively conjugate gradients with an incomplete
+/// Cholesky preconditioner (<see cref="SymmetricSparseSolver"/>), warm-started from the current heads, which needs less
+/// memory but hundreds of iterations a step on large grids. Either way the buffers are allocated once and reused.</para>
 /// <para>Statuses: check valves and pumps are held fixed during a Newton solve; then a check valve carrying reverse
 /// flow closes, a closed one with forward head opens, a pump driven backwards stops, a stopped one whose shut-off head
 /// exceeds the head across it restarts, and the solve runs again from where it stood, up to

@@ -42,28 +42,36 @@ public static class GridNetwork
     }
 }
 
-/// <summary>Whole-network solves of generated grids: cold start, and one warm-started load case.</summary>
+/// <summary>Whole-network solves of generated grids: cold start, and one warm-started load case, with each linear
+/// solver for the head equations (the direct sparse Cholesky default, and the IC(0) conjugate-gradient path it replaced).</summary>
 [MemoryDiagnoser]
 public class NetworkBenchmarks
 {
     private NetworkModel _model = null!;
     private NetworkSolver _warm = null!;
+    private NetworkOptions _options;
 
     /// <summary>Approximate pipe count.</summary>
     [Params(10_000, 100_000)]
     public int Pipes { get; set; }
 
+    /// <summary>Linear solver of the head equations.</summary>
+    [Params(NetworkLinearSolver.SparseCholesky, NetworkLinearSolver.ConjugateGradient)]
+    public NetworkLinearSolver Solver { get; set; }
+
     [GlobalSetup]
     public void Setup()
     {
         _model = GridNetwork.Create(Pipes);
-        _warm = new NetworkSolver(_model);
+        _options = NetworkOptions.Default with { LinearSolver = Solver };
+        _warm = new NetworkSolver(_model, _options);
         _warm.SolveCase(1.0);
     }
 
-    /// <summary>Validation, pattern, and a solve from the default start.</summary>
+    /// <summary>Validation, pattern (and for the direct solver the ordering and symbolic analysis), and a solve from the
+    /// default start.</summary>
     [Benchmark]
-    public int SolveCold() => NetworkSolver.Solve(_model).Iterations;
+    public int SolveCold() => NetworkSolver.Solve(_model, _options).Iterations;
 
     /// <summary>A load case at 1.1 times the demands, warm-started from the converged base case (then back to 1.0).</summary>
     [Benchmark]
@@ -71,29 +79,21 @@ public class NetworkBenchmarks
 }
 
 /// <summary>
-/// The head equations' linear solve alone, at the size of a 100,000-pipe grid: our IC(0)-preconditioned conjugate
-/// gradients on CSR against MathNet.Numerics' sparse storage with its BiCGStab and ILU(0) preconditioner (MathNet 5
-/// has no linear conjugate-gradient solver). Matrix: the grid's weighted Laplacian, conductances log-uniform over
-/// two decades, eight nodes tied to fixed heads; residual target 1e-13 (absolute, as in the network solve).
+/// The head equations' linear system alone, at the size of a generated grid: the grid's weighted Laplacian,
+/// conductances log-uniform over two decades, eight nodes tied to fixed heads (CSR, both triangles).
 /// </summary>
-[MemoryDiagnoser]
-public class NetworkLinearSolveBenchmarks
+public abstract class GridLaplacian
 {
-    private const double Tolerance = 1e-13;
-    private SymmetricSparseSolver _ours = null!;
-    private SparseMatrix _mathNet = null!;
-    private double[] _b = null!, _x = null!;
+    protected int[] RowStart = null!, Columns = null!;
+    protected double[] Values = null!, B = null!, X = null!;
+    protected int Size;
 
-    [Params(100_000)]
-    public int Pipes { get; set; }
-
-    [GlobalSetup]
-    public void Setup()
+    protected void Build(int pipes)
     {
-        int n = (int)Math.Round(0.5 + Math.Sqrt(0.25 + Pipes / 2.0));
-        int size = n * n;
+        int n = (int)Math.Round(0.5 + Math.Sqrt(0.25 + pipes / 2.0));
+        Size = n * n;
         var random = new Random(7);
-        var diag = new double[size];
+        var diag = new double[Size];
         var edges = new List<(int I, int J, double W)>();
         for (int r = 0; r < n; r++)
             for (int c = 0; c < n; c++)
@@ -102,48 +102,115 @@ public class NetworkLinearSolveBenchmarks
                 if (c + 1 < n) edges.Add((i, i + 1, Math.Pow(10, -2 - 2 * random.NextDouble())));
                 if (r + 1 < n) edges.Add((i, i + n, Math.Pow(10, -2 - 2 * random.NextDouble())));
             }
-        foreach (int k in new[] { 0, n / 2, n - 1, size / 2 + n - 1, size - 1, size - 1 - n / 2, size - n, size / 2 }) diag[k] += 0.05;
-        var rows = new List<int>[size];
-        for (int i = 0; i < size; i++) rows[i] = [i];
+        foreach (int k in new[] { 0, n / 2, n - 1, Size / 2 + n - 1, Size - 1, Size - 1 - n / 2, Size - n, Size / 2 }) diag[k] += 0.05;
+        var rows = new List<int>[Size];
+        for (int i = 0; i < Size; i++) rows[i] = [i];
         foreach (var (i, j, _) in edges) { rows[i].Add(j); rows[j].Add(i); }
-        var rowStart = new int[size + 1];
+        RowStart = new int[Size + 1];
         var cols = new List<int>();
-        for (int i = 0; i < size; i++) { rows[i].Sort(); cols.AddRange(rows[i]); rowStart[i + 1] = cols.Count; }
-        _ours = new SymmetricSparseSolver(rowStart, cols.ToArray());
-        var values = _ours.Values;
-        for (int i = 0; i < size; i++) values[_ours.PositionOf(i, i)] += diag[i];
-        var storage = new List<Tuple<int, int, double>>();
+        for (int i = 0; i < Size; i++) { rows[i].Sort(); cols.AddRange(rows[i]); RowStart[i + 1] = cols.Count; }
+        Columns = cols.ToArray();
+        Values = new double[Columns.Length];
+        int At(int i, int j) => Array.BinarySearch(Columns, RowStart[i], RowStart[i + 1] - RowStart[i], j);
+        for (int i = 0; i < Size; i++) Values[At(i, i)] += diag[i];
         foreach (var (i, j, w) in edges)
         {
-            values[_ours.PositionOf(i, i)] += w;
-            values[_ours.PositionOf(j, j)] += w;
-            values[_ours.PositionOf(i, j)] -= w;
-            values[_ours.PositionOf(j, i)] -= w;
+            Values[At(i, i)] += w;
+            Values[At(j, j)] += w;
+            Values[At(i, j)] -= w;
+            Values[At(j, i)] -= w;
         }
-        for (int i = 0; i < size; i++)
-            for (int k = rowStart[i]; k < rowStart[i + 1]; k++) storage.Add(Tuple.Create(i, cols[k], values[k]));
-        _mathNet = SparseMatrix.OfIndexed(size, size, storage);
-        _b = new double[size];
-        for (int i = 0; i < size; i++) _b[i] = -2e-5;
-        _x = new double[size];
+        B = new double[Size];
+        for (int i = 0; i < Size; i++) B[i] = -2e-5;
+        X = new double[Size];
+    }
+}
+
+/// <summary>One head solve: our supernodal sparse Cholesky (numeric factorisation and triangular solves; the analysis
+/// runs once in set-up, as in a network solve) against our IC(0)-preconditioned conjugate gradients to a residual of
+/// 1e-13 (absolute, as in the network solve's final steps), and the one-off analysis on its own.</summary>
+[MemoryDiagnoser]
+public class NetworkLinearSolveBenchmarks : GridLaplacian
+{
+    private const double Tolerance = 1e-13;
+    private SymmetricSparseSolver _cg = null!;
+    private SparseCholesky _direct = null!;
+
+    [Params(10_000, 100_000)]
+    public int Pipes { get; set; }
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        Build(Pipes);
+        _cg = new SymmetricSparseSolver(RowStart, Columns);
+        Values.CopyTo(_cg.Values);
+        _direct = new SparseCholesky(RowStart, Columns);
+        Values.CopyTo(_direct.Values);
     }
 
     [Benchmark(Baseline = true)]
-    public int IncompleteCholeskyCg()
+    public int SparseCholeskyFactorSolve()
     {
-        Array.Clear(_x);
-        _ours.Factorise();
-        return _ours.Solve(_b, _x, Tolerance, 10_000).Iterations;
+        if (!_direct.Factorise()) return -1;
+        _direct.Solve(B, X);
+        return 1;
     }
 
     [Benchmark]
-    public double MathNetBiCgStabIlu0()
+    public int IncompleteCholeskyCg()
     {
-        var b = Vector<double>.Build.DenseOfArray(_b);
+        Array.Clear(X);
+        _cg.Factorise();
+        return _cg.Solve(B, X, Tolerance, 10_000).Iterations;
+    }
+
+    /// <summary>Ordering, elimination tree, supernodes and storage: once per network.</summary>
+    [Benchmark]
+    public int SparseCholeskyAnalysis() => new SparseCholesky(RowStart, Columns).Supernodes;
+}
+
+/// <summary>
+/// MathNet.Numerics 5's preconditioned iterative solvers on the same system at the 10,000-pipe size (beyond it they
+/// take too long to benchmark), beside our sparse Cholesky. MathNet 5 has no linear conjugate gradient; TFQMR with a
+/// diagonal preconditioner is the one of its solvers that converged here (BiCgStab stopped at its iteration cap, and
+/// its ILU(0) preconditioner did not finish); target residual 1e-13 by its ResidualStopCriterion.
+/// </summary>
+[MemoryDiagnoser]
+public class NetworkLinearSolveMathNetBenchmarks : GridLaplacian
+{
+    private SparseCholesky _direct = null!;
+    private SparseMatrix _mathNet = null!;
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        Build(10_000);
+        _direct = new SparseCholesky(RowStart, Columns);
+        Values.CopyTo(_direct.Values);
+        var storage = new List<Tuple<int, int, double>>();
+        for (int i = 0; i < Size; i++)
+            for (int k = RowStart[i]; k < RowStart[i + 1]; k++) storage.Add(Tuple.Create(i, Columns[k], Values[k]));
+        _mathNet = SparseMatrix.OfIndexed(Size, Size, storage);
+    }
+
+    [Benchmark(Baseline = true)]
+    public int SparseCholeskyFactorSolve()
+    {
+        if (!_direct.Factorise()) return -1;
+        _direct.Solve(B, X);
+        return 1;
+    }
+
+    /// <summary>Returns the largest residual |b - A x| reached.</summary>
+    [Benchmark]
+    public double MathNetTfqmrDiagonal()
+    {
+        var b = Vector<double>.Build.DenseOfArray(B);
         var x = Vector<double>.Build.Dense(b.Count);
-        var monitor = new Iterator<double>(new IterationCountStopCriterion<double>(10_000),
-            new ResidualStopCriterion<double>(Tolerance));
-        new BiCgStab().Solve(_mathNet, b, x, monitor, new ILU0Preconditioner());
-        return x[0];
+        var monitor = new Iterator<double>(new IterationCountStopCriterion<double>(5_000),
+            new ResidualStopCriterion<double>(1e-13));
+        new TFQMR().Solve(_mathNet, b, x, monitor, new DiagonalPreconditioner());
+        return (b - _mathNet * x).InfinityNorm();
     }
 }

@@ -82,7 +82,7 @@ public sealed record NetworkModel(
         if (!(KinematicViscosity > 0) || !double.IsFinite(KinematicViscosity))
             issues.Add(new("", "bad-viscosity", string.Format(c, "kinematicViscosity {0} must be finite and positive", KinematicViscosity)));
 
-        var nodes = new HashSet<string>(StringComparer.Ordinal);
+        var nodes = new HashSet<string>((Junctions?.Count ?? 0) + (Reservoirs?.Count ?? 0), StringComparer.Ordinal);
         void Node(string? id, string kind)
         {
             if (string.IsNullOrEmpty(id)) { issues.Add(new(id ?? "", "empty-id", $"a {kind} has an empty id")); return; }
@@ -100,7 +100,7 @@ public sealed record NetworkModel(
             if (!double.IsFinite(r.Head)) issues.Add(new(r.Id ?? "", "non-finite-value", $"reservoir '{r.Id}': head must be finite"));
         }
 
-        var links = new HashSet<string>(StringComparer.Ordinal);
+        var links = new HashSet<string>((Pipes?.Count ?? 0) + (Pumps?.Count ?? 0), StringComparer.Ordinal);
         void Link(string? id, string from, string to, string kind)
         {
             if (string.IsNullOrEmpty(id)) issues.Add(new(id ?? "", "empty-id", $"a {kind} has an empty id"));

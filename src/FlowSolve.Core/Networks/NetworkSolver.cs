@@ -22,9 +22,12 @@ namespace FlowSolve.Core.Networks;
 /// keeps g positive; Hazen-Williams (whose g vanishes at 0) is replaced below <see cref="NetworkOptions.RegularisationVelocity"/>
 /// by an odd cubic with matching value and slope (after Elhay and Simpson 2011, J. Hydraul. Eng. 137(10)); a pump's g
 /// is floored at a small positive value.</para>
-/// <para>Linear algebra: the head system is solved by conjugate gradients with an incomplete Cholesky preconditioner
-/// (<see cref="SymmetricSparseSolver"/>) on a pattern built once, warm-started from the current heads; buffers are
-/// reused across iterations and load cases.</para>
+/// <para>Linear algebra (<see cref="NetworkOptions.LinearSolver"/>): by default a direct sparse Cholesky factorisation
+/// (<see cref="SparseCholesky"/>) whose nested-dissection ordering and symbolic analysis run once per network, since the
+/// pattern never changes across Newton iterations and load cases; each iteration refactorises in place and solves, with
+/// iterative refinement if the residual exceeds the tolerance. Alternatively conjugate gradients with an incomplete
+/// Cholesky preconditioner (<see cref="SymmetricSparseSolver"/>), warm-started from the current heads, which needs less
+/// memory but hundreds of iterations a step on large grids. Either way the buffers are allocated once and reused.</para>
 /// <para>Statuses: check valves and pumps are held fixed during a Newton solve; then a check valve carrying reverse
 /// flow closes, a closed one with forward head opens, a pump driven backwards stops, a stopped one whose shut-off head
 /// exceeds the head across it restarts, and the solve runs again from where it stood, up to
@@ -57,9 +60,10 @@ public sealed class NetworkSolver
     private readonly LinkStatus[] _status;
     private readonly double[] _flow, _headLoss, _slope, _y, _conductance;
     private readonly double[] _head;       // all nodes; reservoirs hold their fixed head
-    private readonly double[] _rhs, _x, _continuity;
+    private readonly double[] _rhs, _x, _continuity, _residual;
 
-    private readonly SymmetricSparseSolver _matrix;
+    private readonly SymmetricSparseSolver? _iterative;  // NetworkLinearSolver.ConjugateGradient
+    private readonly SparseCholesky? _direct;            // NetworkLinearSolver.SparseCholesky
     private readonly int[] _diagFrom, _diagTo, _offFromTo, _offToFrom;
     private readonly string[] _unsupplied;
     private readonly IReadOnlyDictionary<string, int> _linkIndex, _nodeIndex;
@@ -122,6 +126,7 @@ public sealed class NetworkSolver
         _turbulentSlope = new double[_links];
         var linkIndex = new Dictionary<string, int>(_links, StringComparer.Ordinal);
         double g = Physical.StandardGravity;
+        var turbulentLimit = new Dictionary<double, (double, double)>();
         for (int l = 0; l < _pipes; l++)
         {
             var p = model.Pipes[l];
@@ -142,8 +147,14 @@ public sealed class NetworkSolver
             {
                 _kind[l] = Kind.Darcy;
                 _geometry[l] = new PipeGeometry(p.Length, p.Diameter, p.Roughness, p.MinorLossCoefficient);
-                var cw = ColebrookWhite.Solve(_options.Friction.TurbulentLimit, p.Roughness / p.Diameter);
-                (_turbulentFriction[l], _turbulentSlope[l]) = (cw.FrictionFactor, cw.DerivativeReynolds);
+                // Pipes of one size and material share a relative roughness: solve Colebrook-White once for each.
+                double relative = p.Roughness / p.Diameter;
+                if (!turbulentLimit.TryGetValue(relative, out var limit))
+                {
+                    var cw = ColebrookWhite.Solve(_options.Friction.TurbulentLimit, relative);
+                    turbulentLimit[relative] = limit = (cw.FrictionFactor, cw.DerivativeReynolds);
+                }
+                (_turbulentFriction[l], _turbulentSlope[l]) = limit;
             }
         }
         for (int k = 0; k < model.Pumps.Count; k++)
@@ -171,7 +182,13 @@ public sealed class NetworkSolver
         _x = new double[_junctions];
         _continuity = new double[_junctions];
 
-        (_matrix, _diagFrom, _diagTo, _offFromTo, _offToFrom) = BuildPattern();
+        var (rowStart, columns) = BuildPattern();
+        if (_options.LinearSolver == NetworkLinearSolver.ConjugateGradient)
+            _iterative = new SymmetricSparseSolver(rowStart, columns);
+        else
+            _direct = new SparseCholesky(rowStart, columns);
+        _residual = _direct is null ? [] : new double[_junctions];
+        (_diagFrom, _diagTo, _offFromTo, _offToFrom) = EntryPositions(rowStart, columns);
         _unsupplied = FindUnsupplied();
         Reset();
     }
@@ -403,7 +420,7 @@ public sealed class NetworkSolver
     {
         maxChange = 0;
         linearIterations = 0;
-        var values = _matrix.Values;
+        var values = _direct is null ? _iterative!.Values : _direct.Values;
         values.Clear();
         for (int j = 0; j < _junctions; j++) _rhs[j] = -_demand[j];
         for (int l = 0; l < _links; l++)
@@ -427,11 +444,15 @@ public sealed class NetworkSolver
             if (tj) { _rhs[t] += y; values[_diagTo[l]] += c; if (!fj) _rhs[t] += c * _head[f]; }
             if (fj && tj) { values[_offFromTo[l]] -= c; values[_offToFrom[l]] -= c; }
         }
-        if (!_matrix.Factorise()) return false;
-        _head.AsSpan(0, _junctions).CopyTo(_x);
-        var (iterations, residual) = _matrix.Solve(_rhs, _x, linearTolerance, _options.MaxLinearIterations);
-        linearIterations = iterations;
-        if (!double.IsFinite(residual)) return false;
+        if (_direct is null)
+        {
+            if (!_iterative!.Factorise()) return false;
+            _head.AsSpan(0, _junctions).CopyTo(_x);
+            var (iterations, residual) = _iterative.Solve(_rhs, _x, linearTolerance, _options.MaxLinearIterations);
+            linearIterations = iterations;
+            if (!double.IsFinite(residual)) return false;
+        }
+        else if (!SolveDirect(linearTolerance, out linearIterations)) return false;
         _x.AsSpan().CopyTo(_head.AsSpan(0, _junctions));
         for (int l = 0; l < _links; l++)
         {
@@ -441,6 +462,35 @@ public sealed class NetworkSolver
             _flow[l] = q;
         }
         return true;
+    }
+
+    /// <summary>The head equations by the sparse Cholesky factor, then iterative refinement (x += A^-1 (b - A x)) while
+    /// the largest residual exceeds the tolerance, at most 4 steps: rounding in the factor of an ill-conditioned system
+    /// (a vanishing conductance beside large ones) can leave more than the tolerance after one solve.</summary>
+    private bool SolveDirect(double tolerance, out int solves)
+    {
+        var direct = _direct!;
+        solves = 0;
+        if (!direct.Factorise()) return false;
+        direct.Solve(_rhs, _x);
+        solves = 1;
+        var r = _residual.AsSpan();
+        for (int step = 0; ; step++)
+        {
+            direct.Multiply(_x, r);
+            double largest = 0;
+            for (int j = 0; j < r.Length; j++)
+            {
+                double e = _rhs[j] - r[j];
+                r[j] = e;
+                if (!(Math.Abs(e) <= largest)) largest = Math.Abs(e); // NaN propagates
+            }
+            if (!double.IsFinite(largest)) return false;
+            if (largest <= tolerance || step == 4) return true;
+            direct.Solve(r, r);
+            for (int j = 0; j < r.Length; j++) _x[j] += r[j];
+            solves++;
+        }
     }
 
     /// <summary>Opens and closes check valves and pumps from the converged state; returns the number of changes.</summary>
@@ -565,8 +615,8 @@ public sealed class NetworkSolver
             _linkIndex, _nodeIndex);
     }
 
-    /// <summary>The sparsity pattern of the head equations (one row per junction), and each link's entry positions.</summary>
-    private (SymmetricSparseSolver, int[], int[], int[], int[]) BuildPattern()
+    /// <summary>The sparsity pattern of the head equations (one row per junction) in CSR form, rows sorted.</summary>
+    private (int[] RowStart, int[] Columns) BuildPattern()
     {
         int n = _junctions;
         var count = new int[n + 1];
@@ -603,7 +653,18 @@ public sealed class NetworkSolver
         }
         compactStart[n] = write;
         Array.Resize(ref columns, write);
-        var matrix = new SymmetricSparseSolver(compactStart, columns);
+        return (compactStart, columns);
+    }
+
+    /// <summary>Each link's entry positions in the values of the head equations' pattern (-1 where it has none).</summary>
+    private (int[], int[], int[], int[]) EntryPositions(int[] rowStart, int[] columns)
+    {
+        int n = _junctions;
+        int PositionOf(int row, int column)
+        {
+            int k = Array.BinarySearch(columns, rowStart[row], rowStart[row + 1] - rowStart[row], column);
+            return k >= 0 ? k : -1;
+        }
         var diagFrom = new int[_links];
         var diagTo = new int[_links];
         var offFromTo = new int[_links];
@@ -611,12 +672,12 @@ public sealed class NetworkSolver
         for (int l = 0; l < _links; l++)
         {
             int f = _from[l], t = _to[l];
-            diagFrom[l] = f < n ? matrix.PositionOf(f, f) : -1;
-            diagTo[l] = t < n ? matrix.PositionOf(t, t) : -1;
-            offFromTo[l] = f < n && t < n ? matrix.PositionOf(f, t) : -1;
-            offToFrom[l] = f < n && t < n ? matrix.PositionOf(t, f) : -1;
+            diagFrom[l] = f < n ? PositionOf(f, f) : -1;
+            diagTo[l] = t < n ? PositionOf(t, t) : -1;
+            offFromTo[l] = f < n && t < n ? PositionOf(f, t) : -1;
+            offToFrom[l] = f < n && t < n ? PositionOf(t, f) : -1;
         }
-        return (matrix, diagFrom, diagTo, offFromTo, offToFrom);
+        return (diagFrom, diagTo, offFromTo, offToFrom);
     }
 
     /// <summary>Junctions in connected parts without a reservoir (union-find over the links that can carry flow:

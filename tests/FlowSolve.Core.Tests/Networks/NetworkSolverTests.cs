@@ -358,4 +358,73 @@ public sealed class NetworkSolverTests
         Assert.InRange(result.Iterations, 1, 20);
         AssertBalanced(model, result);
     }
+
+    // A 23 x 23 grid of Darcy-Weisbach pipes, 150 to 400 mm, fed by four reservoirs at the corners (a fictional layout
+    // for scale tests): 1,056 pipes (including the feeds), 529 junctions, 484 loops.
+    private static NetworkModel LargeGrid()
+    {
+        const int k = 23;
+        var random = new Random(529);
+        double[] sizes = [0.15, 0.2, 0.25, 0.3, 0.4];
+        var junctions = new List<Junction>();
+        var pipes = new List<NetworkPipe>();
+        for (int r = 0; r < k; r++)
+            for (int c = 0; c < k; c++)
+            {
+                junctions.Add(new($"n{r}_{c}", 10 * random.NextDouble(), 1e-4 * (0.5 + random.NextDouble())));
+                if (c + 1 < k) pipes.Add(new($"h{r}_{c}", $"n{r}_{c}", $"n{r}_{c + 1}", 100 + 100 * random.NextDouble(), sizes[random.Next(5)], 0.1e-3));
+                if (r + 1 < k) pipes.Add(new($"v{r}_{c}", $"n{r}_{c}", $"n{r + 1}_{c}", 100 + 100 * random.NextDouble(), sizes[random.Next(5)], 0.1e-3));
+            }
+        (int R, int C)[] corners = [(0, 0), (0, k - 1), (k - 1, 0), (k - 1, k - 1)];
+        var reservoirs = new Reservoir[4];
+        for (int i = 0; i < 4; i++)
+        {
+            reservoirs[i] = new($"r{i}", 100 + 2 * i);
+            pipes.Add(new($"feed{i}", $"r{i}", $"n{corners[i].R}_{corners[i].C}", 50, 0.5, 0.1e-3));
+        }
+        return Model(junctions.ToArray(), reservoirs, pipes.ToArray());
+    }
+
+    [Fact]
+    public void Solve_LargeGrid_DirectAndConjugateGradientAgree()
+    {
+        // Two independent linear solvers for the head equations (sparse Cholesky, IC(0) conjugate gradients) must lead
+        // the same Newton iteration to the same balanced state: flows and heads agree to 1e-9, and both balance.
+        var model = LargeGrid();
+        Assert.True(model.Pipes.Count >= 1000);
+        var direct = NetworkSolver.Solve(model);
+        var iterative = NetworkSolver.Solve(model, NetworkOptions.Default with { LinearSolver = NetworkLinearSolver.ConjugateGradient });
+        Assert.Equal(NetworkStatus.Solved, direct.Status);
+        Assert.Equal(NetworkStatus.Solved, iterative.Status);
+        AssertBalanced(model, direct);
+        AssertBalanced(model, iterative);
+        foreach (var p in model.Pipes) Assert.Equal(iterative.Pipe(p.Id).Flow, direct.Pipe(p.Id).Flow, 1e-9);
+        foreach (var j in model.Junctions) Assert.Equal(iterative.Junction(j.Id).Head, direct.Junction(j.Id).Head, 1e-9);
+        Assert.InRange(direct.Iterations, 1, 20);
+        // One triangular solve per Newton step, at most four refinement steps more (the direct path's contract).
+        Assert.All(direct.Record, r => Assert.InRange(r.LinearIterations, 1, 5));
+        Assert.Equal(direct.TotalDemand, direct.TotalSupply, 1e-9);
+    }
+
+    [Fact]
+    public void Solve_TwoLoopAndCheckValve_ConjugateGradientPathMatchesDirect()
+    {
+        // The status logic (check valves) and the Hazen-Williams branch run the same with either linear solver.
+        var twoLoop = TwoLoop();
+        var a = NetworkSolver.Solve(twoLoop);
+        var b = NetworkSolver.Solve(twoLoop, NetworkOptions.Default with { LinearSolver = NetworkLinearSolver.ConjugateGradient });
+        foreach (var p in twoLoop.Pipes) Assert.Equal(a.Pipe(p.Id).Flow, b.Pipe(p.Id).Flow, 1e-10);
+        AssertBalanced(twoLoop, b);
+        var valve = Model([new("j", 10, 0.02)], [new("r1", 100), new("r2", 130)],
+            [new("p1", "r1", "j", 1000, 0.2, 0.1e-3), new("cv", "j", "r2", 500, 0.2, 0.1e-3, CheckValve: true)]);
+        var c = NetworkSolver.Solve(valve, NetworkOptions.Default with { LinearSolver = NetworkLinearSolver.ConjugateGradient });
+        Assert.Equal(LinkStatus.CheckValveClosed, c.Pipe("cv").Status);
+        Assert.Equal(NetworkSolver.Solve(valve).Junction("j").Head, c.Junction("j").Head, 1e-9);
+        AssertBalanced(valve, c);
+    }
+
+    [Fact]
+    public void Constructor_UnknownLinearSolver_Throws() =>
+        Assert.Throws<ArgumentOutOfRangeException>(() =>
+            new NetworkSolver(TwoLoop(), NetworkOptions.Default with { LinearSolver = (NetworkLinearSolver)7 }));
 }

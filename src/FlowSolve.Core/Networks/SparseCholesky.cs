@@ -44,23 +44,8 @@ public sealed class SparseCholesky
     /// <exception cref="ArgumentException">The pattern is malformed.</exception>
     public SparseCholesky(int[] rowStart, int[] columns)
     {
-        ArgumentNullException.ThrowIfNull(rowStart);
-        ArgumentNullException.ThrowIfNull(columns);
+        SparsePattern.Diagonals(rowStart, columns);
         int n = rowStart.Length - 1;
-        if (n < 0 || rowStart[0] != 0 || rowStart[n] != columns.Length)
-            throw new ArgumentException("rowStart must run from 0 to columns.Length", nameof(rowStart));
-        for (int i = 0; i < n; i++)
-        {
-            bool diagonal = false;
-            for (int k = rowStart[i]; k < rowStart[i + 1]; k++)
-            {
-                if (k > rowStart[i] && columns[k] <= columns[k - 1])
-                    throw new ArgumentException($"row {i}: columns must be sorted and distinct", nameof(columns));
-                if ((uint)columns[k] >= (uint)n) throw new ArgumentException($"row {i}: column out of range", nameof(columns));
-                diagonal |= columns[k] == i;
-            }
-            if (!diagonal) throw new ArgumentException($"row {i} has no diagonal entry", nameof(columns));
-        }
         _rowStart = rowStart;
         _columns = columns;
         _values = new double[columns.Length];

@@ -29,26 +29,10 @@ public sealed class SymmetricSparseSolver
     /// <exception cref="ArgumentException">The pattern is malformed.</exception>
     public SymmetricSparseSolver(int[] rowStart, int[] columns)
     {
-        ArgumentNullException.ThrowIfNull(rowStart);
-        ArgumentNullException.ThrowIfNull(columns);
+        _diagonal = SparsePattern.Diagonals(rowStart, columns);
         int n = rowStart.Length - 1;
-        if (n < 0 || rowStart[0] != 0 || rowStart[n] != columns.Length)
-            throw new ArgumentException("rowStart must run from 0 to columns.Length", nameof(rowStart));
         _rowStart = rowStart;
         _columns = columns;
-        _diagonal = new int[n];
-        for (int i = 0; i < n; i++)
-        {
-            _diagonal[i] = -1;
-            for (int k = rowStart[i]; k < rowStart[i + 1]; k++)
-            {
-                if (k > rowStart[i] && columns[k] <= columns[k - 1])
-                    throw new ArgumentException($"row {i}: columns must be sorted and distinct", nameof(columns));
-                if ((uint)columns[k] >= (uint)n) throw new ArgumentException($"row {i}: column out of range", nameof(columns));
-                if (columns[k] == i) _diagonal[i] = k;
-            }
-            if (_diagonal[i] < 0) throw new ArgumentException($"row {i} has no diagonal entry", nameof(columns));
-        }
         _values = new double[columns.Length];
         _factor = new double[columns.Length];
         _r = new double[n];

@@ -49,9 +49,31 @@ public static class CalculationExtensions
 {
     /// <summary>Marks an endpoint as a calculation: it answers <c>format=text</c> with <paramref name="primaryOutput"/> (or <c>select</c>),
     /// and <c>format=html</c> with its calculation sheet.</summary>
-    public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput, bool text = true) =>
-        builder.WithMetadata(new CalculationMetadata(name, primaryOutput, text)).AddEndpointFilter<SolverMetricsFilter>().AddEndpointFilter<TextFormatFilter>()
-            .AddEndpointFilter<FlowSolve.Api.Sheets.HtmlFormatFilter>();
+    /// <remarks>One filter per endpoint, built once: it records the solve's metrics on the handler's own result and sends
+    /// <c>format=text</c> (or an unknown format) to <see cref="TextFormatFilter"/> and <c>format=html</c> to the sheet's
+    /// filter; a JSON call (the usual one) goes straight to the handler.</remarks>
+    public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput, bool text = true)
+    {
+        var metadata = new CalculationMetadata(name, primaryOutput, text);
+        return builder.WithMetadata(metadata).AddEndpointFilterFactory((_, next) =>
+        {
+            var textFilter = new TextFormatFilter();
+            var htmlFilter = new FlowSolve.Api.Sheets.HtmlFormatFilter();
+            EndpointFilterDelegate measured = async context =>
+            {
+                object? result = await next(context);
+                if (result is IResult r) SolverMetrics.Record(metadata.Name, r.Unwrap().Value);
+                return result;
+            };
+            return context =>
+            {
+                string? format = context.HttpContext.Request.Query["format"];
+                if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase)) return measured(context);
+                if (format.Equals("html", StringComparison.OrdinalIgnoreCase)) return htmlFilter.InvokeAsync(context, measured);
+                return textFilter.InvokeAsync(context, measured);
+            };
+        });
+    }
 
     /// <summary>Registers a calculation for <c>POST /v1/batch/{name}</c>.</summary>
     public static void AddCalculation<TRequest, TResponse>(this IEndpointRouteBuilder routes, string name, string primaryOutput,

@@ -39,15 +39,3 @@ public static class SolverMetrics
         return app;
     }
 }
-
-/// <summary>Records solver metrics for every calculation endpoint (added by <c>AsCalculation</c>).</summary>
-public sealed class SolverMetricsFilter : IEndpointFilter
-{
-    public async ValueTask<object?> InvokeAsync(EndpointFilterInvocationContext context, EndpointFilterDelegate next)
-    {
-        object? result = await next(context);
-        if (result is IResult r && context.HttpContext.GetEndpoint()?.Metadata.GetMetadata<CalculationMetadata>() is { } m)
-            SolverMetrics.Record(m.Name, r.Unwrap().Value);
-        return result;
-    }
-}

@@ -40,8 +40,8 @@ public sealed class FlowSolveOptions
 
         /// <summary>Most warnings of one code listed one by one in a network load case (default 50); beyond it one summary
         /// warning of that code says how many more elements it concerns (the per-element tables still carry every value).
-        /// 0 or less lists every warning. A 10 000-pipe grid with 24 load cases otherwise answered about 109 MB, mostly
-        /// low-velocity warnings.</summary>
+        /// 0 or less lists every warning. A 9 948-pipe grid with 24 load cases and slow pipes almost everywhere answered
+        /// 102 MB uncapped, 58 MB (the element tables) with the default.</summary>
         public int NetworkWarningsPerCode { get; set; } = 50;
     }
 

@@ -127,11 +127,14 @@ public sealed record NetworkReservoirResultDto(string Id, double Head, double Ou
 /// <param name="LinearIterations">Conjugate-gradient iterations of this step's head solve.</param>
 public sealed record NetworkIterationDto(int Iteration, int StatusPass, double MaxFlowChange, double MaxHeadImbalance, double MaxContinuityError, int LinearIterations);
 
-/// <summary>A warning about one element of the network.</summary>
+/// <summary>A warning about one element of the network, or the summary of the rest of one code's warnings.</summary>
 /// <param name="Code">Stable kebab-case code: velocity-below-design-range, velocity-above-design-range, negative-pressure, pump-cannot-lift, pump-outside-curve-range, not-converged.</param>
 /// <param name="Message">What it means, naming the element (figures in SI).</param>
-/// <param name="Element">The id of the pipe, pump or junction it is about; omitted for the whole case.</param>
-public sealed record NetworkWarningDto(string Code, string Message, string? Element);
+/// <param name="Element">The id of the pipe, pump or junction it is about; omitted for the whole case and for a summary.</param>
+/// <param name="MoreElements">Only on a summary: a load case lists at most FlowSolve:Limits:NetworkWarningsPerCode
+/// warnings of one code (50 by default); this one, after them, counts the further warnings of its code that are not
+/// listed. The pipe, junction and pump tables carry every value, so each of those elements can be found there.</param>
+public sealed record NetworkWarningDto(string Code, string Message, string? Element, int? MoreElements = null);
 
 /// <summary>The answer for one load case.</summary>
 /// <param name="DemandMultiplier">The multiplier applied to every demand.</param>
@@ -147,7 +150,7 @@ public sealed record NetworkWarningDto(string Code, string Message, string? Elem
 /// <param name="TotalDemand">Sum of the demands applied (flow unit).</param>
 /// <param name="TotalSupply">Sum of the reservoirs' net outflows (flow unit); equals totalDemand within the flow tolerance.</param>
 /// <param name="Convergence">The convergence record, one row per Newton iteration.</param>
-/// <param name="Warnings">Warnings with stable codes, each naming its element.</param>
+/// <param name="Warnings">Warnings with stable codes, each naming its element; at most FlowSolve:Limits:NetworkWarningsPerCode (50 by default) of one code, then one summary of that code with moreElements.</param>
 public sealed record NetworkCaseDto(
     double DemandMultiplier, string Status, string Reason, bool Converged, int Iterations, int StatusPasses,
     IReadOnlyList<NetworkPipeResultDto> Pipes, IReadOnlyList<NetworkJunctionResultDto> Junctions,

@@ -18,7 +18,8 @@ public static class NetworkDocs
         "loss, friction factor, Reynolds number, status), junction (head, pressure head, demand), pump and reservoir, the supply " +
         "and demand totals, iterations, the convergence record per iteration (largest flow change, head imbalance and continuity " +
         "error) and warnings with stable codes naming their element (velocities outside 0.6 to 3 m/s, common practice; negative " +
-        "pressures; pumps). Converged means continuity to 1e-10 m3/s at every junction and energy to 1e-10 m on every link. " +
+        "pressures; pumps), at most FlowSolve:Limits:NetworkWarningsPerCode (50 by default) of one code per load case, then one " +
+        "summary of that code whose moreElements counts the rest (the pipe, junction and pump tables still carry every value). Converged means continuity to 1e-10 m3/s at every junction and energy to 1e-10 m on every link. " +
         "Units: SI by default (m, m3/s, m/s, m2/s, degrees C); units=us gives ft, ft3/s (or US gal/min with flowUnit=gpm), ft/s, " +
         "ft2/s and degrees F, for inputs and outputs alike; warning messages quote SI figures. Bad input answers 400 whose errors " +
         "map names each field (pipes[2].length) and whose messages name the element by id (duplicate ids, unknown nodes, a link " +

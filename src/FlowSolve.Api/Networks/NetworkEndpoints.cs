@@ -71,7 +71,7 @@ public static class NetworkEndpoints
         }
 
         if (NoAnswer(input, results) is { } none) return none;
-        var response = Response(input, results);
+        var response = Response(input, results, limits.NetworkWarningsPerCode);
         if (!Finite(response)) return OutOfRange("The solve met values too large for double precision (the inputs are extreme in magnitude); rescale them.");
         return TypedResults.Ok(response);
     }
@@ -150,7 +150,7 @@ public static class NetworkEndpoints
 
     private static double? FiniteOrNull(double v) => double.IsFinite(v) ? v : null;
 
-    private static NetworkSolveResponse Response(NetworkProblem input, NetworkResult[] results)
+    private static NetworkSolveResponse Response(NetworkProblem input, NetworkResult[] results, int warningsPerCode)
     {
         var u = input.Units;
         var model = input.Model;
@@ -176,11 +176,38 @@ public static class NetworkEndpoints
                 warnings.Add(new("not-converged", $"Load case {c + 1} (demand multiplier {r.DemandMultiplier.ToString("G6", CultureInfo.InvariantCulture)}) did not converge: {r.Status.Reason()}. The last iterate is reported; do not use it for design.", null));
             warnings.AddRange(r.Warnings.Select(w => { var d = w.Describe(); return new NetworkWarningDto(d.Code, d.Message, w.ElementId); }));
             cases[c] = new NetworkCaseDto(r.DemandMultiplier, r.Status.Code(), r.Status.Reason(), r.Converged, r.Iterations, r.StatusPasses,
-                pipes, junctions, pumps, reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply), record, warnings);
+                pipes, junctions, pumps, reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply), record,
+                CapPerCode(warnings, warningsPerCode, c + 1));
         }
         return new NetworkSolveResponse(cases, results.Max(r => r.Iterations), results.All(r => r.Converged), input.Method,
             u.Code, u.FlowUnit, u.HeadUnit, u.IsUs ? "ft/s" : "m/s", u.IsUs ? nu / (Units.Foot * Units.Foot) : nu,
             Validity(input, results), input.Warnings, input.Assumptions);
+    }
+
+    /// <summary>At most <paramref name="cap"/> warnings of each code, in their order; in place of the first one over the
+    /// cap, one summary of that code counting the rest. The list itself when no code exceeds the cap, or cap is 0 or less.</summary>
+    internal static List<NetworkWarningDto> CapPerCode(List<NetworkWarningDto> warnings, int cap, int caseNumber)
+    {
+        if (cap <= 0 || warnings.Count <= cap) return warnings;
+        var total = new Dictionary<string, int>(StringComparer.Ordinal);
+        foreach (var w in warnings) total[w.Code] = total.GetValueOrDefault(w.Code) + 1;
+        if (total.Values.All(n => n <= cap)) return warnings;
+
+        var seen = new Dictionary<string, int>(StringComparer.Ordinal);
+        var kept = new List<NetworkWarningDto>();
+        foreach (var w in warnings)
+        {
+            int k = seen[w.Code] = seen.GetValueOrDefault(w.Code) + 1;
+            if (k <= cap) kept.Add(w);
+            else if (k == cap + 1)
+            {
+                int more = total[w.Code] - cap;
+                kept.Add(new NetworkWarningDto(w.Code, string.Create(CultureInfo.InvariantCulture,
+                    $"{more} more element{(more == 1 ? " in load case " + caseNumber + " has" : "s in load case " + caseNumber + " have")} this warning ({w.Code}), {total[w.Code]} in all; only the first {cap} are listed (FlowSolve:Limits:NetworkWarningsPerCode). The pipe, junction and pump tables carry every value."),
+                    null, more));
+            }
+        }
+        return kept;
     }
 
     /// <summary>Each correlation's range beside the extremes over every pipe and case: Colebrook-White's published range

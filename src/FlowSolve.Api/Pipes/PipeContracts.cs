@@ -15,6 +15,7 @@ internal static class PipeFields
     public const string Roughness = "Absolute roughness e, m (ft with units=us); 0 (smooth) or more and below the diameter. Give this or material, not both.";
     public const string Material = "Pipe material whose tabulated roughness is used instead of roughness, for example cast-iron or commercial-steel; GET /v1/pipes/materials lists them.";
     public const string SurfaceCondition = "With material: new (default) or aged (only where the table gives an aged value).";
+    public const string AgedRoughness = "Optional, used with sensitivities=true: your own aged or condition-assessed absolute roughness, m (ft with units=us); 0 or more, below the diameter. roughnessSpread then runs from the roughness the answer used (the material's value, or roughness) to this value (basis caller-aged), for any material or a given roughness.";
     public const string MinorLossCoefficient = "Sum of the fittings' loss coefficients K (dimensionless), each applied to the pipe's velocity head V^2/(2g); 0 or more, default 0. Give this or fittings, not both.";
     public const string Fittings = "Fittings whose tabulated K values are summed, instead of minorLossCoefficient. JSON: a list of {name, count} (count default 1). Query: name:count pairs separated by commas, for example elbow-90-flanged-regular:3,gate-valve-open:1 (\":count\" may be left out for 1). GET /v1/pipes/fittings lists the names.";
     public const string ElevationChange = "Elevation of the outlet above the inlet, z2 - z1, m (ft with units=us); negative when the pipe falls; default 0.";
@@ -38,6 +39,7 @@ public interface IPipeRequest
     double? Roughness { get; }
     string? Material { get; }
     string? SurfaceCondition { get; }
+    double? AgedRoughness { get; }
     double? MinorLossCoefficient { get; }
     FittingList? Fittings { get; }
     double? ElevationChange { get; }
@@ -67,7 +69,8 @@ public sealed record PipeHeadLossRequest(
     [property: Description(PipeFields.Method)] [FromQuery(Name = "method")] string? Method = null,
     [property: Description(PipeFields.HazenWilliamsC)] [FromQuery(Name = "hazenWilliamsC")] double? HazenWilliamsC = null,
     [property: Description(PipeFields.Units)] [FromQuery(Name = "units")] string? Units = null,
-    [property: Description(PipeFields.FlowUnit)] [FromQuery(Name = "flowUnit")] string? FlowUnit = null) : IPipeRequest;
+    [property: Description(PipeFields.FlowUnit)] [FromQuery(Name = "flowUnit")] string? FlowUnit = null,
+    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null) : IPipeRequest;
 
 /// <summary>Inputs of the flow calculation (query parameters for GET, a JSON body for POST).</summary>
 public sealed record PipeFlowRequest(
@@ -87,7 +90,8 @@ public sealed record PipeFlowRequest(
     [property: Description(PipeFields.HazenWilliamsC)] [FromQuery(Name = "hazenWilliamsC")] double? HazenWilliamsC = null,
     [property: Description(PipeFields.Units)] [FromQuery(Name = "units")] string? Units = null,
     [property: Description(PipeFields.FlowUnit)] [FromQuery(Name = "flowUnit")] string? FlowUnit = null,
-    [property: Description(PipeFields.Trace)] [FromQuery(Name = "trace")] bool? Trace = null) : IPipeRequest;
+    [property: Description(PipeFields.Trace)] [FromQuery(Name = "trace")] bool? Trace = null,
+    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null) : IPipeRequest;
 
 /// <summary>Inputs of the diameter calculation (query parameters for GET, a JSON body for POST).</summary>
 public sealed record PipeDiameterRequest(
@@ -110,7 +114,8 @@ public sealed record PipeDiameterRequest(
     [FromQuery(Name = "hazenWilliamsC")] double? HazenWilliamsC = null,
     [property: Description(PipeFields.Units)] [FromQuery(Name = "units")] string? Units = null,
     [property: Description(PipeFields.FlowUnit)] [FromQuery(Name = "flowUnit")] string? FlowUnit = null,
-    [property: Description(PipeFields.Trace)] [FromQuery(Name = "trace")] bool? Trace = null) : IPipeRequest;
+    [property: Description(PipeFields.Trace)] [FromQuery(Name = "trace")] bool? Trace = null,
+    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null) : IPipeRequest;
 
 /// <summary>A number of identical fittings.</summary>
 /// <param name="Name">Fitting name from GET /v1/pipes/fittings, for example <c>gate-valve-open</c>.</param>

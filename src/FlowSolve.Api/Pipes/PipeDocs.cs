@@ -8,8 +8,10 @@ internal static class PipeDocs
     private const string Common =
         " With sensitivities=true (Darcy-Weisbach only): the answer, velocity, reynolds and frictionFactor against every numeric " +
         "input (flow or headLoss and elevationChange, diameter, length, roughness, minorLossCoefficient, and temperature or " +
-        "kinematicViscosity; the roughness and K also when they came from material or fittings), in SI; with a material whose " +
-        "table gives new and aged roughness, roughnessSpread. Gravity is standard gravity, 9.80665 m/s2. The fluid is given by kinematicViscosity (and density, for pressures), or by " +
+        "kinematicViscosity; the roughness and K also when they came from material or fittings), in SI; with a material (or agedRoughness), roughnessSpread: the answer at both ends of a roughness range, " +
+        "with basis new-to-aged (the table's new and aged values), stated-uncertainty (no aged value in the table: its stated " +
+        "uncertainty of the new value, new (1 - u) to new (1 + u), the scatter of new surfaces, not ageing, with a " +
+        "roughness-spread-table-uncertainty warning) or caller-aged (from the roughness used to the request's agedRoughness). Gravity is standard gravity, 9.80665 m/s2. The fluid is given by kinematicViscosity (and density, for pressures), or by " +
         "temperature for water (IAPWS-IF97, IAPWS 2008); with neither, water at 20 degrees C (68 degrees F) is assumed and said so in " +
         "assumptions. units=us switches every field to ft, ft/s, ft3/s (or gpm with flowUnit=gpm), ft2/s, psi, lb/ft3 and degrees F, " +
         "with exact factors (NIST SP 811). Bad input answers 400 naming each bad field; a well-formed problem without an answer answers " +

@@ -50,6 +50,8 @@ internal sealed class PipeInput
     public double? WaterCelsius { get; init; }
     /// <summary>The material whose table gave the roughness, when one was named.</summary>
     public RoughnessMaterial? Material { get; init; }
+    /// <summary>The caller's aged or condition-assessed roughness in m (agedRoughness), when given; NaN when invalid.</summary>
+    public double? AgedRoughness { get; init; }
 
     public string MethodCode => HazenWilliams ? "hazen-williams" : "darcy-weisbach";
 
@@ -98,6 +100,9 @@ internal sealed class PipeInput
             errors.Add("roughness", "is required (or give material)");
         }
 
+        double? agedRoughness = r.AgedRoughness is null ? null
+            : units.LengthToSi(errors.Required("agedRoughness", r.AgedRoughness, 0, units.Length(MaxRoughness), unit: units.LengthUnit));
+
         double minorLoss = ReadMinorLosses(r, errors, assumptions);
 
         double elevation = 0;
@@ -129,7 +134,7 @@ internal sealed class PipeInput
             Units = units, FlowUnit = flowUnit, Length = length, Roughness = roughness, RoughnessField = roughnessField,
             MinorLossCoefficient = minorLoss, ElevationRise = elevation, Fluid = fluid,
             HazenWilliams = hazenWilliams, HazenWilliamsC = c, Assumptions = assumptions,
-            WaterCelsius = waterCelsius, Material = r.Material is not null && RoughnessTable.TryGet(r.Material, out var m) ? m : null,
+            WaterCelsius = waterCelsius, AgedRoughness = agedRoughness, Material = r.Material is not null && RoughnessTable.TryGet(r.Material, out var m) ? m : null,
         };
     }
 
@@ -143,6 +148,8 @@ internal sealed class PipeInput
         double d = Units.LengthToSi(errors.Required("diameter", value, Units.Length(MinDiameter), Units.Length(MaxDiameter), unit: Units.LengthUnit));
         if (!errors.Has("diameter") && !double.IsNaN(Roughness) && !(Roughness < d))
             errors.Add(RoughnessField, "the roughness must be smaller than the inside diameter");
+        if (!errors.Has("diameter") && AgedRoughness is double aged && !double.IsNaN(aged) && !(aged < d))
+            errors.Add("agedRoughness", "the aged roughness must be smaller than the inside diameter");
         return d;
     }
 

@@ -1,4 +1,6 @@
+using System.Globalization;
 using FlowSolve.Api.Contracts;
+using FlowSolve.Api.Hosting;
 using FlowSolve.Core.Pipes;
 
 namespace FlowSolve.Api.Pipes;
@@ -41,26 +43,62 @@ internal static class PipeSensitivityTables
         return b.Build();
     }
 
-    /// <summary>The answer at the material's new and aged roughness, when the table gives both; <paramref name="answerAt"/>
-    /// returns the answer in the response's unit at a roughness in m, or null when there is none.</summary>
+    /// <summary>The answer at the two ends of a roughness range, in the response's unit; <paramref name="answerAt"/>
+    /// returns the answer at a roughness in m, or null when there is none. The range, in order of preference: the
+    /// caller's agedRoughness (from the roughness the answer used), the table's new and aged values, the table's stated
+    /// uncertainty of the new value. Null when none applies or an end has no answer.</summary>
     public static RoughnessSpreadDto? Spread(string output, PipeInput input, Func<double, double?> answerAt)
     {
-        if (input.Material is not { Aged: double aged } material) return null;
-        if (answerAt(material.New) is not double atNew || answerAt(aged) is not double atAged) return null;
-        return new RoughnessSpreadDto(output, Math.Min(atNew, atAged), Math.Max(atNew, atAged), atNew, atAged,
-            input.Units.Length(material.New), input.Units.Length(aged), material.Name,
-            $"{RoughnessTable.Source} ({RoughnessTable.Provenance})");
+        var u = input.Units;
+        string table = $"{RoughnessTable.Source} ({RoughnessTable.Provenance})";
+        if (input.AgedRoughness is double given)
+        {
+            double start = input.Roughness;
+            if (answerAt(start) is not double atStart || answerAt(given) is not double atGiven) return null;
+            string source = input.Material is { } m0 ? $"new end: {m0.Name}, {table}; aged end: agedRoughness as given" : "roughness and agedRoughness as given";
+            return Make(output, u, start, atStart, given, atGiven, start, given, input.Material?.Name, source, "caller-aged", null);
+        }
+        if (input.Material is not { } material) return null;
+        if (material.Aged is double aged)
+        {
+            if (answerAt(material.New) is not double atNew || answerAt(aged) is not double atAged) return null;
+            return Make(output, u, material.New, atNew, aged, atAged, material.New, aged, material.Name, table, "new-to-aged", null);
+        }
+        if (!material.TryGetUncertaintyBand(out double low, out double high)) return null;
+        if (answerAt(material.New) is not double atTable || answerAt(low) is not double atLow || answerAt(high) is not double atHigh) return null;
+        return Make(output, u, low, atLow, high, atHigh, material.New, null, material.Name, table, "stated-uncertainty", material.UncertaintyPercent) with
+        {
+            AtNew = atTable, AtAged = null,
+        };
+    }
+
+    /// <summary>A spread between roughness a (answer atA) and b (answer atB), in m; answers already in the response's unit.</summary>
+    private static RoughnessSpreadDto Make(string output, UnitSystem u, double a, double atA, double b, double atB,
+        double newEnd, double? agedEnd, string? material, string source, string basis, double? uncertaintyPercent)
+    {
+        bool aLower = a <= b;
+        return new RoughnessSpreadDto(output, Math.Min(atA, atB), Math.Max(atA, atB), atA, atB,
+            u.Length(newEnd), agedEnd is double e ? u.Length(e) : null, material, source, basis,
+            u.Length(aLower ? a : b), u.Length(aLower ? b : a), aLower ? atA : atB, aLower ? atB : atA, uncertaintyPercent);
     }
 
     /// <summary>The warnings that explain a missing sensitivities object or roughness spread.</summary>
     public static IReadOnlyList<WarningDto> With(IReadOnlyList<WarningDto> warnings, params WarningDto?[] more) =>
         [.. warnings, .. more.Where(w => w is not null).Select(w => w!)];
 
-    public static WarningDto? SpreadWarning(PipeInput input, RoughnessSpreadDto? spread) =>
-        spread is not null || input.Material is not { } m ? null
-            : new WarningDto("roughness-spread-unavailable", m.Aged is null
-                ? $"The roughness table gives no aged value for {m.Name}, so no spread from new to aged is reported."
-                : "The answer has no solution at one end of the material's roughness range, so no spread is reported.");
+    /// <summary>Why there is no spread, or what a spread over the table's uncertainty means; null otherwise.</summary>
+    public static WarningDto? SpreadWarning(PipeInput input, RoughnessSpreadDto? spread)
+    {
+        if (spread is { Basis: "stated-uncertainty" })
+            return new WarningDto("roughness-spread-table-uncertainty", string.Create(CultureInfo.InvariantCulture,
+                $"The roughness table gives no aged value for {spread.Material}, so roughnessSpread spans the table's stated uncertainty of the new value (plus or minus {spread.UncertaintyPercent} percent, from memory): the scatter of new surfaces, not an ageing estimate. Give agedRoughness for an aged or condition-assessed value."));
+        if (spread is not null || (input.Material is null && input.AgedRoughness is null)) return null;
+        if (input.AgedRoughness is null && input.Material is { } m && m.Aged is null && !m.TryGetUncertaintyBand(out _, out _))
+            return new WarningDto("roughness-spread-unavailable",
+                $"The roughness table gives neither an aged value nor an uncertainty for {m.Name}, so no spread is reported; give agedRoughness for one.");
+        return new WarningDto("roughness-spread-unavailable",
+            "The answer has no solution at one end of the roughness range, so no spread is reported.");
+    }
 
     public static readonly WarningDto AtRegimeLimit = new("sensitivities-unavailable",
         "The answer sits on a jump of the friction factor at a regime limit, where no derivative exists; sensitivities are left out.");

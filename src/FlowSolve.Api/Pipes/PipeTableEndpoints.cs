@@ -59,7 +59,11 @@ public sealed record PipeSizesResponse(string Units, IReadOnlyList<PipeSizeTable
 /// <param name="New">Absolute roughness of new pipe, m (ft with units=us).</param>
 /// <param name="Aged">Absolute roughness of aged pipe, m (ft with units=us); absent where the source gives none.</param>
 /// <param name="AgedDescription">The aged surface as the source describes it; absent where none.</param>
-public sealed record RoughnessMaterialDto(string Name, string Description, double New, double? Aged, string? AgedDescription);
+/// <param name="UncertaintyPercent">The uncertainty the source states beside the new value, percent (recalled, from memory);
+/// absent where it states none. The scatter of new surfaces, not ageing; pipe calculations with sensitivities=true use it
+/// for roughnessSpread when there is no aged value.</param>
+public sealed record RoughnessMaterialDto(string Name, string Description, double New, double? Aged, string? AgedDescription,
+    double? UncertaintyPercent);
 
 /// <summary>The roughness table.</summary>
 /// <param name="Source">The handbook the values come from.</param>
@@ -132,7 +136,8 @@ public static class PipeTableEndpoints
 
         var materials = RoughnessTable.All
             .Where(m => request.Name is null || string.Equals(m.Name, request.Name, StringComparison.OrdinalIgnoreCase))
-            .Select(m => new RoughnessMaterialDto(m.Name, m.Description, u.Length(m.New), m.Aged is double a ? u.Length(a) : null, m.AgedDescription))
+            .Select(m => new RoughnessMaterialDto(m.Name, m.Description, u.Length(m.New), m.Aged is double a ? u.Length(a) : null, m.AgedDescription,
+                m.UncertaintyPercent))
             .ToArray();
         return TypedResults.Ok(new PipeMaterialsResponse(RoughnessTable.Source, RoughnessTable.Provenance, u.Code, materials));
     }

@@ -16,7 +16,9 @@ public static class PumpDocs
         "Units: SI by default (m3/s, m, Pa, kg/m3, m2/s, W); units=us gives ft3/s (or US gal/min with flowUnit=gpm), ft, psi, " +
         "lb/ft3, ft2/s, degrees F and hp, for inputs and outputs alike. Fluid: water at a temperature, or kinematicViscosity " +
         "and density; water at 20 degrees C when neither is given (echoed in assumptions). A pump set that cannot reach the " +
-        "static head, or curves that never meet, answer 422 with the figures (headShortfall, closestApproach and its flow). " +
+        "static head, or curves that never meet, answer 422 (RFC 9457 problem details: status is the numeric HTTP status) with " +
+        "dutyPointStatus (shut-off-below-static-head, curves-do-not-meet, or not-finite) and the figures (headShortfall, " +
+        "closestApproach and its flow). " +
         "Results are engineering estimates to be checked by a qualified engineer; local codes and licensed practice govern.";
 
     public const string DutyPoint = "Duty point of identical pumps in parallel or series on a system curve. " + SensitivityNote + Common;

@@ -20,8 +20,10 @@ public static class PumpEndpoints
     public static IEndpointRouteBuilder MapPumpEndpoints(this IEndpointRouteBuilder routes)
     {
         var group = routes.MapGroup("/v1/pumps").WithTags("Pumps");
+        // The duty point answers 422 (with dutyPointStatus) for a well-formed problem without an answer.
+        var duty = group.MapGroup("").ProducesProblem(StatusCodes.Status422UnprocessableEntity);
 
-        group.MapGet("/duty-point", ([AsParameters] DutyPointQuery query,
+        duty.MapGet("/duty-point", ([AsParameters] DutyPointQuery query,
                 [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => DutyPointFromQuery(query, sensitivities == true))
             .WithName("GetPumpDutyPoint")
             .WithSummary("Pump duty point, compact form (query parameters)")
@@ -29,7 +31,7 @@ public static class PumpEndpoints
             .WithQueryExample(("c0", "40"), ("c1", "0"), ("c2", "-5000"), ("staticHead", "15"), ("resistance", "3000"))
             .AsCalculation("pumps/duty-point", "flow");
 
-        group.MapPost("/duty-point", (DutyPointRequest request,
+        duty.MapPost("/duty-point", (DutyPointRequest request,
                 [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => CalculateDutyPoint(request, sensitivities == true))
             .WithName("PostPumpDutyPoint")
             .WithSummary("Pump duty point (JSON body)")
@@ -211,7 +213,9 @@ public static class PumpEndpoints
     {
         var extensions = new Dictionary<string, object?>
         {
-            ["status"] = r.Status.Code(),
+            // Not "status": RFC 9457's status member is the numeric HTTP status, and an extension of that name would
+            // write the key a second time. The network endpoint's networkStatus is the model.
+            ["dutyPointStatus"] = r.Status.Code(),
             ["shutOffHead"] = Finite(u.Head(r.ShutOffHead)),
             ["staticHead"] = Finite(u.Head(r.StaticHead)),
             ["headShortfall"] = Finite(u.Head(r.HeadShortfall)),
@@ -235,7 +239,7 @@ public static class PumpEndpoints
 
     private static ProblemHttpResult OutOfRange() => ProblemResults.NoAnswer("The duty point lies outside the range of the arithmetic.",
         "The solve met values too large for double precision (the inputs are extreme in magnitude); rescale them, for example with another flow unit.",
-        new Dictionary<string, object?> { ["status"] = "not-finite" });
+        new Dictionary<string, object?> { ["dutyPointStatus"] = "not-finite" });
 
     /// <summary>null for a value JSON cannot carry (a ratio over a zero best-efficiency flow, for instance).</summary>
     private static double? Finite(double? v) => v is double d && double.IsFinite(d) ? d : null;

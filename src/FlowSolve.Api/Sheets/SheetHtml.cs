@@ -183,9 +183,17 @@ public static class SheetHtml
         }
         if (sheet.RoughnessSpread is { } r)
             sb.Append("<p id=\"roughness-spread\">").Append(E(string.Create(C,
-                $"Across the roughness of {r.Material} from new ({Fmt(r.NewRoughness)}) to aged ({Fmt(r.AgedRoughness)}), {r.Output} ranges from {Fmt(r.Low)} to {Fmt(r.High)} (in this sheet's units). Roughness: {r.Source}.")))
+                $"Across the roughness {SpreadRange(r)}, {r.Output} ranges from {Fmt(r.Low)} to {Fmt(r.High)} (in this sheet's units). Roughness: {r.Source}.")))
               .Append("</p>\n");
     }
+
+    private static string SpreadRange(Contracts.RoughnessSpreadDto r) => r.Basis switch
+    {
+        "stated-uncertainty" => string.Create(C,
+            $"of {r.Material} within the table's stated uncertainty of the new value, plus or minus {r.UncertaintyPercent} percent ({Fmt(r.LowRoughness)} to {Fmt(r.HighRoughness)}; the scatter of new surfaces, not ageing)"),
+        "caller-aged" => $"from the value used ({Fmt(r.NewRoughness)}) to the given agedRoughness ({Fmt(r.AgedRoughness ?? r.HighRoughness)})",
+        _ => $"of {r.Material} from new ({Fmt(r.NewRoughness)}) to aged ({Fmt(r.AgedRoughness ?? r.HighRoughness)})",
+    };
 
     private static void Rows(StringBuilder sb, List<SheetRow> rows, string head, bool highlightFirst = false)
     {

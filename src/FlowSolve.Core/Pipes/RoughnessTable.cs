@@ -18,6 +18,27 @@ public enum SurfaceCondition
 /// <param name="AgedDescription">The aged surface as the source describes it, or null.</param>
 public readonly record struct RoughnessMaterial(string Name, string Description, double New, double? Aged, string? AgedDescription)
 {
+    /// <summary>The uncertainty the source states beside the new value, in percent (for example 30 for plus or minus
+    /// 30 percent); null where it states none. It describes the scatter of new surfaces of the kind, not ageing.</summary>
+    public double? UncertaintyPercent { get; init; }
+
+    /// <summary>The new value less and plus its stated uncertainty, New (1 - u) to New (1 + u), in m; false when the
+    /// source states no uncertainty (or it is zero).</summary>
+    /// <param name="low">New (1 - u), never below 0.</param>
+    /// <param name="high">New (1 + u).</param>
+    public bool TryGetUncertaintyBand(out double low, out double high)
+    {
+        if (UncertaintyPercent is not (double percent and > 0) || !(New > 0))
+        {
+            low = high = double.NaN;
+            return false;
+        }
+        double u = percent / 100;
+        low = Math.Max(0, New * (1 - u));
+        high = New * (1 + u);
+        return true;
+    }
+
     /// <summary>The roughness for a condition; false when the source gives no aged value.</summary>
     /// <param name="condition">New or aged.</param>
     /// <param name="roughness">Absolute roughness in m.</param>
@@ -82,7 +103,10 @@ public static class RoughnessTable
         {
             // The file holds millimetres.
             list.Add(new RoughnessMaterial(m.String("name"), m.String("description"),
-                m.GetProperty("new").GetDouble() * 1e-3, m.OptionalDouble("aged") * 1e-3, m.OptionalString("agedDescription")));
+                m.GetProperty("new").GetDouble() * 1e-3, m.OptionalDouble("aged") * 1e-3, m.OptionalString("agedDescription"))
+            {
+                UncertaintyPercent = m.OptionalDouble("uncertaintyPercent"),
+            });
         }
         return (root.String("source"), root.String("provenance"), list);
     }

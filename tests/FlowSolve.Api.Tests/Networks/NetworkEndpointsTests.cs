@@ -1,3 +1,4 @@
+using System.Globalization;
 using System.Net.Http.Json;
 using System.Text.Json;
 using System.Text.Json.Nodes;
@@ -423,6 +424,96 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
         Assert.Equal(10, json.RootElement.GetProperty("maximum").GetInt32());
         Assert.Equal(14, json.RootElement.GetProperty("given").GetInt32()); // 13 pipes and 1 pump in the sample
         Assert.Contains("FlowSolve:Limits:NetworkMaxPipes", json.RootElement.GetProperty("detail").GetString());
+    }
+
+    /// <summary>An n x n grid of junctions 100 m apart fed from one reservoir at a corner, with small demands so that
+    /// nearly every pipe runs below 0.6 m/s (invented data for the warning cap, not a design).</summary>
+    private static JsonObject SlowGrid(int n)
+    {
+        var junctions = new JsonArray();
+        var pipes = new JsonArray();
+        for (int i = 0; i < n; i++)
+            for (int j = 0; j < n; j++)
+            {
+                junctions.Add(new JsonObject { ["id"] = $"j{i}-{j}", ["elevation"] = 10.0, ["demand"] = 2e-4 });
+                if (i + 1 < n) pipes.Add(new JsonObject { ["id"] = $"v{i}-{j}", ["from"] = $"j{i}-{j}", ["to"] = $"j{i + 1}-{j}", ["length"] = 100.0, ["diameter"] = 0.15, ["roughness"] = 0.0001 });
+                if (j + 1 < n) pipes.Add(new JsonObject { ["id"] = $"h{i}-{j}", ["from"] = $"j{i}-{j}", ["to"] = $"j{i}-{j + 1}", ["length"] = 100.0, ["diameter"] = 0.15, ["roughness"] = 0.0001 });
+            }
+        pipes.Add(new JsonObject { ["id"] = "supply", ["from"] = "source", ["to"] = "j0-0", ["length"] = 50.0, ["diameter"] = 0.3, ["roughness"] = 0.0001 });
+        return new JsonObject
+        {
+            ["junctions"] = junctions, ["pipes"] = pipes,
+            ["reservoirs"] = new JsonArray(new JsonObject { ["id"] = "source", ["head"] = 60.0 }),
+            ["demandMultipliers"] = new JsonArray(1.0, 3.0),
+            ["kinematicViscosity"] = Water,
+        };
+    }
+
+    private static async Task<JsonElement> PostWith(string? warningsPerCode, JsonNode body)
+    {
+        using var factory = new WebApplicationFactory<Program>().WithWebHostBuilder(b =>
+        {
+            if (warningsPerCode is not null) b.UseSetting("FlowSolve:Limits:NetworkWarningsPerCode", warningsPerCode);
+        });
+        using var client = factory.CreateClient();
+        using var response = await client.PostAsync(Route, new StringContent(body.ToJsonString(), System.Text.Encoding.UTF8, "application/json"),
+            TestContext.Current.CancellationToken);
+        Assert.Equal(200, (int)response.StatusCode);
+        using var json = JsonDocument.Parse(await response.Content.ReadAsStringAsync(TestContext.Current.CancellationToken));
+        return json.RootElement.Clone();
+    }
+
+    [Theory]
+    [InlineData(null, 50)]   // the default
+    [InlineData("7", 7)]
+    public async Task Solve_ManyWarningsOfOneCode_CappedPerCaseWithASummaryThatCountsTheRest(string? setting, int cap)
+    {
+        // The same network answered with the cap and without it (0 turns it off): the capped list is the uncapped one
+        // with each code's warnings after the first cap replaced by one summary whose moreElements counts them.
+        var grid = SlowGrid(10);   // 100 junctions, 181 pipes
+        var capped = await PostWith(setting, grid);
+        var full = await PostWith("0", grid);
+        for (int c = 0; c < 2; c++)
+        {
+            var a = capped.GetProperty("cases")[c];
+            var b = full.GetProperty("cases")[c];
+            // Nothing is lost: the element tables are the same.
+            Assert.Equal(b.GetProperty("pipes").GetRawText(), a.GetProperty("pipes").GetRawText());
+            Assert.Equal(b.GetProperty("junctions").GetRawText(), a.GetProperty("junctions").GetRawText());
+
+            var all = b.GetProperty("warnings").EnumerateArray().ToArray();
+            var listed = a.GetProperty("warnings").EnumerateArray().ToArray();
+            Assert.All(all, w => Assert.False(w.TryGetProperty("moreElements", out var m) && m.ValueKind != JsonValueKind.Null));
+            bool anyOver = false;
+            foreach (var group in all.GroupBy(w => w.GetProperty("code").GetString()!))
+            {
+                var mine = listed.Where(w => w.GetProperty("code").GetString() == group.Key).ToArray();
+                int n = group.Count();
+                if (n <= cap)
+                {
+                    Assert.Equal(group.Select(w => w.GetRawText()), mine.Select(w => w.GetRawText()));
+                    continue;
+                }
+                anyOver = true;
+                Assert.Equal(cap + 1, mine.Length);
+                Assert.Equal(group.Take(cap).Select(w => w.GetRawText()), mine.Take(cap).Select(w => w.GetRawText()));
+                var summary = mine[^1];
+                Assert.Equal(n - cap, summary.GetProperty("moreElements").GetInt32());
+                Assert.True(!summary.TryGetProperty("element", out var e) || e.ValueKind == JsonValueKind.Null);
+                Assert.Contains((n - cap).ToString(CultureInfo.InvariantCulture) + " more elements", summary.GetProperty("message").GetString());
+            }
+            Assert.True(anyOver, "the grid should give more low-velocity warnings than the cap");
+
+            // The count against the element table: every open pipe slower than 0.6 m/s (the design range, common
+            // practice) has a velocity-below-design-range warning, listed or counted in the summary.
+            int slow = a.GetProperty("pipes").EnumerateArray().Count(p =>
+                p.GetProperty("status").GetString() == "open" && Math.Abs(p.GetProperty("velocity").GetDouble()) < 0.6);
+            var low = listed.Where(w => w.GetProperty("code").GetString() == "velocity-below-design-range").ToArray();
+            int counted = low.Count(w => w.TryGetProperty("element", out var id) && id.ValueKind == JsonValueKind.String)
+                + low.Sum(w => w.TryGetProperty("moreElements", out var m) && m.ValueKind == JsonValueKind.Number ? m.GetInt32() : 0);
+            Assert.Equal(slow, counted);
+            Assert.True(slow > cap);
+        }
     }
 
     [Fact]

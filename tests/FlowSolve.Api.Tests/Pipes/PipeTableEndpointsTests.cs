@@ -48,6 +48,18 @@ public sealed class PipeTableEndpointsTests(ApiFixture api)
     }
 
     [Fact]
+    public async Task Materials_ListTheStatedUncertainty()
+    {
+        // White, Fluid Mechanics, Table 6.1 (from memory): commercial steel 0.046 mm, plus or minus 30 percent; smooth
+        // glass has no stated uncertainty.
+        var all = (await api.GetJson("/v1/pipes/materials")).Body.GetProperty("materials").EnumerateArray().ToArray();
+        var steel = all.Single(m => m.GetProperty("name").GetString() == "commercial-steel");
+        Assert.Equal(30, steel.GetProperty("uncertaintyPercent").GetDouble());
+        var glass = all.Single(m => m.GetProperty("name").GetString() == "glass");
+        Assert.True(!glass.TryGetProperty("uncertaintyPercent", out var g) || g.ValueKind == System.Text.Json.JsonValueKind.Null);
+    }
+
+    [Fact]
     public async Task Fittings_ListsNamesAndCoefficients()
     {
         var r = await api.GetJson("/v1/pipes/fittings");

@@ -266,11 +266,45 @@ public sealed class PumpEndpointsTests(ApiFixture api)
         var r = await api.PostJson("/v1/pumps/duty-point", new { pump = Pump(10, 0, -5000), system = new { staticHead = 15.0, resistance = 3000.0 } });
         Assert.Equal(422, r.Status);
         Assert.Equal("application/problem+json", r.ContentType);
-        Assert.Equal("shut-off-below-static-head", r.Body.GetProperty("status").GetString());
+        Assert.Equal("shut-off-below-static-head", r.Body.GetProperty("dutyPointStatus").GetString());
         Assert.Equal(5.0, r.Body.GetProperty("headShortfall").GetDouble(), 1e-12);   // 15 - 10
         Assert.Equal(10.0, r.Body.GetProperty("shutOffHead").GetDouble(), 1e-12);
         Assert.Equal(-5.0, r.Body.GetProperty("closestApproach").GetDouble(), 1e-12); // at zero flow, where the gap is smallest
         Assert.Contains("5 m below", r.Body.GetProperty("detail").GetString());
+    }
+
+    /// <summary>Every property name of the body's top-level object, in order, read token by token so that a key written
+    /// twice is seen twice (JsonDocument keeps both but GetProperty returns only one).</summary>
+    private static List<string> TopLevelNames(byte[] utf8)
+    {
+        var names = new List<string>();
+        var reader = new Utf8JsonReader(utf8);
+        while (reader.Read())
+            if (reader.TokenType == JsonTokenType.PropertyName && reader.CurrentDepth == 1) names.Add(reader.GetString()!);
+        return names;
+    }
+
+    [Theory]
+    [InlineData(false, """{"pump": {"coefficients": [10.0, 0.0, -5000.0]}, "system": {"staticHead": 15.0, "resistance": 3000.0}}""", "shut-off-below-static-head")]
+    [InlineData(false, """{"pump": {"coefficients": [40.0, 0.0, -5000.0]}, "system": {"staticHead": -50.0, "resistance": 100.0}}""", "curves-do-not-meet")]
+    [InlineData(true, "c0=10&c1=0&c2=-5000&staticHead=15&resistance=3000", "shut-off-below-static-head")]
+    public async Task DutyPoint_422_HasNumericStatusOnceAndTheCodeInDutyPointStatus(bool get, string input, string code)
+    {
+        // RFC 9457, section 3.1.2: "status" is a JSON number, the HTTP status code; RFC 8259, section 4: names within an
+        // object should be unique.
+        using var response = get
+            ? await api.Client.GetAsync("/v1/pumps/duty-point?" + input, TestContext.Current.CancellationToken)
+            : await api.Client.PostAsync("/v1/pumps/duty-point", new StringContent(input, Encoding.UTF8, "application/json"), TestContext.Current.CancellationToken);
+        Assert.Equal(422, (int)response.StatusCode);
+        Assert.Equal("application/problem+json", response.Content.Headers.ContentType?.MediaType);
+        byte[] utf8 = await response.Content.ReadAsByteArrayAsync(TestContext.Current.CancellationToken);
+        var names = TopLevelNames(utf8);
+        Assert.Equal(names.Count, names.Distinct(StringComparer.Ordinal).Count());
+        using var doc = JsonDocument.Parse(utf8);
+        var status = doc.RootElement.GetProperty("status");
+        Assert.Equal(JsonValueKind.Number, status.ValueKind);
+        Assert.Equal((int)response.StatusCode, status.GetInt32());
+        Assert.Equal(code, doc.RootElement.GetProperty("dutyPointStatus").GetString());
     }
 
     [Fact]
@@ -288,7 +322,7 @@ public sealed class PumpEndpointsTests(ApiFixture api)
         // -50 + 100 Q0^2 = -49.2 m, so the pump stays 49.2 m above it; the gap shrinks all the way to Q0 (closed form).
         var r = await api.PostJson("/v1/pumps/duty-point", new { pump = Pump(40, 0, -5000), system = new { staticHead = -50.0, resistance = 100.0 } });
         Assert.Equal(422, r.Status);
-        Assert.Equal("curves-do-not-meet", r.Body.GetProperty("status").GetString());
+        Assert.Equal("curves-do-not-meet", r.Body.GetProperty("dutyPointStatus").GetString());
         double q0 = Math.Sqrt(40.0 / 5000.0);
         Assert.Equal(50 - 100 * q0 * q0, r.Body.GetProperty("closestApproach").GetDouble(), 1e-9);
         AssertRelative(q0, r.Body.GetProperty("closestApproachFlow").GetDouble(), 1e-9);

@@ -6,7 +6,8 @@ namespace FlowSolve.Api.Tests.Sensitivities;
 /// <summary>
 /// sensitivities=true on every calculation: each entry against a central difference of the same calculation through
 /// the service (<see cref="SensitivityHarness"/>), over several cases per calculation; the elasticities as
-/// derivative x input / output; the roughness spread against direct calls at the table's new and aged roughness.
+/// derivative x input / output; the roughness spread against direct calls at the ends of its range (new and aged, the
+/// table's stated uncertainty, or the caller's agedRoughness).
 /// </summary>
 public sealed class SensitivityEndpointsTests(ApiFixture api)
 {
@@ -153,16 +154,133 @@ public sealed class SensitivityEndpointsTests(ApiFixture api)
         }
         Assert.Equal(Math.Min(spread.GetProperty("atNew").GetDouble(), spread.GetProperty("atAged").GetDouble()), low);
         Assert.Equal(Math.Max(spread.GetProperty("atNew").GetDouble(), spread.GetProperty("atAged").GetDouble()), high);
+        Assert.Equal("new-to-aged", spread.GetProperty("basis").GetString());
+        Assert.Equal(0.046e-3, spread.GetProperty("lowRoughness").GetDouble(), 1e-15);
+        Assert.Equal(2.0e-3, spread.GetProperty("highRoughness").GetDouble(), 1e-15);
     }
 
     [Fact]
-    public async Task RoughnessSpread_MaterialWithoutAgedValue_IsOmittedWithAWarning()
+    public async Task RoughnessSpread_MaterialWithNeitherAgedValueNorUncertainty_IsOmittedWithAWarning()
     {
-        var (status, _, body) = await api.GetJson("/v1/pipes/head-loss?flow=0.05&diameter=0.2&length=500&material=cast-iron&sensitivities=true");
+        // Smooth glass: the table states neither an aged value nor an uncertainty (White, Table 6.1, from memory).
+        var (status, _, body) = await api.GetJson("/v1/pipes/head-loss?flow=0.05&diameter=0.2&length=500&material=glass&sensitivities=true");
         Assert.Equal(200, status);
         Assert.False(body.TryGetProperty("roughnessSpread", out _));
         Assert.True(body.TryGetProperty("sensitivities", out _));
         Assert.Contains(body.GetProperty("warnings").EnumerateArray(), w => w.GetProperty("code").GetString() == "roughness-spread-unavailable");
+    }
+
+    private static string Q(double x) => x.ToString("R", System.Globalization.CultureInfo.InvariantCulture);
+
+    /// <summary>The same request with the roughness given directly instead of by material (and agedRoughness dropped).</summary>
+    private async Task<double> Direct(string url, string query, string output, double roughness)
+    {
+        string baseQuery = string.Join("&", query.Split('&').Where(p =>
+            !p.StartsWith("material=") && !p.StartsWith("surfaceCondition=") && !p.StartsWith("roughness=") && !p.StartsWith("agedRoughness=")));
+        var (status, _, direct) = await api.GetJson(url + "?" + baseQuery + "&roughness=" + Q(roughness));
+        Assert.Equal(200, status);
+        return direct.GetProperty(output).GetDouble();
+    }
+
+    private static void AssertBand(JsonElement body, JsonElement spread, string output, double atLow, double atHigh)
+    {
+        double low = spread.GetProperty("low").GetDouble(), high = spread.GetProperty("high").GetDouble();
+        double answer = body.GetProperty(output).GetDouble();
+        Assert.Equal(atLow, spread.GetProperty("atLowRoughness").GetDouble(), Math.Abs(atLow) * 1e-12);
+        Assert.Equal(atHigh, spread.GetProperty("atHighRoughness").GetDouble(), Math.Abs(atHigh) * 1e-12);
+        Assert.Equal(Math.Min(atLow, atHigh), low, Math.Abs(low) * 1e-12);
+        Assert.Equal(Math.Max(atLow, atHigh), high, Math.Abs(high) * 1e-12);
+        // The answer is monotonic in the roughness, so it lies inside the band whose end or interior it was computed at.
+        Assert.True(low <= answer && answer <= high, $"{low} <= {answer} <= {high}");
+    }
+
+    [Theory]
+    // White, Fluid Mechanics, Table 6.1 (from memory): cast iron, new, 0.26 mm plus or minus 50 percent; wrought iron,
+    // new, 0.046 mm plus or minus 20 percent; concrete, rough, 2.0 mm plus or minus 50 percent.
+    [InlineData("/v1/pipes/head-loss", "flow=0.05&diameter=0.2&length=500&material=cast-iron", "headLoss", 0.26e-3, 50.0)]
+    [InlineData("/v1/pipes/flow", "headLoss=20&diameter=0.15&length=800&material=wrought-iron", "flow", 0.046e-3, 20.0)]
+    [InlineData("/v1/pipes/diameter", "flow=0.03&headLoss=6&length=400&material=cast-iron", "diameter", 0.26e-3, 50.0)]
+    [InlineData("/v1/pipes/flow", "headLoss=3&diameter=0.6&length=200&material=rough-concrete", "flow", 2.0e-3, 50.0)]
+    public async Task RoughnessSpread_NoAgedValue_SpansTheTablesStatedUncertainty(string url, string query, string output,
+        double tableNew, double percent)
+    {
+        var (status, _, body) = await api.GetJson(url + "?" + query + "&sensitivities=true");
+        Assert.Equal(200, status);
+        var spread = body.GetProperty("roughnessSpread");
+        Assert.Equal("stated-uncertainty", spread.GetProperty("basis").GetString());
+        Assert.Equal(percent, spread.GetProperty("uncertaintyPercent").GetDouble());
+        double eLow = tableNew * (1 - percent / 100), eHigh = tableNew * (1 + percent / 100);
+        Assert.Equal(eLow, spread.GetProperty("lowRoughness").GetDouble(), 1e-15);
+        Assert.Equal(eHigh, spread.GetProperty("highRoughness").GetDouble(), 1e-15);
+        Assert.Equal(tableNew, spread.GetProperty("newRoughness").GetDouble(), 1e-15);
+        Assert.True(!spread.TryGetProperty("agedRoughness", out var aged) || aged.ValueKind == JsonValueKind.Null);
+        double atNew = await Direct(url, query, output, tableNew);
+        Assert.Equal(atNew, spread.GetProperty("atNew").GetDouble(), Math.Abs(atNew) * 1e-12);
+        AssertBand(body, spread, output, await Direct(url, query, output, eLow), await Direct(url, query, output, eHigh));
+        Assert.Contains(body.GetProperty("warnings").EnumerateArray(), w => w.GetProperty("code").GetString() == "roughness-spread-table-uncertainty");
+    }
+
+    [Theory]
+    [InlineData("/v1/pipes/head-loss", "flow=0.05&diameter=0.2&length=500&material=cast-iron&agedRoughness=0.0015", "headLoss", 0.26e-3, 1.5e-3)]
+    [InlineData("/v1/pipes/flow", "headLoss=20&diameter=0.15&length=800&roughness=0.0001&agedRoughness=0.0008", "flow", 1e-4, 8e-4)]
+    [InlineData("/v1/pipes/diameter", "flow=0.03&headLoss=6&length=400&material=commercial-steel&agedRoughness=0.0005", "diameter", 0.046e-3, 5e-4)]
+    [InlineData("/v1/pipes/head-loss", "flow=0.05&diameter=0.2&length=500&material=glass&agedRoughness=0.00002", "headLoss", 0.0, 2e-5)]
+    public async Task RoughnessSpread_CallerAged_RunsFromTheRoughnessUsedToTheGivenValue(string url, string query, string output,
+        double start, double aged)
+    {
+        // The start is the roughness the answer used: the table's new value (cast iron 0.26 mm, commercial steel
+        // 0.046 mm, glass 0: White, Table 6.1, from memory) or the given roughness.
+        var (status, _, body) = await api.GetJson(url + "?" + query + "&sensitivities=true");
+        Assert.Equal(200, status);
+        var spread = body.GetProperty("roughnessSpread");
+        Assert.Equal("caller-aged", spread.GetProperty("basis").GetString());
+        Assert.Equal(start, spread.GetProperty("newRoughness").GetDouble(), 1e-15);
+        Assert.Equal(aged, spread.GetProperty("agedRoughness").GetDouble(), 1e-15);
+        double atStart = await Direct(url, query, output, start), atAged = await Direct(url, query, output, aged);
+        Assert.Equal(atStart, spread.GetProperty("atNew").GetDouble(), Math.Abs(atStart) * 1e-12);
+        Assert.Equal(atAged, spread.GetProperty("atAged").GetDouble(), Math.Abs(atAged) * 1e-12);
+        AssertBand(body, spread, output, atStart, atAged);
+        Assert.DoesNotContain(body.GetProperty("warnings").EnumerateArray(), w => w.GetProperty("code").GetString()!.StartsWith("roughness-spread"));
+    }
+
+    [Fact]
+    public async Task RoughnessSpread_CallerAgedInUsUnits_IsInFeet()
+    {
+        // The same pipe in SI and in US units (exact foot, NIST SP 811): the aged end converts, the answers agree.
+        const double ft = 0.3048;
+        var si = await api.GetJson("/v1/pipes/head-loss?flow=0.05&diameter=0.2&length=500&material=cast-iron&agedRoughness=0.0015&sensitivities=true");
+        var us = await api.GetJson(FormattableString.Invariant(
+            $"/v1/pipes/head-loss?units=us&flow={0.05 / (ft * ft * ft):R}&diameter={0.2 / ft:R}&length={500 / ft:R}&material=cast-iron&agedRoughness={0.0015 / ft:R}&sensitivities=true"));
+        Assert.Equal(200, us.Status);
+        var a = si.Body.GetProperty("roughnessSpread");
+        var b = us.Body.GetProperty("roughnessSpread");
+        Assert.Equal(0.0015 / ft, b.GetProperty("agedRoughness").GetDouble(), 1e-12);
+        Assert.Equal(a.GetProperty("atAged").GetDouble() / ft, b.GetProperty("atAged").GetDouble(), a.GetProperty("atAged").GetDouble() / ft * 1e-9);
+    }
+
+    [Theory]
+    [InlineData("/v1/pipes/head-loss?flow=0.05&diameter=0.2&length=500&material=cast-iron&agedRoughness=NaN")]
+    [InlineData("/v1/pipes/head-loss?flow=0.05&diameter=0.2&length=500&material=cast-iron&agedRoughness=Infinity")]
+    [InlineData("/v1/pipes/head-loss?flow=0.05&diameter=0.2&length=500&material=cast-iron&agedRoughness=1e309")]
+    [InlineData("/v1/pipes/flow?headLoss=20&diameter=0.15&length=800&roughness=0.0001&agedRoughness=-0.001")]
+    [InlineData("/v1/pipes/flow?headLoss=20&diameter=0.15&length=800&roughness=0.0001&agedRoughness=0.15")]
+    [InlineData("/v1/pipes/diameter?flow=0.03&headLoss=6&length=400&material=cast-iron&agedRoughness=2")]
+    [InlineData("/v1/pipes/diameter?flow=0.03&headLoss=6&length=400&material=cast-iron&agedRoughness=abc")]
+    public async Task AgedRoughness_Invalid_Is400NamingTheField(string url)
+    {
+        var (status, type, body) = await api.GetJson(url + "&sensitivities=true");
+        Assert.Equal(400, status);
+        Assert.Equal("application/problem+json", type);
+        Assert.True(body.GetProperty("errors").TryGetProperty("agedRoughness", out _), body.ToString());
+    }
+
+    [Fact]
+    public async Task AgedRoughness_NegativeInJsonBody_Is400NamingTheField()
+    {
+        var (status, _, body) = await api.PostRaw("/v1/pipes/head-loss?sensitivities=true",
+            """{"flow": 0.05, "diameter": 0.2, "length": 500, "material": "cast-iron", "agedRoughness": -1e-4}""", "application/json");
+        Assert.Equal(400, status);
+        Assert.True(body.GetProperty("errors").TryGetProperty("agedRoughness", out _), body.ToString());
     }
 
     [Theory]

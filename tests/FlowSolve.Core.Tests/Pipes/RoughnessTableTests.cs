@@ -38,4 +38,31 @@ public sealed class RoughnessTableTests
         Assert.Equal("material", ex.ParamName);
         Assert.Contains("unobtainium", ex.Message);
     }
+
+    [Theory]
+    // White, Fluid Mechanics, Table 6.1: the uncertainty stated beside each recommended value, in percent (from memory).
+    [InlineData("commercial-steel", 0.046, 30.0)]
+    [InlineData("cast-iron", 0.26, 50.0)]
+    [InlineData("wrought-iron", 0.046, 20.0)]
+    [InlineData("riveted-steel", 3.0, 70.0)]
+    public void TryGetUncertaintyBand_IsNewTimesOneMinusAndPlusU(string name, double newMillimetres, double percent)
+    {
+        Assert.True(RoughnessTable.TryGet(name, out var material));
+        Assert.Equal(percent, material.UncertaintyPercent);
+        Assert.True(material.TryGetUncertaintyBand(out double low, out double high));
+        Assert.Equal(newMillimetres * 1e-3 * (1 - percent / 100), low, 1e-15);
+        Assert.Equal(newMillimetres * 1e-3 * (1 + percent / 100), high, 1e-15);
+    }
+
+    [Fact]
+    public void TryGetUncertaintyBand_EveryMaterialButSmoothGlass_HasOne()
+    {
+        // The table states an uncertainty for every surface but smooth glass (White, Table 6.1, from memory).
+        foreach (var m in RoughnessTable.All)
+        {
+            bool has = m.TryGetUncertaintyBand(out double low, out double high);
+            Assert.Equal(m.Name != "glass", has);
+            if (has) Assert.True(0 <= low && low < m.New && m.New < high, m.Name);
+        }
+    }
 }

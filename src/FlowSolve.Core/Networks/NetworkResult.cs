@@ -92,6 +92,11 @@ public enum NetworkStatus
 
     /// <summary>The head equations could not be solved (a non-finite value, or a failed factorisation).</summary>
     LinearSolveFailed,
+
+    /// <summary>Stopped: an iterate's flows reached Reynolds numbers beyond the friction relations' range
+    /// (<see cref="Friction.DarcyFriction.MaximumReynolds"/>), so there is no answer within it (demands absurd for the pipe
+    /// sizes and viscosity, most often a misplaced unit or exponent). The last iterate is reported.</summary>
+    FlowsOutOfRange,
 }
 
 /// <summary>The state of one link (pipe or pump) in a result.</summary>
@@ -123,6 +128,7 @@ public static class NetworkStatusExtensions
         NetworkStatus.IterationCapReached => "iteration-cap-reached",
         NetworkStatus.StatusesNotSettled => "statuses-not-settled",
         NetworkStatus.LinearSolveFailed => "linear-solve-failed",
+        NetworkStatus.FlowsOutOfRange => "flows-out-of-range",
         _ => "unknown",
     };
 
@@ -136,6 +142,7 @@ public static class NetworkStatusExtensions
         NetworkStatus.IterationCapReached => "stopped: the iteration cap was reached before convergence",
         NetworkStatus.StatusesNotSettled => "stopped: check valves or pumps kept changing status",
         NetworkStatus.LinearSolveFailed => "stopped: the head equations could not be solved",
+        NetworkStatus.FlowsOutOfRange => "stopped: the flows left the range of the friction relations (Reynolds number above 1e15)",
         _ => "unknown",
     };
 

@@ -40,6 +40,10 @@ public sealed class NetworkSolver
 {
     private const double ClosedConductance = 1e-14;
     private const double InitialVelocity = 0.3; // m/s, a usual start for the global gradient algorithm (common practice)
+    // A Newton step that changes a pipe's flow by more than this velocity times its area (a pump's by its speed times its
+    // curve's zero-head flow), or any link's by more than twice its present flow, is shortened; ten times the usual
+    // design maximum, so a well-posed network never meets the limit after its first steps (a FlowSolve choice).
+    private const double StepVelocity = 30;
 
     private enum Kind : byte { Darcy, Hazen, Pump }
 
@@ -53,14 +57,16 @@ public sealed class NetworkSolver
     private readonly double[] _area, _hazenConstant, _minorConstant;
     private readonly bool[] _checkValve;
     private readonly PumpCurve[] _curve;
-    private readonly double[] _speed, _pumpSlopeFloor;
+    private readonly double[] _speed, _pumpSlopeFloor, _reverseCurvature;
+    private readonly double[] _stepLimit;     // m3/s: the largest flow change of one Newton step before it is shortened
     private readonly double[] _turbulentFriction, _turbulentSlope; // Colebrook-White f and df/dRe at the turbulent limit
     private readonly double[] _baseDemand, _demand, _elevation;
 
     private readonly LinkStatus[] _status;
     private readonly double[] _flow, _headLoss, _slope, _y, _conductance;
     private readonly double[] _head;       // all nodes; reservoirs hold their fixed head
-    private readonly double[] _rhs, _x, _continuity, _residual;
+    private readonly double[] _rhs, _x, _continuity, _residual, _previousHead;
+    private bool _outOfRange; // an iterate's Reynolds number left the friction relations' range
 
     private readonly SymmetricSparseSolver? _iterative;  // NetworkLinearSolver.ConjugateGradient
     private readonly SparseCholesky? _direct;            // NetworkLinearSolver.SparseCholesky
@@ -121,6 +127,8 @@ public sealed class NetworkSolver
         _curve = new PumpCurve[_links];
         _speed = new double[_links];
         _pumpSlopeFloor = new double[_links];
+        _reverseCurvature = new double[_links];
+        _stepLimit = new double[_links];
         _status = new LinkStatus[_links];
         _turbulentFriction = new double[_links];
         _turbulentSlope = new double[_links];
@@ -136,6 +144,7 @@ public sealed class NetworkSolver
             double area = 0.25 * Math.PI * p.Diameter * p.Diameter;
             _area[l] = area;
             _minorConstant[l] = p.MinorLossCoefficient / (2 * g * area * area);
+            _stepLimit[l] = StepVelocity * area;
             _checkValve[l] = p.CheckValve;
             if (p.HazenWilliamsC is double c)
             {
@@ -170,6 +179,11 @@ public sealed class NetworkSolver
             double qRef = p.Curve.ZeroHeadFlow ?? p.Curve.SearchLimit;
             // A pump's slope can vanish (a flat curve at shut-off); floor it at a millionth of the curve's mean slope.
             _pumpSlopeFloor[l] = 1e-6 * Math.Abs(p.Curve.C0) * Math.Max(p.SpeedRatio, 1e-3) / qRef;
+            // Below zero flow the polynomial is no pump (a quadratic's head falls again, so dh/dQ turns negative and the
+            // floored slope would give the link a near-infinite conductance): it is continued by H(0) + H'(0) x + K x^2,
+            // K = C0 / qRef^2, which keeps the head rising as the flow reverses, with value and slope matched at 0.
+            _reverseCurvature[l] = p.Curve.C0 / (qRef * qRef);
+            _stepLimit[l] = Math.Max(p.SpeedRatio, 1e-3) * qRef;
         }
         _linkIndex = linkIndex;
 
@@ -188,6 +202,7 @@ public sealed class NetworkSolver
         else
             _direct = new SparseCholesky(rowStart, columns);
         _residual = _direct is null ? [] : new double[_junctions];
+        _previousHead = new double[_junctions];
         (_diagFrom, _diagTo, _offFromTo, _offToFrom) = EntryPositions(rowStart, columns);
         _unsupplied = FindUnsupplied();
         Reset();
@@ -294,9 +309,11 @@ public sealed class NetworkSolver
         bool stepped = false;
         while (true)
         {
+            _outOfRange = false;
             EvaluateLinks();
             var (imbalance, continuity) = Measure();
             if (stepped) record.Add(new NetworkIteration(record.Count + 1, pass, maxChange, imbalance, continuity, linear));
+            if (_outOfRange) return NetworkStatus.FlowsOutOfRange;
             if (!double.IsFinite(imbalance) || !double.IsFinite(continuity)) return NetworkStatus.LinearSolveFailed;
             if (imbalance <= o.HeadTolerance && continuity <= o.FlowTolerance) return NetworkStatus.Solved;
             if (record.Count >= o.MaxIterations) return NetworkStatus.IterationCapReached;
@@ -327,8 +344,14 @@ public sealed class NetworkSolver
                     break;
                 default:
                 {
-                    double s = _speed[l];
-                    var (head, slope) = _curve[l].HeadAndSlope(q / s);
+                    double s = _speed[l], x = q / s;
+                    var (head, slope) = _curve[l].HeadAndSlope(Math.Max(x, 0));
+                    if (x < 0)
+                    {
+                        // Reverse flow: the continuation H(0) + H'(0) x + K x^2 (see the constructor).
+                        head += (slope + _reverseCurvature[l] * x) * x;
+                        slope += 2 * _reverseCurvature[l] * x;
+                    }
                     _headLoss[l] = -s * s * head;
                     _slope[l] = Math.Max(-s * slope, _pumpSlopeFloor[l]);
                     break;
@@ -347,6 +370,12 @@ public sealed class NetworkSolver
         ref readonly var pipe = ref _geometry[l];
         double aq = Math.Abs(q);
         double re = aq * pipe.Diameter / (_area[l] * nu);
+        if (!(re <= DarcyFriction.MaximumReynolds))
+        {
+            // Beyond the friction relations (or not finite): the solve stops with a status instead of an exception.
+            _outOfRange = true;
+            return (double.NaN, double.NaN);
+        }
         if (!(re > friction.LaminarLimit && re < friction.TurbulentLimit))
             return PipeHeadLoss.WithDerivative(pipe, nu, q, friction);
         var (f, dfdRe) = TransitionFriction(l, re, friction);
@@ -453,12 +482,29 @@ public sealed class NetworkSolver
             if (!double.IsFinite(residual)) return false;
         }
         else if (!SolveDirect(linearTolerance, out linearIterations)) return false;
+        _head.AsSpan(0, _junctions).CopyTo(_previousHead);
         _x.AsSpan().CopyTo(_head.AsSpan(0, _junctions));
+        // The Newton flows into _y, and the step length: a step that would move a link's flow by more than its limit is
+        // shortened, flows and heads alike, so that no iterate runs away (a pump near shut-off, whose slope is floored,
+        // can ask for enormous flows). Continuity then holds to the shortened fraction; full steps restore it.
+        double scale = 1;
         for (int l = 0; l < _links; l++)
         {
             double q = _status[l] == LinkStatus.Open ? _y[l] + _conductance[l] * (_head[_from[l]] - _head[_to[l]]) : 0.0;
+            _y[l] = q;
+            double change = Math.Abs(q - _flow[l]), limit = Math.Max(_stepLimit[l], 2 * Math.Abs(_flow[l]));
+            if (change > limit && limit < scale * change) scale = limit / change;
+        }
+        if (!double.IsFinite(scale)) return false;
+        if (scale < 1)
+        {
+            for (int j = 0; j < _junctions; j++) _head[j] = _previousHead[j] + scale * (_head[j] - _previousHead[j]);
+        }
+        for (int l = 0; l < _links; l++)
+        {
+            double q = scale < 1 ? _flow[l] + scale * (_y[l] - _flow[l]) : _y[l];
             double change = Math.Abs(q - _flow[l]);
-            if (change > maxChange) maxChange = change;
+            if (!(change <= maxChange)) maxChange = change; // NaN propagates
             _flow[l] = q;
         }
         return true;
@@ -554,7 +600,9 @@ public sealed class NetworkSolver
             if (_status[l] == LinkStatus.Open && q != 0)
             {
                 double re = Math.Abs(q) * _geometry[l].Diameter / (_area[l] * nu);
-                if (_kind[l] == Kind.Darcy && re > o.Friction.LaminarLimit && re < o.Friction.TurbulentLimit)
+                if (_kind[l] == Kind.Darcy && !(re <= DarcyFriction.MaximumReynolds))
+                    f = double.NaN; // FlowsOutOfRange: no friction factor exists there
+                else if (_kind[l] == Kind.Darcy && re > o.Friction.LaminarLimit && re < o.Friction.TurbulentLimit)
                     f = TransitionFriction(l, re, o.Friction).F;
                 else if (_kind[l] == Kind.Darcy)
                     f = PipeHeadLoss.Evaluate(_geometry[l], nu, Math.Abs(q), o.Friction).FrictionFactor;

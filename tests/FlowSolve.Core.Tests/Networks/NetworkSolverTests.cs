@@ -6,7 +6,7 @@ using static FlowSolve.Core.Tests.Networks.NetworkChecks;
 
 namespace FlowSolve.Core.Tests.Networks;
 
-public sealed class NetworkSolverTests
+public sealed partial class NetworkSolverTests
 {
     private const double Water = 1.004e-6; // m2/s, water at 20 degrees C (from memory; ISO/TR 3666 gives 1.0016 mPa s)
     private const double Inch = 0.0254;

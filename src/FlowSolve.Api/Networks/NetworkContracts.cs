@@ -138,7 +138,7 @@ public sealed record NetworkWarningDto(string Code, string Message, string? Elem
 
 /// <summary>The answer for one load case.</summary>
 /// <param name="DemandMultiplier">The multiplier applied to every demand.</param>
-/// <param name="Status">solved, iteration-cap-reached or statuses-not-settled (no-path-to-fixed-head, pump-cannot-lift and linear-solve-failed answer 422).</param>
+/// <param name="Status">solved, iteration-cap-reached or statuses-not-settled (no-path-to-fixed-head, pump-cannot-lift, linear-solve-failed and flows-out-of-range answer 422).</param>
 /// <param name="Reason">What the status means.</param>
 /// <param name="Converged">True when continuity and energy balance are met within the tolerances (1e-10 m3/s and 1e-10 m).</param>
 /// <param name="Iterations">Newton iterations over all status passes.</param>

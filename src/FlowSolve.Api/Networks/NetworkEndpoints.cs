@@ -64,10 +64,8 @@ public static class NetworkEndpoints
         }
         catch (ArgumentOutOfRangeException)
         {
-            // The friction relations hold to Reynolds 1e15; an iterate beyond that (absurd demands for the pipe sizes and
-            // viscosity, or a diverging iteration, seen with a pump running backwards against too high a lift) is refused
-            // by the Core rather than answered with a number.
-            return OutOfRange("The Newton iteration diverged: it reached flows beyond the range of the friction relations (Reynolds number above 1e15). A pump that cannot lift against the system can cause this; otherwise check the demands, pump curves, diameters and viscosity for a misplaced unit or exponent.");
+            // A backstop only: the Core reports flows beyond the friction relations as NetworkStatus.FlowsOutOfRange.
+            return OutOfRange(FlowsOutOfRangeDetail);
         }
 
         if (NoAnswer(input, results) is { } none) return none;
@@ -141,8 +139,14 @@ public static class NetworkEndpoints
                 string.Create(CultureInfo.InvariantCulture,
                     $"At demand multiplier {failed.DemandMultiplier:G6} the head equations met a non-finite value or could not be solved. Check for pipes whose sizes differ by many orders of magnitude, or extreme demands."),
                 new Dictionary<string, object?> { ["networkStatus"] = failed.Status.Code() });
+        if (results.FirstOrDefault(r => r.Status == NetworkStatus.FlowsOutOfRange) is { } outside)
+            return ProblemResults.NoAnswer("The network lies outside the range of the arithmetic.",
+                string.Create(CultureInfo.InvariantCulture, $"At demand multiplier {outside.DemandMultiplier:G6}: ") + FlowsOutOfRangeDetail,
+                new Dictionary<string, object?> { ["networkStatus"] = outside.Status.Code() });
         return null;
     }
+
+    private const string FlowsOutOfRangeDetail = "The Newton iteration reached flows beyond the range of the friction relations (Reynolds number above 1e15). Check the demands, pump curves, diameters and viscosity for a misplaced unit or exponent.";
 
     private static ProblemHttpResult OutOfRange(string detail) =>
         ProblemResults.NoAnswer("The network lies outside the range of the arithmetic.", detail,

@@ -398,6 +398,53 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
         Assert.Equal(60, pump.GetProperty("headAcross").GetDouble(), 1e-6); // the tank's head stands across the stopped pump
     }
 
+    [Theory]
+    [InlineData(-5000.0)]
+    [InlineData(-500.0)]
+    public async Task Solve_PumpOfHalfTheLift_422NamesThePumpInsteadOfDiverging(double c2)
+    {
+        // Issue 9: shut-off 20 m against a lift of 40 m through 200 mm pipes made the first Newton pass diverge (an
+        // out-of-range Reynolds number, or the iteration cap with large reverse flows). H(Q) <= 20 < 40 for every forward
+        // flow, so the answer is a stopped pump with the tank's 40 m across it, in every load case.
+        var body = JsonNode.Parse("""
+            {"junctions": [{"id": "s", "elevation": 0}, {"id": "d", "elevation": 0}],
+             "reservoirs": [{"id": "sump", "head": 0}, {"id": "tank", "head": 40}],
+             "pipes": [{"id": "suction", "from": "sump", "to": "s", "length": 10, "diameter": 0.2, "roughness": 0.00005},
+                       {"id": "delivery", "from": "d", "to": "tank", "length": 400, "diameter": 0.2, "roughness": 0.00005}],
+             "pumps": [{"id": "small-pump", "from": "s", "to": "d", "curve": {"coefficients": [20, 0, -5000]}}],
+             "demandMultipliers": [1, 2]}
+            """)!;
+        body["pumps"]![0]!["curve"]!["coefficients"]![2] = c2;
+        var r = await Post(body);
+        Assert.Equal(422, r.Status);
+        Assert.Equal("application/problem+json", r.ContentType);
+        Assert.Equal("pump-cannot-lift", r.Body.GetProperty("networkStatus").GetString());
+        Assert.Contains("'small-pump'", r.Body.GetProperty("detail").GetString());
+        var cases = r.Body.GetProperty("cases").EnumerateArray().ToArray();
+        Assert.Equal(2, cases.Length);
+        foreach (var c in cases)
+        {
+            var pump = c.GetProperty("pumps")[0];
+            Assert.Equal("small-pump", pump.GetProperty("id").GetString());
+            Assert.Equal(40, pump.GetProperty("headAcross").GetDouble(), 1e-6);
+        }
+    }
+
+    [Fact]
+    public async Task Solve_AbsurdDemand_422FlowsOutOfRange()
+    {
+        // 1e12 m3/s through a 100 mm pipe: Reynolds 4Q/(pi D nu) near 1e19, beyond the friction relations' 1e15.
+        var body = JsonNode.Parse("""
+            {"junctions": [{"id": "j", "elevation": 0, "demand": 1e12}], "reservoirs": [{"id": "r", "head": 50}],
+             "pipes": [{"id": "p", "from": "r", "to": "j", "length": 100, "diameter": 0.1, "roughness": 0.00005}]}
+            """)!;
+        var r = await Post(body);
+        Assert.Equal(422, r.Status);
+        Assert.Equal("application/problem+json", r.ContentType);
+        Assert.Equal("flows-out-of-range", r.Body.GetProperty("networkStatus").GetString());
+        Assert.Contains("1e15", r.Body.GetProperty("detail").GetString());
+    }
+
     [Fact]
     public async Task Solve_TooManyDemandMultipliers_413NamesTheLimit()
     {

@@ -234,7 +234,7 @@ public readonly record struct NetworkWarning(string ElementId, NetworkWarningCod
 /// <param name="HeadLoss">H_from - H_to in m: for an open pipe the friction and minor loss (signed like the flow), for a
 /// closed one the head held across it.</param>
 /// <param name="FrictionFactor">Darcy friction factor f (for a Hazen-Williams pipe, the equivalent f = 2 g D hf/(L V^2));
-/// 0 at zero flow.</param>
+/// 0 at zero flow; NaN where the flow is beyond Reynolds 1e15 (only in a <see cref="NetworkStatus.FlowsOutOfRange"/> result).</param>
 /// <param name="Status">Open, closed or check-valve-closed.</param>
 public readonly record struct PipeResult(string Id, double Flow, double Velocity, double HeadLoss, double FrictionFactor, LinkStatus Status);
 

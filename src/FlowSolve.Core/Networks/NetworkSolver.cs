@@ -21,7 +21,13 @@ namespace FlowSolve.Core.Networks;
 /// dependence on the flow through df/dRe (Simpson and Elhay 2011, J. Hydraul. Eng. 137(6)). Near Q = 0 the laminar law
 /// keeps g positive; Hazen-Williams (whose g vanishes at 0) is replaced below <see cref="NetworkOptions.RegularisationVelocity"/>
 /// by an odd cubic with matching value and slope (after Elhay and Simpson 2011, J. Hydraul. Eng. 137(10)); a pump's g
-/// is floored at a small positive value.</para>
+/// is floored at a small positive value, and below zero flow its curve is continued by H(0) + H'(0) x + C0 (x/qRef)^2
+/// (head rising as the flow reverses), since the polynomial there (a quadratic's head falls again) would give the link a
+/// negative slope and, floored, a near-infinite conductance that drives the iteration away.</para>
+/// <para>Safeguards: a Newton step that would change a link's flow by more than 30 m/s times its area (a pump: its
+/// speed times its zero-head flow) or twice its present flow is shortened, heads and flows by the same fraction; an
+/// iterate beyond the friction relations' Reynolds number 1e15 ends the solve with
+/// <see cref="NetworkStatus.FlowsOutOfRange"/>. No finite input makes the solve throw.</para>
 /// <para>Linear algebra (<see cref="NetworkOptions.LinearSolver"/>): by default a direct sparse Cholesky factorisation
 /// (<see cref="SparseCholesky"/>) whose nested-dissection ordering and symbolic analysis run once per network, since the
 /// pattern never changes across Newton iterations and load cases; each iteration refactorises in place and solves, with
@@ -29,8 +35,9 @@ namespace FlowSolve.Core.Networks;
 /// Cholesky preconditioner (<see cref="SymmetricSparseSolver"/>), warm-started from the current heads, which needs less
 /// memory but hundreds of iterations a step on large grids. Either way the buffers are allocated once and reused.</para>
 /// <para>Statuses: check valves and pumps are held fixed during a Newton solve; then a check valve carrying reverse
-/// flow closes, a closed one with forward head opens, a pump driven backwards stops, a stopped one whose shut-off head
-/// exceeds the head across it restarts, and the solve runs again from where it stood, up to
+/// flow closes, a closed one with forward head opens, a pump driven backwards stops (for a curve falling from shut-off,
+/// exactly when the head across it exceeds its shut-off head), a stopped one whose shut-off head exceeds the head across
+/// it restarts, and the solve runs again from where it stood, up to
 /// <see cref="NetworkOptions.MaxStatusPasses"/> times. A closed link carries exactly zero flow; in the head system it
 /// keeps a vanishing conductance (1e-14 m2/s) so that a junction it isolates still has a defined head.</para>
 /// <para>An instance keeps its state between solves (warm start) and is not thread-safe; the static methods create
@@ -214,7 +221,7 @@ public sealed class NetworkSolver
     /// <summary>Solves a network once (a new solver; no warm start).</summary>
     /// <param name="model">The network.</param>
     /// <param name="options">Tolerances and limits; <see cref="NetworkOptions.Default"/> when omitted.</param>
-    /// <returns>The result; non-convergence and unsupplied parts are statuses, never exceptions.</returns>
+    /// <returns>The result; non-convergence, flows out of range and unsupplied parts are statuses, never exceptions.</returns>
     /// <exception cref="NetworkValidationException">The model is invalid (each issue names its element).</exception>
     public static NetworkResult Solve(NetworkModel model, NetworkOptions? options = null) =>
         new NetworkSolver(model, options).SolveCase(1.0);
@@ -266,7 +273,7 @@ public sealed class NetworkSolver
     /// <summary>Solves with every demand multiplied by <paramref name="demandMultiplier"/>, starting from this instance's
     /// previous solution when it converged (else from the default start).</summary>
     /// <param name="demandMultiplier">Multiplier on every junction demand; finite (1 for the model as given).</param>
-    /// <returns>The result; non-convergence and unsupplied parts are statuses, never exceptions.</returns>
+    /// <returns>The result; non-convergence, flows out of range and unsupplied parts are statuses, never exceptions.</returns>
     /// <exception cref="ArgumentOutOfRangeException">The multiplier is not finite.</exception>
     public NetworkResult SolveCase(double demandMultiplier = 1.0)
     {

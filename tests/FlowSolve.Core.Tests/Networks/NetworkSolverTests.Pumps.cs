@@ -48,6 +48,7 @@ public sealed partial class NetworkSolverTests
         Assert.Equal(NetworkStatus.FlowsOutOfRange, result.Status);
         Assert.False(result.Converged);
         Assert.Equal("flows-out-of-range", result.Status.Code());
+        Assert.True(double.IsNaN(result.Pipe("p").FrictionFactor)); // no friction factor exists there
     }
 
     [Fact]

@@ -74,7 +74,8 @@ request = function()
   n = n + 1
   local re = 4000 * 10 ^ ((n * 0.6180339887) % 1 * 4.4)
   local rr = 1e-6 * 10 ^ ((n * 0.4142135623) % 1 * 4.7)
-  return wrk.format("GET", string.format("/v1/friction-factor?reynolds=%.6g&relativeRoughness=%.6g", re, rr))
+  -- fixed-point formats: "%g" would write 1e+08, and a "+" in a query string reads as a space
+  return wrk.format("GET", string.format("/v1/friction-factor?reynolds=%.1f&relativeRoughness=%.10f", re, rr))
 end
 LUA
 cat >"$work/post.lua" <<EOF

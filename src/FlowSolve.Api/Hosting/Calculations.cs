@@ -68,11 +68,19 @@ public static class CalculationExtensions
             return context =>
             {
                 string? format = context.HttpContext.Request.Query["format"];
-                if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase)) return measured(context);
+                if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase)) return AsJsonAnswer(measured(context));
                 if (format.Equals("html", StringComparison.OrdinalIgnoreCase)) return htmlFilter.InvokeAsync(context, measured);
                 return textFilter.InvokeAsync(context, measured);
             };
         });
+    }
+
+    /// <summary>A 200 answer goes out as one block (<see cref="JsonAnswer"/>); problems keep their own results.</summary>
+    private static async ValueTask<object?> AsJsonAnswer(ValueTask<object?> pending)
+    {
+        object? result = await pending;
+        if (result is IResult r && r.Unwrap() is (200, { } value)) return new JsonAnswer(value, 200) { Result = r };
+        return result;
     }
 
     /// <summary>Registers a calculation for <c>POST /v1/batch/{name}</c>.</summary>

@@ -1,0 +1,55 @@
+using System.Buffers;
+using System.Text.Json;
+
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>
+/// A calculation's 200 answer written as one block: the value is serialised synchronously into a pooled buffer
+/// and sent with its Content-Length, instead of streaming through the serializer's resumable asynchronous path into the
+/// response pipe. Same bytes as <c>Ok&lt;T&gt;</c> with the pipeline's JSON options (a test compares them).
+/// </summary>
+/// <remarks>Measured on the friction-factor GET (1.7 KB answer): the asynchronous streaming write cost more than the
+/// calculation itself, while the same answer serialised in memory for <c>format=text</c> ran at 1.7 times the rate.</remarks>
+public sealed class JsonAnswer(object value, int statusCode) : IResult, IStatusCodeHttpResult, IValueHttpResult, INestedHttpResult
+{
+    [ThreadStatic] private static ArrayBufferWriter<byte>? t_buffer;
+    [ThreadStatic] private static Utf8JsonWriter? t_writer;
+    [ThreadStatic] private static JsonSerializerOptions? t_writerFor;
+
+    public int? StatusCode => statusCode;
+    public object? Value => value;
+
+    /// <summary>The typed result this answer stands for, so callers that unwrap results see the original.</summary>
+    public IResult Result { get; init; } = null!;
+
+    public Task ExecuteAsync(HttpContext httpContext)
+    {
+        var buffer = t_buffer ??= new ArrayBufferWriter<byte>(4096);
+        buffer.ResetWrittenCount();
+        // The options Ok<T> itself would use (the HTTP pipeline's: its encoder differs from JsonSetup.Options'), and a
+        // writer made with the same encoder, since a writer's own options decide the escaping.
+        var options = httpContext.RequestServices.GetRequiredService<Microsoft.Extensions.Options.IOptions<Microsoft.AspNetCore.Http.Json.JsonOptions>>()
+            .Value.SerializerOptions;
+        if (t_writer is null || !ReferenceEquals(t_writerFor, options))
+        {
+            t_writer = new Utf8JsonWriter(buffer, new JsonWriterOptions
+            {
+                Encoder = options.Encoder, Indented = options.WriteIndented, MaxDepth = options.MaxDepth, SkipValidation = true,
+            });
+            t_writerFor = options;
+        }
+        var writer = t_writer;
+        writer.Reset(buffer);
+        JsonSerializer.Serialize(writer, value, value.GetType(), options);
+        writer.Flush();
+        var response = httpContext.Response;
+        response.StatusCode = statusCode;
+        response.ContentType = "application/json; charset=utf-8";
+        response.ContentLength = buffer.WrittenCount;
+        // Copied into the response pipe before this thread can serve another request, so the buffer can be reused.
+        var pipe = response.BodyWriter;
+        pipe.Write(buffer.WrittenSpan);
+        if (buffer.Capacity > 1 << 20) t_buffer = null; // do not keep a huge answer's buffer per thread
+        return pipe.FlushAsync(httpContext.RequestAborted).AsTask();
+    }
+}

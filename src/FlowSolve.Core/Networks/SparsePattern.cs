@@ -28,4 +28,15 @@ internal static class SparsePattern
         }
         return diagonal;
     }
+
+    /// <summary>y = A x for a compressed-row matrix; allocation-free.</summary>
+    public static void Multiply(int[] rowStart, int[] columns, double[] values, ReadOnlySpan<double> x, Span<double> y)
+    {
+        for (int i = 0; i < y.Length; i++)
+        {
+            double s = 0;
+            for (int k = rowStart[i]; k < rowStart[i + 1]; k++) s += values[k] * x[columns[k]];
+            y[i] = s;
+        }
+    }
 }

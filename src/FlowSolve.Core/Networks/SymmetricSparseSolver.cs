@@ -157,15 +157,7 @@ public sealed class SymmetricSparseSolver
     /// <param name="y">Result, length n.</param>
     public void Multiply(ReadOnlySpan<double> x, Span<double> y)
     {
-        var v = _values;
-        var cols = _columns;
-        var start = _rowStart;
-        for (int i = 0; i < y.Length; i++)
-        {
-            double s = 0;
-            for (int k = start[i]; k < start[i + 1]; k++) s += v[k] * x[cols[k]];
-            y[i] = s;
-        }
+        SparsePattern.Multiply(_rowStart, _columns, _values, x, y);
     }
 
     /// <summary>z = (L L^T)^-1 r: forward substitution with L, back substitution with L^T (column sweep).</summary>

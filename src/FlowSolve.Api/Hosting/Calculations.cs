@@ -184,9 +184,7 @@ internal static class CellWriter
 
     public static void Append(System.Text.StringBuilder cell, string? value)
     {
-        if (value is null) return;
-        if (value.AsSpan().IndexOfAny(",\"\r\n") < 0) cell.Append(value);
-        else cell.Append('"').Append(value.Replace("\"", "\"\"")).Append('"');
+        if (value is not null) cell.Append(Batch.Csv.Escape(value));
     }
 
     public static void AppendWarnings(System.Text.StringBuilder cell, IEnumerable<Contracts.WarningDto>? warnings)

@@ -16,6 +16,7 @@ namespace FlowSolve.Api.Hosting;
 public sealed class RequestJsonFormatter : ITextFormatter
 {
     private readonly CompactJsonFormatter _general = new();
+    private static readonly JsonValueFormatter Values = new(typeTagName: "$type");
     private static readonly string QuotedTemplate = Quote(RequestLog.Template.Text);
 
     public void Format(LogEvent logEvent, TextWriter output)
@@ -84,7 +85,7 @@ public sealed class RequestJsonFormatter : ITextFormatter
                     output.Write(buffer[..n]);
                     break;
                 default:
-                    new JsonValueFormatter(typeTagName: "$type").Format(value, output);
+                    Values.Format(value, output);
                     break;
             }
         }

@@ -15,12 +15,10 @@ public sealed class TextFormatFilter : IEndpointFilter
 {
     public async ValueTask<object?> InvokeAsync(EndpointFilterInvocationContext context, EndpointFilterDelegate next)
     {
+        // Reached only for format=text or an unknown format: AsCalculation's filter sends json and html elsewhere.
         var http = context.HttpContext;
         string? format = http.Request.Query["format"];
-        // json is the default; html is the calculation sheet's (HtmlFormatFilter, further in).
-        if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase) || format.Equals("html", StringComparison.OrdinalIgnoreCase))
-            return await next(context);
-        if (!format.Equals("text", StringComparison.OrdinalIgnoreCase))
+        if (!string.Equals(format, "text", StringComparison.OrdinalIgnoreCase))
         {
             return TypedResults.ValidationProblem(new Dictionary<string, string[]> { ["format"] = ["must be json, text or html"] },
                 title: "One or more fields are invalid.", type: "https://flowsolve.example/problems/invalid-input");

@@ -16,9 +16,8 @@ public sealed class HtmlFormatFilter : IEndpointFilter
 
     public async ValueTask<object?> InvokeAsync(EndpointFilterInvocationContext context, EndpointFilterDelegate next)
     {
+        // Reached only for format=html: AsCalculation's filter sends the other formats elsewhere.
         var http = context.HttpContext;
-        string? format = http.Request.Query["format"];
-        if (format is null || !format.Equals("html", StringComparison.OrdinalIgnoreCase)) return await next(context);
 
         var metadata = http.GetEndpoint()?.Metadata.GetMetadata<CalculationMetadata>();
         object? result = await next(context);

@@ -15,6 +15,7 @@ public sealed class JsonAnswer(object value, int statusCode) : IResult, IStatusC
     [ThreadStatic] private static ArrayBufferWriter<byte>? t_buffer;
     [ThreadStatic] private static Utf8JsonWriter? t_writer;
     [ThreadStatic] private static JsonSerializerOptions? t_writerFor;
+    private static SerializerPair? s_serializer;
 
     public int? StatusCode => statusCode;
     public object? Value => value;
@@ -40,16 +41,35 @@ public sealed class JsonAnswer(object value, int statusCode) : IResult, IStatusC
         }
         var writer = t_writer;
         writer.Reset(buffer);
-        JsonSerializer.Serialize(writer, value, value.GetType(), options);
+        JsonSerializer.Serialize(writer, value, value.GetType(), Serializing(options));
         writer.Flush();
         var response = httpContext.Response;
         response.StatusCode = statusCode;
         response.ContentType = "application/json; charset=utf-8";
         response.ContentLength = buffer.WrittenCount;
         // Copied into the response pipe before this thread can serve another request, so the buffer can be reused.
-        var pipe = response.BodyWriter;
-        pipe.Write(buffer.WrittenSpan);
+        // Not flushed here: the server flushes headers and body together when the request ends, one send for the answer.
+        response.BodyWriter.Write(buffer.WrittenSpan);
         if (buffer.Capacity > 1 << 20) t_buffer = null; // do not keep a huge answer's buffer per thread
-        return pipe.FlushAsync(httpContext.RequestAborted).AsTask();
+        return Task.CompletedTask;
     }
+
+    /// <summary>
+    /// The pipeline's options without their encoder, for the serializer only. System.Text.Json uses the generated
+    /// serialisation code of <see cref="ApiJsonContext"/> (straight-line writes, no per-property metadata walk) only when
+    /// the options carry no encoder of their own; ASP.NET Core's carry the relaxed one. Escaping is the writer's business,
+    /// and the writer above is made with the pipeline's encoder, so the bytes do not change (a test compares them with
+    /// <c>Ok&lt;T&gt;</c>'s, strings that the two encoders escape differently included).
+    /// </summary>
+    private static JsonSerializerOptions Serializing(JsonSerializerOptions pipeline)
+    {
+        var pair = s_serializer;
+        if (pair is not null && ReferenceEquals(pair.Pipeline, pipeline)) return pair.WithoutEncoder;
+        var withoutEncoder = new JsonSerializerOptions(pipeline) { Encoder = null };
+        withoutEncoder.MakeReadOnly();
+        s_serializer = new SerializerPair(pipeline, withoutEncoder);
+        return withoutEncoder;
+    }
+
+    private sealed record SerializerPair(JsonSerializerOptions Pipeline, JsonSerializerOptions WithoutEncoder);
 }

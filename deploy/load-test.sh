@@ -6,8 +6,10 @@
 #   its own (LOAD_PORT, 18090 by default, or the next free one), with the ConfigMap's logging settings (json,
 #   Information, or LOAD_LOG_LEVEL) and the log thrown away, so the per-request log event is paid for as in production;
 # - runs wrk (installed from Debian's packages if missing) on each scenario: a warm-up of LOAD_WARMUP seconds (10 by
-#   default: tiered compilation with PGO is still recompiling hot methods after 5 s), then LOAD_DURATION seconds
-#   (20 by default) with LOAD_THREADS threads (2) and LOAD_CONNECTIONS connections (32);
+#   default: tiered compilation with PGO is still recompiling hot methods after 5 s), then LOAD_ROUNDS rounds (3) of
+#   LOAD_DURATION seconds (10 by default) per scenario, the scenarios taking turns within each round, with LOAD_THREADS
+#   threads (2) and LOAD_CONNECTIONS connections (32); each scenario's rate is the median of its rounds and its share of
+#   the ceiling the median of the per-round ratios, so a slow minute on a shared machine moves every row, not one;
 #   scenarios: GET /health/live (ceiling), GET /v1/friction-factor, the same GET with different inputs on every
 #   request, POST /v1/pipes/flow (skipped on a 404);
 # - then a 60-second run of the friction GET while sampling VmRSS from /proc/PID/status every 5 s;
@@ -19,10 +21,11 @@ set -euo pipefail
 
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 port="${LOAD_PORT:-18090}"
-duration="${LOAD_DURATION:-20}"
+duration="${LOAD_DURATION:-10}"
+rounds="${LOAD_ROUNDS:-3}"
 warmup="${LOAD_WARMUP:-10}"
 log_level="${LOAD_LOG_LEVEL:-Information}"
-soak=60
+soak="${LOAD_SOAK:-60}"   # the memory run; shorter only to try the script out
 threads="${LOAD_THREADS:-2}"
 connections="${LOAD_CONNECTIONS:-32}"
 
@@ -86,15 +89,11 @@ EOF
 
 rss_kib() { awk '/^VmRSS:/ {print $2}' "/proc/$pid/status"; }
 
-# Runs wrk and prints one table row: name, requests/s, p50, p99, requests, non-2xx, socket errors.
-rows=()
-errors=0
-run() {
-  local name="$1" seconds="$2"; shift 2
-  wrk -t"$threads" -c"$connections" -d"${warmup}s" "$@" >/dev/null   # warm-up: JIT tiering (PGO), connection pools
+# One wrk run: sets rps, p50, p99, total, non2xx, sockets.
+measure() {
+  local seconds="$1"; shift
   local out
   out="$(wrk -t"$threads" -c"$connections" -d"${seconds}s" --latency "$@")"
-  local rps p50 p99 total non2xx sockets
   rps="$(awk '/^Requests\/sec:/ {print $2}' <<<"$out")"
   p50="$(awk '$1 == "50%" {print $2}' <<<"$out")"
   p99="$(awk '$1 == "99%" {print $2}' <<<"$out")"
@@ -102,43 +101,79 @@ run() {
   non2xx="$(awk -F': ' '/Non-2xx or 3xx responses/ {print $2}' <<<"$out")"; non2xx="${non2xx:-0}"
   sockets="$(awk -F'errors: ' '/Socket errors/ {print $2}' <<<"$out" | tr -dc '0-9,' | tr ',' '+')"
   sockets=$(( ${sockets:-0} + 0 ))
-  errors=$((errors + non2xx + sockets))
-  rows+=("$(printf '%-28s %12s %10s %10s %10s %8s %8s' "$name" "$rps" "$p50" "$p99" "$total" "$non2xx" "$sockets")")
 }
+# wrk latencies (850.00us, 1.02ms, 2.10s) in milliseconds, and back.
+to_ms() { awk '{v = $1; if (v ~ /us$/) print v / 1000; else if (v ~ /ms$/) print v + 0; else if (v ~ /s$/) print v * 1000; else print v}' <<<"$1"; }
+median() { tr ' ' '\n' | sed '/^$/d' | sort -g | awk '{a[NR] = $1} END {if (NR % 2) print a[(NR + 1) / 2]; else print (a[NR / 2] + a[NR / 2 + 1]) / 2}'; }
 
-run "GET /health/live (ceiling)" "$duration" "$base/health/live"
-run "GET /v1/friction-factor" "$duration" "$friction"
-run "GET friction, varied inputs" "$duration" -s "$work/vary.lua" "$base"
 pipe_status="$(curl -s -o /dev/null -w '%{http_code}' -X POST -H 'Content-Type: application/json' -d "$pipe_body" "$base/v1/pipes/flow" || true)"
+names=("GET /health/live (ceiling)" "GET /v1/friction-factor" "GET friction, varied inputs")
+args=("$base/health/live" "$friction" "-s $work/vary.lua $base")
+pipe_note=""
+errors=0
 if [ "$pipe_status" = 404 ]; then
   pipe_note="POST /v1/pipes/flow: skipped, the endpoint answers 404 in this build"
 elif [ "$pipe_status" = 200 ]; then
-  run "POST /v1/pipes/flow" "$duration" -s "$work/post.lua" "$base/v1/pipes/flow"
-  pipe_note=""
+  names+=("POST /v1/pipes/flow"); args+=("-s $work/post.lua $base/v1/pipes/flow")
 else
   pipe_note="POST /v1/pipes/flow: answered $pipe_status to the sample body; not load-tested"
   errors=$((errors + 1))
 fi
+
+# Warm-up of every scenario (JIT tiering with PGO, connection pools), then the rounds.
+for i in "${!names[@]}"; do
+  # shellcheck disable=SC2086 # the argument strings hold wrk options and a URL
+  wrk -t"$threads" -c"$connections" -d"${warmup}s" ${args[$i]} >/dev/null
+done
+declare -A r_rps r_ratio r_p50 r_p99 r_total r_non2xx r_sockets
+for round in $(seq 1 "$rounds"); do
+  ceiling=""
+  for i in "${!names[@]}"; do
+    # shellcheck disable=SC2086
+    measure "$duration" ${args[$i]}
+    [ -z "$ceiling" ] && ceiling="$rps"
+    r_rps[$i]+="$rps "
+    r_ratio[$i]+="$(awk -v a="$rps" -v b="$ceiling" 'BEGIN {printf "%.4f", a / b}') "
+    r_p50[$i]+="$(to_ms "$p50") "
+    r_p99[$i]+="$(to_ms "$p99") "
+    r_total[$i]=$(( ${r_total[$i]:-0} + total ))
+    r_non2xx[$i]=$(( ${r_non2xx[$i]:-0} + non2xx ))
+    r_sockets[$i]=$(( ${r_sockets[$i]:-0} + sockets ))
+    errors=$((errors + non2xx + sockets))
+  done
+done
+rows=()
+for i in "${!names[@]}"; do
+  share="$(median <<<"${r_ratio[$i]}")"
+  rows+=("$(printf '%-28s %12.0f %9.0f %%  %8.2fms %8.2fms %10s %8s %8s   rounds: %s' "${names[$i]}" \
+    "$(median <<<"${r_rps[$i]}")" "$(awk -v s="$share" 'BEGIN {print s * 100}')" \
+    "$(median <<<"${r_p50[$i]}")" "$(median <<<"${r_p99[$i]}")" "${r_total[$i]}" "${r_non2xx[$i]}" "${r_sockets[$i]}" \
+    "$(awk '{for (i = 1; i <= NF; i++) printf "%s%.0f", (i > 1 ? " " : ""), $i}' <<<"${r_rps[$i]}")")")
+done
 
 # Memory over a 60-second run: VmRSS every 5 s from the start of the run.
 samples=()
 rss_before="$(rss_kib)"
 ( for _ in $(seq 0 5 "$soak"); do rss_kib; sleep 5; done ) >"$work/rss" &
 sampler=$!
-run "GET /v1/friction-factor 60 s" "$soak" "$friction"
+measure "$soak" "$friction"
+errors=$((errors + non2xx + sockets))
+soak_row="$(printf '%-28s %12.0f %11s %8.2fms %8.2fms %10s %8s %8s' "GET /v1/friction-factor ${soak} s" "$rps" "" \
+  "$(to_ms "$p50")" "$(to_ms "$p99")" "$total" "$non2xx" "$sockets")"
 wait "$sampler" 2>/dev/null || true
 sampler=""
 mapfile -t samples <"$work/rss"
 
 echo
 echo "machine: $(lscpu | awk -F': +' '/^Model name/ {print $2; exit}'), $(nproc) cores; load average before the run: $load_before, after it: $(cut -d' ' -f1-3 /proc/loadavg)"
-echo "wrk: $threads threads, $connections connections, ${duration} s per scenario after a ${warmup} s warm-up, on the same machine as the service"
+echo "wrk: $threads threads, $connections connections, $rounds rounds of ${duration} s per scenario after a ${warmup} s warm-up each, on the same machine as the service"
 echo
-printf '%-28s %12s %10s %10s %10s %8s %8s\n' scenario "requests/s" p50 p99 requests non-2xx socket
-printf '%s\n' "${rows[@]}"
+printf '%-28s %12s %11s %10s %10s %10s %8s %8s\n' scenario "requests/s" "of ceiling" p50 p99 requests non-2xx socket
+printf '%s\n' "${rows[@]}" "$soak_row"
+echo "(requests/s, p50 and p99: medians of the rounds; of ceiling: median of each round's ratio to the ceiling's rate)"
 [ -n "$pipe_note" ] && echo "$pipe_note"
 echo
-echo "RSS (MiB) before the 60 s run: $(awk -v k="$rss_before" 'BEGIN {printf "%.0f", k / 1024}'); every 5 s during it:"
+echo "RSS (MiB) before the ${soak} s run: $(awk -v k="$rss_before" 'BEGIN {printf "%.0f", k / 1024}'); every 5 s during it:"
 printf '%s\n' "${samples[@]}" | awk '{printf "%s%.0f", (NR > 1 ? " " : "  "), $1 / 1024} END {print ""}'
 printf '%s\n' "${samples[@]}" | awk 'NR == 1 {first = $1; min = $1; max = $1} {if ($1 < min) min = $1; if ($1 > max) max = $1; last = $1}
   END {printf "  min %.0f, max %.0f, first %.0f, last %.0f MiB\n", min / 1024, max / 1024, first / 1024, last / 1024}'

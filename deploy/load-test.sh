@@ -102,7 +102,7 @@ measure() {
   sockets="$(awk -F'errors: ' '/Socket errors/ {print $2}' <<<"$out" | tr -dc '0-9,' | tr ',' '+')"
   sockets=$(( ${sockets:-0} + 0 ))
 }
-# wrk latencies (850.00us, 1.02ms, 2.10s) in milliseconds, and back.
+# wrk latencies (850.00us, 1.02ms, 2.10s) in milliseconds; the median of space-separated numbers.
 to_ms() { awk '{v = $1; if (v ~ /us$/) print v / 1000; else if (v ~ /ms$/) print v + 0; else if (v ~ /s$/) print v * 1000; else print v}' <<<"$1"; }
 median() { tr ' ' '\n' | sed '/^$/d' | sort -g | awk '{a[NR] = $1} END {if (NR % 2) print a[(NR + 1) / 2]; else print (a[NR / 2] + a[NR / 2 + 1]) / 2}'; }
 
@@ -151,7 +151,7 @@ for i in "${!names[@]}"; do
     "$(awk '{for (i = 1; i <= NF; i++) printf "%s%.0f", (i > 1 ? " " : ""), $i}' <<<"${r_rps[$i]}")")")
 done
 
-# Memory over a 60-second run: VmRSS every 5 s from the start of the run.
+# Memory over a LOAD_SOAK-second run (60 by default): VmRSS every 5 s from the start of the run.
 samples=()
 rss_before="$(rss_kib)"
 ( for _ in $(seq 0 5 "$soak"); do rss_kib; sleep 5; done ) >"$work/rss" &

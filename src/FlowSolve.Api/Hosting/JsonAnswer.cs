@@ -14,8 +14,8 @@ public sealed class JsonAnswer(object value, int statusCode) : IResult, IStatusC
 {
     [ThreadStatic] private static ArrayBufferWriter<byte>? t_buffer;
     [ThreadStatic] private static Utf8JsonWriter? t_writer;
-    [ThreadStatic] private static JsonSerializerOptions? t_writerFor;
-    private static SerializerPair? s_serializer;
+    [ThreadStatic] private static Settings? t_writerFor;
+    private static Settings? s_settings;
 
     public int? StatusCode => statusCode;
     public object? Value => value;
@@ -27,21 +27,16 @@ public sealed class JsonAnswer(object value, int statusCode) : IResult, IStatusC
     {
         var buffer = t_buffer ??= new ArrayBufferWriter<byte>(4096);
         buffer.ResetWrittenCount();
-        // The options Ok<T> itself would use (the HTTP pipeline's: its encoder differs from JsonSetup.Options'), and a
-        // writer made with the same encoder, since a writer's own options decide the escaping.
-        var options = httpContext.RequestServices.GetRequiredService<Microsoft.Extensions.Options.IOptions<Microsoft.AspNetCore.Http.Json.JsonOptions>>()
-            .Value.SerializerOptions;
-        if (t_writer is null || !ReferenceEquals(t_writerFor, options))
+        var settings = Settings.For(httpContext.RequestServices
+            .GetRequiredService<Microsoft.Extensions.Options.IOptions<Microsoft.AspNetCore.Http.Json.JsonOptions>>().Value.SerializerOptions);
+        if (t_writer is null || !ReferenceEquals(t_writerFor, settings))
         {
-            t_writer = new Utf8JsonWriter(buffer, new JsonWriterOptions
-            {
-                Encoder = options.Encoder, Indented = options.WriteIndented, MaxDepth = options.MaxDepth, SkipValidation = true,
-            });
-            t_writerFor = options;
+            t_writer = new Utf8JsonWriter(buffer, settings.Writer);
+            t_writerFor = settings;
         }
         var writer = t_writer;
         writer.Reset(buffer);
-        JsonSerializer.Serialize(writer, value, value.GetType(), Serializing(options));
+        JsonSerializer.Serialize(writer, value, value.GetType(), settings.Serializer);
         writer.Flush();
         var response = httpContext.Response;
         response.StatusCode = statusCode;
@@ -55,21 +50,36 @@ public sealed class JsonAnswer(object value, int statusCode) : IResult, IStatusC
     }
 
     /// <summary>
-    /// The pipeline's options without their encoder, for the serializer only. System.Text.Json uses the generated
+    /// What one host's JSON options (the HTTP pipeline's, which <c>Ok&lt;T&gt;</c> uses, with another encoder than
+    /// <see cref="JsonSetup.Options"/>) give an answer: a writer with their encoder, since a writer's own options decide
+    /// the escaping, and for the serializer the same options without an encoder. System.Text.Json uses the generated
     /// serialisation code of <see cref="ApiJsonContext"/> (straight-line writes, no per-property metadata walk) only when
-    /// the options carry no encoder of their own; ASP.NET Core's carry the relaxed one. Escaping is the writer's business,
-    /// and the writer above is made with the pipeline's encoder, so the bytes do not change (a test compares them with
-    /// <c>Ok&lt;T&gt;</c>'s, strings that the two encoders escape differently included).
+    /// the options carry no encoder; ASP.NET Core's carry the relaxed one. The bytes do not change (a test compares them
+    /// with <c>Ok&lt;T&gt;</c>'s, strings that the two encoders escape differently included).
     /// </summary>
-    private static JsonSerializerOptions Serializing(JsonSerializerOptions pipeline)
+    private sealed class Settings
     {
-        var pair = s_serializer;
-        if (pair is not null && ReferenceEquals(pair.Pipeline, pipeline)) return pair.WithoutEncoder;
-        var withoutEncoder = new JsonSerializerOptions(pipeline) { Encoder = null };
-        withoutEncoder.MakeReadOnly();
-        s_serializer = new SerializerPair(pipeline, withoutEncoder);
-        return withoutEncoder;
-    }
+        private Settings(JsonSerializerOptions pipeline)
+        {
+            Pipeline = pipeline;
+            Writer = new JsonWriterOptions
+            {
+                Encoder = pipeline.Encoder, Indented = pipeline.WriteIndented, MaxDepth = pipeline.MaxDepth, SkipValidation = true,
+            };
+            Serializer = new JsonSerializerOptions(pipeline) { Encoder = null };
+            Serializer.MakeReadOnly();
+        }
 
-    private sealed record SerializerPair(JsonSerializerOptions Pipeline, JsonSerializerOptions WithoutEncoder);
+        public JsonSerializerOptions Pipeline { get; }
+        public JsonWriterOptions Writer { get; }
+        public JsonSerializerOptions Serializer { get; }
+
+        /// <summary>Built once per options instance (one per host; several hosts share a test process).</summary>
+        public static Settings For(JsonSerializerOptions pipeline)
+        {
+            var settings = s_settings;
+            if (settings is not null && ReferenceEquals(settings.Pipeline, pipeline)) return settings;
+            return s_settings = new Settings(pipeline);
+        }
+    }
 }

@@ -85,13 +85,17 @@ public static class BatchEndpoints
             detail: $"The batch holds more than {limit} rows, the configured limit (FlowSolve:Limits:BatchRows). Split it.",
             extensions: new Dictionary<string, object?> { ["limit"] = "batchRows", ["maximumRows"] = limit });
 
+    /// <summary>Reading the array keeps a row with a repeated key whole, so that the row's own binding refuses it and only
+    /// that row fails (the same rule, per row, as a single call).</summary>
+    private static readonly JsonSerializerOptions RowReadOptions = new(JsonSetup.Options) { AllowDuplicateProperties = true };
+
     private static async Task<IResult> RunJson(CalculationDescriptor descriptor, HttpContext http, int limit, double timeBudget, ILogger logger, CancellationToken ct)
     {
         // Rows are read one element at a time; at most `limit` of them are held before the answer starts.
         var rows = new List<JsonElement>();
         try
         {
-            await foreach (var element in JsonSerializer.DeserializeAsyncEnumerable<JsonElement>(http.Request.Body, JsonSetup.Options, ct))
+            await foreach (var element in JsonSerializer.DeserializeAsyncEnumerable<JsonElement>(http.Request.Body, RowReadOptions, ct))
             {
                 if (rows.Count == limit) return TooMany(limit);
                 rows.Add(element);
@@ -99,7 +103,9 @@ public static class BatchEndpoints
         }
         catch (JsonException e)
         {
-            return ProblemResults.BadInput("body", $"must be a JSON array of request objects ({e.Message.Split('.')[0]})");
+            // Our own words, with where the reader stopped; the serializer's message names .NET types.
+            string where = e.LineNumber is long line ? $" (the JSON stops being one at line {line + 1}, byte {(e.BytePositionInLine ?? 0) + 1})" : "";
+            return ProblemResults.BadInput("body", "must be a JSON array of request objects, [{...}, {...}]" + where);
         }
 
         http.Response.ContentType = "application/json; charset=utf-8";
@@ -160,6 +166,13 @@ public static class BatchEndpoints
         if (header is null || header.All(h => h.Trim().Length == 0))
             return ProblemResults.BadInput("body", "CSV needs a header row of request field names");
         for (int i = 0; i < header.Count; i++) header[i] = header[i].Trim().TrimStart('\uFEFF');
+        var repeated = header.Where(h => h.Length > 0).GroupBy(h => h, StringComparer.OrdinalIgnoreCase).FirstOrDefault(g => g.Count() > 1);
+        if (repeated is not null)
+            return ProblemResults.BadInput(repeated.Key, "is a column of the header more than once; give each field once");
+        // Columns whose request field is a number: their cells follow the query's invariant grammar (a decimal comma is
+        // refused, naming the field, rather than read as text or as a number with a thousands separator).
+        var numeric = header.Select(h => IsNumericField(descriptor.RequestType, h)).ToArray();
+        var cellErrors = new Dictionary<int, (string Field, string Message)>();
 
         // Each row is turned into its request's UTF-8 JSON as it is read and kept in one growing buffer (a few hundred
         // bytes a row, no objects per row survive the read), so that the 413 for too many rows comes before any answer.
@@ -172,6 +185,15 @@ public static class BatchEndpoints
             {
                 if (record.All(f => f.Trim().Length == 0)) continue; // blank line
                 if (ends.Count == limit) return TooMany(limit);
+                for (int c = 0; c < record.Count && c < numeric.Length; c++)
+                {
+                    var cell = record[c].AsSpan().Trim();
+                    if (numeric[c] && cell.Length > 0 && StrictQuery.NumberProblem(cell) is { } problem)
+                    {
+                        cellErrors.TryAdd(ends.Count, (header[c], problem));
+                        break;
+                    }
+                }
                 Csv.WriteJson(json, plan, record);
                 json.Flush();
                 json.Reset(store);
@@ -198,7 +220,9 @@ public static class BatchEndpoints
                 break;
             }
             int start = i == 0 ? 0 : ends[i - 1];
-            var (status, value) = RunRow(descriptor, store.WrittenSpan[start..ends[i]], logger);
+            var (status, value) = cellErrors.TryGetValue(i, out var bad)
+                ? (400, Problem(bad.Field, bad.Message))
+                : RunRow(descriptor, store.WrittenSpan[start..ends[i]], logger);
             (status < 300 ? okRows : errorRows).Inc();
             line.Clear().Append(i + 1).Append(',').Append(status).Append(',');
             if (status is >= 200 and < 300)
@@ -252,6 +276,20 @@ public static class BatchEndpoints
             // A defect, not the row's fault: report it on the row and carry on with the others.
             return (500, new ProblemDetails { Status = 500, Title = "An internal error occurred.", Detail = "this row could not be calculated (a defect in FlowSolve; it has been logged)" });
         }
+    }
+
+    /// <summary>True when a (dotted) CSV header names a numeric field of the request type.</summary>
+    private static bool IsNumericField(Type requestType, string header)
+    {
+        Type? t = requestType;
+        foreach (var part in header.Split('.'))
+        {
+            var p = t?.GetProperty(part, System.Reflection.BindingFlags.Public | System.Reflection.BindingFlags.Instance | System.Reflection.BindingFlags.IgnoreCase);
+            if (p is null) return false;
+            t = p.PropertyType;
+        }
+        t = Nullable.GetUnderlyingType(t!) ?? t;
+        return t == typeof(double) || t == typeof(int) || t == typeof(float) || t == typeof(long) || t == typeof(decimal);
     }
 
     private static HttpValidationProblemDetails Problem(string field, string message) =>

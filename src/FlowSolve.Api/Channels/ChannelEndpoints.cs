@@ -254,7 +254,8 @@ public static class ChannelEndpoints
 
     private static bool QuotesFigures(ChannelWarningCode code) => code is ChannelWarningCode.TwoNormalDepths
         or ChannelWarningCode.MultipleNormalDepths or ChannelWarningCode.ExceedsCapacity or ChannelWarningCode.ConveyanceJump
-        or ChannelWarningCode.MultipleCriticalDepths or ChannelWarningCode.NoCriticalDepthInSection;
+        or ChannelWarningCode.MultipleCriticalDepths or ChannelWarningCode.NoCriticalDepthInSection
+        or ChannelWarningCode.VelocityAboveDesignRange or ChannelWarningCode.VelocityBelowDesignRange;
 
     private static List<AssumptionDto> CommonAssumptions(List<AssumptionDto> list, string? unitsText, ChannelUnits units, double? n)
     {

@@ -16,8 +16,28 @@ public static class CheckEndpoints
 {
     public const double DefaultTolerancePercent = 0.5;
 
-    /// <summary>How close a claim must be to an alternative to name it as the likely cause: 0.01 percent.</summary>
+    /// <summary>The least tolerance for naming an alternative as the likely cause: 0.01 percent. A claim written with
+    /// fewer digits gets half a unit in its last digit (0.0486 matches anything from 0.04855 to 0.04865).</summary>
     private const double CauseMatchPercent = 0.01;
+
+    /// <summary>How close an alternative must be to the claim, in percent: half a unit in the claim's last written digit
+    /// relative to the claim (0.0486: 0.00005 / 0.0486 = 0.103 percent), at least <see cref="CauseMatchPercent"/> and
+    /// at most 1 percent.</summary>
+    public static double MatchPercent(string claimText)
+    {
+        string text = claimText.Trim().TrimStart('-', '+');
+        int e = text.IndexOfAny(['e', 'E']);
+        int exponent = e >= 0 && int.TryParse(text[(e + 1)..], System.Globalization.NumberStyles.AllowLeadingSign, CultureInfo.InvariantCulture, out int x) ? x : 0;
+        string mantissa = e >= 0 ? text[..e] : text;
+        int point = mantissa.IndexOf('.');
+        int decimals = point < 0 ? 0 : mantissa.Length - point - 1;
+        if (!double.TryParse(text, System.Globalization.NumberStyles.Float, CultureInfo.InvariantCulture, out double value) || value == 0)
+            return CauseMatchPercent;
+        double halfUnit = 0.5 * Math.Pow(10, exponent - decimals);
+        double percent = halfUnit / Math.Abs(value) * 100;
+        // At least the fixed 0.01 percent; at most 1 percent, so a claim of one or two digits is not matched to anything near.
+        return double.IsFinite(percent) ? Math.Clamp(percent, CauseMatchPercent, 1.0) : CauseMatchPercent;
+    }
 
     /// <summary>Water temperatures a spreadsheet commonly uses by mistake (degrees C): the usual table rows.</summary>
     private static readonly double[] CommonTemperatures = [0, 4, 5, 10, 12, 15, 16, 20, 25, 30, 35, 40, 50, 60, 70, 80, 90, 100];
@@ -60,10 +80,19 @@ public static class CheckEndpoints
         if (!catalog.TryGet(calculation, out var descriptor) || calculation.StartsWith("check/", StringComparison.OrdinalIgnoreCase))
             return TypedResults.Problem(statusCode: 404, title: "No such calculation.",
                 detail: $"'{calculation}' is not a calculation. Available: {string.Join(", ", catalog.All.Where(c => !c.Name.StartsWith("check/", StringComparison.Ordinal)).Select(c => c.Name).Order())}.");
+        if (!http.Request.HasJsonContentType())
+            return TypedResults.Problem(statusCode: 415, title: "Unsupported media type.",
+                detail: "The body must be JSON with Content-Type: application/json.");
         JsonObject? body;
         try
         {
-            body = await JsonSerializer.DeserializeAsync<JsonObject>(http.Request.Body, JsonSetup.Options, http.RequestAborted);
+            // Read whole (the body-size limit bounds it) so that a key given twice is refused, naming it, before parsing.
+            using var buffer = new MemoryStream();
+            await http.Request.Body.CopyToAsync(buffer, http.RequestAborted);
+            var bytes = new ReadOnlySpan<byte>(buffer.GetBuffer(), 0, (int)buffer.Length);
+            if (JsonDuplicates.Find(bytes) is { } repeated)
+                return ProblemResults.BadInput(repeated, "is given more than once in the same JSON object; give each key once");
+            body = JsonSerializer.Deserialize<JsonObject>(bytes, JsonSetup.Options);
         }
         catch (JsonException e)
         {
@@ -104,22 +133,29 @@ public static class CheckEndpoints
                 errors.Add("claimed." + field, "is not a scalar output field of " + descriptor.Name);
                 continue;
             }
-            if (claim is null || claim.GetValueKind() is JsonValueKind.Object or JsonValueKind.Array)
+            if (exact.ValueKind == JsonValueKind.Number)
             {
-                errors.Add("claimed." + field, "must be a number or a text value");
-                continue;
-            }
-            if (exact.ValueKind == JsonValueKind.Number && claim.GetValueKind() == JsonValueKind.Number)
-            {
+                // A numeric output takes a finite JSON number only: not a string ("NaN", "0.0486"), not true or false.
+                if (claim is null || claim.GetValueKind() != JsonValueKind.Number || !double.IsFinite(claim.GetValue<double>()))
+                {
+                    errors.Add("claimed." + field, "must be a finite JSON number (not a string, boolean or null)");
+                    continue;
+                }
                 double c = claim.GetValue<double>(), x = exact.GetDouble();
                 double? percent = x == 0 ? null : (c / x - 1) * 100;
-                bool pass = percent is double p ? Math.Abs(p) <= tolerance : c == 0;
-                string? cause = pass ? null : LikelyCause(descriptor, inputs, result, field, c);
+                if (percent is double q && !double.IsFinite(q)) percent = null; // a claim some 1e300 times the value
+                bool pass = percent is double p ? Math.Abs(p) <= tolerance : c == x;
+                string? cause = pass ? null : LikelyCause(descriptor, inputs, result, field, c, MatchPercent(claim.ToJsonString()));
                 checks.Add(new ClaimCheckDto(field, c, x, c - x, percent, pass, cause));
             }
             else
             {
-                string c = claim.GetValueKind() == JsonValueKind.String ? claim.GetValue<string>() : claim.ToJsonString();
+                if (claim is null || claim.GetValueKind() != JsonValueKind.String)
+                {
+                    errors.Add("claimed." + field, "must be a JSON string: this output is text");
+                    continue;
+                }
+                string c = claim.GetValue<string>();
                 string x = exact.ValueKind == JsonValueKind.String ? exact.GetString()! : exact.GetRawText();
                 checks.Add(new ClaimCheckDto(field, c, x, null, null, string.Equals(c, x, StringComparison.OrdinalIgnoreCase), null));
             }
@@ -155,9 +191,10 @@ public static class CheckEndpoints
     }
 
     /// <summary>What a wrong claim matches instead, tried in order of how often spreadsheets make the mistake.</summary>
-    private static string? LikelyCause(CalculationDescriptor descriptor, JsonObject inputs, JsonElement result, string field, double claim)
+    private static string? LikelyCause(CalculationDescriptor descriptor, JsonObject inputs, JsonElement result, string field, double claim,
+        double matchPercent)
     {
-        static bool Near(double a, double b) => b != 0 && Math.Abs(a / b - 1) * 100 <= CauseMatchPercent;
+        bool Near(double a, double b) => b != 0 && Math.Abs(a / b - 1) * 100 <= matchPercent;
         var c = CultureInfo.InvariantCulture;
 
         // An explicit approximation in place of the exact friction factor (the response lists them all).
@@ -165,8 +202,8 @@ public static class CheckEndpoints
         {
             foreach (var a in approximations.EnumerateArray())
                 if (a.TryGetProperty("frictionFactor", out var f) && f.ValueKind == JsonValueKind.Number && Near(claim, f.GetDouble()))
-                    return string.Format(c, "the claim matches the {0} approximation ({1:G6}) to {2} percent: the exact Colebrook-White value was not used",
-                        a.GetProperty("method").GetString(), f.GetDouble(), CauseMatchPercent);
+                    return string.Format(c, "the claim matches the {0} approximation ({1:G6}) to {2:G2} percent (the claim's own precision): the exact Colebrook-White value was not used",
+                        a.GetProperty("method").GetString(), f.GetDouble(), matchPercent);
             if (result.TryGetProperty("reynolds", out var re) && Near(claim, 64 / re.GetDouble()))
                 return "the claim matches the laminar law 64/Re, which does not apply at this Reynolds number";
         }

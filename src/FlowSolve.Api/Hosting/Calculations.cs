@@ -19,8 +19,21 @@ public sealed class CalculationDescriptor(string name, string primaryOutput, Typ
     public Type RequestType { get; } = requestType;
     public Type ResponseType { get; } = responseType;
 
-    /// <summary>Runs the calculation on a request already bound from JSON.</summary>
-    public IResult Invoke(object request) => invoke(request);
+    /// <summary>Runs the calculation on a request already bound from JSON, through <see cref="CalculationGuard"/> as the
+    /// HTTP routes do (non-finite numbers and arguments the Core refuses become 422s).</summary>
+    public IResult Invoke(object request)
+    {
+        IResult result;
+        try
+        {
+            result = invoke(request);
+        }
+        catch (Exception e) when (CalculationGuard.FromException(Name, e) is { } problem)
+        {
+            return problem;
+        }
+        return CalculationGuard.Review(Name, result, strict: false);
+    }
 
     /// <summary>Binds a JSON object to the request type with the API's JSON rules (unknown fields rejected).</summary>
     public object? Bind(JsonElement json) => json.Deserialize(RequestType, JsonSetup.Options);
@@ -55,14 +68,31 @@ public static class CalculationExtensions
     public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput, bool text = true)
     {
         var metadata = new CalculationMetadata(name, primaryOutput, text);
-        return builder.WithMetadata(metadata).AddEndpointFilterFactory((_, next) =>
+        return builder.WithMetadata(metadata).AddEndpointFilterFactory((factory, next) =>
         {
             var textFilter = new TextFormatFilter();
             var htmlFilter = new FlowSolve.Api.Sheets.HtmlFormatFilter();
+            // The request record among the handler's arguments: the one trace=true in a POST's query is applied to.
+            int requestIndex = Array.FindIndex(factory.MethodInfo.GetParameters(), p => RequestTrace.Applies(p.ParameterType));
             EndpointFilterDelegate measured = async context =>
             {
-                object? result = await next(context);
-                if (result is IResult r) SolverMetrics.Record(metadata.Name, r.Unwrap().Value);
+                var http = context.HttpContext;
+                if (requestIndex >= 0 && HttpMethods.IsPost(http.Request.Method) && RequestTrace.Asked(http))
+                    context.Arguments[requestIndex] = RequestTrace.With(context.Arguments[requestIndex]);
+                object? result;
+                try
+                {
+                    result = await next(context);
+                }
+                catch (Exception e) when (CalculationGuard.FromException(metadata.Name, e) is { } problem)
+                {
+                    result = problem;
+                }
+                if (result is IResult r)
+                {
+                    result = CalculationGuard.Review(metadata.Name, r, CalculationGuard.IsStrict(http));
+                    SolverMetrics.Record(metadata.Name, ((IResult)result).Unwrap().Value);
+                }
                 return result;
             };
             return context =>
@@ -105,10 +135,15 @@ public sealed class ResponseColumn
 {
     private readonly Action<object, System.Text.StringBuilder> _write;
 
+    private readonly Action<object, System.Text.StringBuilder>? _text;
+
     public ResponseColumn(string name, System.Reflection.PropertyInfo[] path)
     {
         Name = name;
         _write = CellWriter.Compile(path);
+        // Only text cells differ between CSV and plain text (quoting); numbers, booleans and empty cells are alike.
+        var leaf = path[^1].PropertyType;
+        if (leaf == typeof(string) || !leaf.IsValueType && Nullable.GetUnderlyingType(leaf) is null) _text = CellWriter.Compile(path, plain: true);
     }
 
     public string Name { get; }
@@ -117,6 +152,14 @@ public sealed class ResponseColumn
     /// invariant culture), so a CSV cell equals the single call's JSON digit for digit; text is quoted when it holds a
     /// comma, quote or line break; a missing value (a null on the path) writes nothing.</summary>
     public void Write(object response, System.Text.StringBuilder cell) => _write(response, cell);
+
+    /// <summary>The value as one plain-text answer (<c>format=text</c>): as <see cref="Write"/>, but text is not quoted
+    /// for CSV and warnings are separated by commas.</summary>
+    public void WriteText(object response, System.Text.StringBuilder cell)
+    {
+        if (_text is null) _write(response, cell);
+        else _text(response, cell);
+    }
 
     /// <summary>The value as cell text (see <see cref="Write"/>).</summary>
     public string Read(object response)
@@ -132,7 +175,7 @@ internal static class CellWriter
 {
     private static readonly System.Globalization.CultureInfo Invariant = System.Globalization.CultureInfo.InvariantCulture;
 
-    public static Action<object, System.Text.StringBuilder> Compile(System.Reflection.PropertyInfo[] path)
+    public static Action<object, System.Text.StringBuilder> Compile(System.Reflection.PropertyInfo[] path, bool plain = false)
     {
         var response = Expression.Parameter(typeof(object), "response");
         var cell = Expression.Parameter(typeof(System.Text.StringBuilder), "cell");
@@ -150,7 +193,7 @@ internal static class CellWriter
                 body.Add(Expression.IfThen(Expression.Equal(step, Expression.Constant(null, step.Type)), Expression.Return(end)));
             current = step;
         }
-        body.Add(Expression.Call(Appender(current.Type), cell, current));
+        body.Add(Expression.Call(plain ? PlainAppender(current.Type) : Appender(current.Type), cell, current));
         body.Add(Expression.Label(end));
         return Expression.Lambda<Action<object, System.Text.StringBuilder>>(Expression.Block(variables, body), response, cell).Compile();
     }
@@ -164,6 +207,27 @@ internal static class CellWriter
         if (Nullable.GetUnderlyingType(type) is { } underlying)
             return typeof(CellWriter).GetMethod(nameof(AppendNullable))!.MakeGenericMethod(underlying);
         return typeof(CellWriter).GetMethod(nameof(AppendObject))!.MakeGenericMethod(type);
+    }
+
+    private static System.Reflection.MethodInfo PlainAppender(Type type)
+    {
+        if (type == typeof(string)) return typeof(CellWriter).GetMethod(nameof(AppendPlain))!;
+        if (typeof(IEnumerable<Contracts.WarningDto>).IsAssignableFrom(type)) return typeof(CellWriter).GetMethod(nameof(AppendWarningsPlain))!;
+        return Appender(type);
+    }
+
+    public static void AppendPlain(System.Text.StringBuilder cell, string? value) => cell.Append(value);
+
+    public static void AppendWarningsPlain(System.Text.StringBuilder cell, IEnumerable<Contracts.WarningDto>? warnings)
+    {
+        if (warnings is null) return;
+        bool first = true;
+        foreach (var w in warnings)
+        {
+            if (!first) cell.Append(',');
+            cell.Append(w.Code);
+            first = false;
+        }
     }
 
     public static void Append(System.Text.StringBuilder cell, double value) => cell.Append(Invariant, $"{value:R}");
@@ -219,6 +283,12 @@ internal static class CellWriter
 /// <summary>Works out the flat column list of a response type (reflection once per calculation, at start-up).</summary>
 internal static class ResponseColumns
 {
+    private static readonly System.Collections.Concurrent.ConcurrentDictionary<Type, IReadOnlyDictionary<string, ResponseColumn>> Named = new();
+
+    /// <summary>The columns of a response type by wire name (case-insensitive), built once per type.</summary>
+    public static IReadOnlyDictionary<string, ResponseColumn> ByName(Type type) =>
+        Named.GetOrAdd(type, t => For(t).ToDictionary(c => c.Name, StringComparer.OrdinalIgnoreCase));
+
     public static IReadOnlyList<ResponseColumn> For(Type type)
     {
         var columns = new List<ResponseColumn>();

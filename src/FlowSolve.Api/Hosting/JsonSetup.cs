@@ -17,6 +17,8 @@ public static class JsonSetup
         o.UnmappedMemberHandling = JsonUnmappedMemberHandling.Disallow;
         o.NumberHandling = JsonNumberHandling.Strict;
         o.MaxDepth = 32;
+        // A key given twice in one object is refused (400 naming it) rather than the last one silently winning.
+        o.AllowDuplicateProperties = false;
         // Generated metadata first for the calculations' own types; reflection for everything else.
         if (!o.TypeInfoResolverChain.Contains(ApiJsonContext.Default))
         {

@@ -3,7 +3,7 @@ using Prometheus;
 namespace FlowSolve.Api.Hosting;
 
 /// <summary>A response that came from a solve: what the solver metrics read, without serialising the response.</summary>
-public interface ISolveSummary
+public interface ISolveSummary : IWarned
 {
     int Iterations { get; }
     bool Converged { get; }

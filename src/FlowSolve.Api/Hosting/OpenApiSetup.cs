@@ -109,9 +109,26 @@ public static class OpenApiSetup
                 if (calc.Text) operation.Parameters.Add(new OpenApiParameter
                 {
                     Name = "select", In = ParameterLocation.Query,
-                    Description = "With format=text: the output field to return instead of " + calc.PrimaryOutput + " (dotted for nested fields).",
+                    Description = "With format=text: the output field to return instead of " + calc.PrimaryOutput + " (dotted for nested fields). " +
+                        "select=warnings returns the answer's warning codes separated by commas (empty when there are none), so a cell beside " +
+                        "the number can show every doubt.",
                     Schema = new OpenApiSchema { Type = JsonSchemaType.String },
                 });
+                operation.Parameters.Add(new OpenApiParameter
+                {
+                    Name = "strict", In = ParameterLocation.Query,
+                    Description = "When true, an answer that carries any warning is refused with 422 whose body names the warning codes " +
+                        "(one line 'error: strict: ...' with format=text), so a spreadsheet cell shows an error instead of a doubtful number.",
+                    Schema = new OpenApiSchema { Type = JsonSchemaType.Boolean },
+                });
+                if (context.ApiDescription.HttpMethod == "POST" && operation.RequestBody is not null
+                    && context.ApiDescription.ParameterDescriptions.Any(d => d.Source.Id == "Body" && d.Type.GetProperty("Trace", typeof(bool?)) is not null))
+                    operation.Parameters.Add(new OpenApiParameter
+                    {
+                        Name = "trace", In = ParameterLocation.Query,
+                        Description = "When true, include the solver's per-iteration record, as the body's own trace field does. Every other input of a POST belongs in the body: any other query parameter answers 400.",
+                        Schema = new OpenApiSchema { Type = JsonSchemaType.Boolean },
+                    });
                 if (operation.Responses?.TryGetValue("200", out var ok) == true && ok is OpenApiResponse okResponse)
                 {
                     okResponse.Content ??= new Dictionary<string, IOpenApiMediaType>();

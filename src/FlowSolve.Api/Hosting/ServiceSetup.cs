@@ -46,6 +46,8 @@ public static class ServiceSetup
         });
         app.UseStatusCodePages();
         app.UseFlowSolveProtection();
+        // After the API key and rate limit, before any binding: a query is understood exactly or refused.
+        app.UseMiddleware<StrictQuery>();
         app.UseFlowSolveMetrics();
         app.UseFlowSolveOpenApi();
         app.MapHealthChecks("/health/live", new() { Predicate = _ => false });

@@ -40,10 +40,23 @@ public sealed class TextFormatFilter : IEndpointFilter
 
         if (status is >= 200 and < 300 && value is not null)
         {
+            // Read straight from the answer through the compiled column readers the batch uses: no serialisation of the
+            // whole answer for one cell, and the same digits as the JSON answer and a CSV row.
+            if (field.Equals("warnings", StringComparison.OrdinalIgnoreCase))
+                return TypedResults.Text(value is IWarned w ? string.Join(",", w.WarningCodes()) : "", "text/plain", Encoding.UTF8, status);
+            var columns = ResponseColumns.ByName(value.GetType());
+            if (columns.TryGetValue(field, out var column))
+            {
+                var cell = new StringBuilder(24);
+                column.WriteText(value, cell);
+                return TypedResults.Text(cell.ToString(), "text/plain", Encoding.UTF8, status);
+            }
+            // Fields that are not columns (an entry of sensitivities, say) are read from the answer's JSON.
             var json = JsonSerializer.SerializeToElement(value, value.GetType(), JsonSetup.Options);
             if (TryRead(json, field, out string? text)) return TypedResults.Text(text, "text/plain", Encoding.UTF8, status);
-            var names = string.Join(", ", TextFields(json));
-            return TypedResults.Text($"error: select: no output field named '{field}' (fields: {names})", "text/plain", Encoding.UTF8, 400);
+            string? near = StrictQuery.Closest(field, columns.Keys);
+            return TypedResults.Text($"error: select: no output field named '{field}'" + (near is null ? "" : $"; did you mean '{near}'?") +
+                $" (fields: {string.Join(", ", columns.Keys)})", "text/plain", Encoding.UTF8, 400);
         }
         return TypedResults.Text(ErrorLine(value), "text/plain", Encoding.UTF8, status);
     }
@@ -57,31 +70,21 @@ public sealed class TextFormatFilter : IEndpointFilter
         return "error: the request failed";
     }
 
-    /// <summary>Reads a (dotted) field as cell text: numbers round-trip in invariant culture, strings as they are.</summary>
-    public static bool TryRead(JsonElement json, string path, out string text)
+    /// <summary>Reads a (dotted) scalar field of a JSON answer as cell text: numbers as the JSON writer wrote them.</summary>
+    private static bool TryRead(JsonElement json, string path, out string text)
     {
         var e = json;
+        text = "";
         foreach (var part in path.Split('.'))
-        {
-            if (e.ValueKind != JsonValueKind.Object || !e.TryGetProperty(part, out e))
-            {
-                text = "";
-                return false;
-            }
-        }
+            if (e.ValueKind != JsonValueKind.Object || !e.TryGetProperty(part, out e)) return false;
         text = e.ValueKind switch
         {
-            // The JSON writer already produced the shortest round-trip form in invariant culture; keep it digit for digit.
             JsonValueKind.Number => e.GetRawText(),
             JsonValueKind.String => e.GetString() ?? "",
             JsonValueKind.True => "TRUE",
             JsonValueKind.False => "FALSE",
-            JsonValueKind.Null => "",
-            _ => e.GetRawText(),
+            _ => "",
         };
-        return e.ValueKind is not (JsonValueKind.Array or JsonValueKind.Object);
+        return e.ValueKind is not (JsonValueKind.Array or JsonValueKind.Object or JsonValueKind.Null);
     }
-
-    private static IEnumerable<string> TextFields(JsonElement json) =>
-        json.EnumerateObject().Where(p => p.Value.ValueKind is not (JsonValueKind.Array or JsonValueKind.Object)).Select(p => p.Name);
 }

@@ -12,7 +12,7 @@ public static class Units
     public const double Pound = 0.45359237;
 
     /// <summary>Standard gravity 9.80665 m/s2 (exact; defines the pound-force).</summary>
-    public const double StandardGravity = 9.80665;
+    public const double StandardGravity = Core.Physical.StandardGravity;
 
     /// <summary>1 lbf = 0.45359237 kg x 9.80665 m/s2 = 4.4482216152605 N exactly.</summary>
     public const double PoundForce = Pound * StandardGravity;
@@ -115,30 +115,50 @@ public readonly record struct UnitSystem(bool IsUs)
 }
 
 /// <summary>
-/// The unit a volumetric flow is given and reported in: m3/s with SI; ft3/s (default) or US gallons per minute
-/// (<c>flowUnit=gpm</c>) with US customary units. Exact factors (NIST SP 811, 2008, appendix B).
+/// The unit a volumetric flow is given and reported in: m3/s (default), litres per second (<c>l/s</c>) or cubic metres
+/// per hour (<c>m3/h</c>) with SI; ft3/s (default) or US gallons per minute (<c>gpm</c>) with US customary units. Exact
+/// factors (NIST SP 811, 2008, appendix B; 1 L = 1e-3 m3 exactly).
 /// </summary>
-/// <param name="Code">The wire code: <c>m3/s</c>, <c>ft3/s</c> or <c>gpm</c>.</param>
+/// <param name="Code">The wire code: <c>m3/s</c>, <c>l/s</c>, <c>m3/h</c>, <c>ft3/s</c> or <c>gpm</c>.</param>
 /// <param name="CubicMetresPerUnit">One of this unit in m3/s.</param>
 public readonly record struct FlowUnit(string Code, double CubicMetresPerUnit)
 {
     public static FlowUnit CubicMetrePerSecond => new("m3/s", 1.0);
 
+    public static FlowUnit LitrePerSecond => new("l/s", 1e-3);
+
+    public static FlowUnit CubicMetrePerHour => new("m3/h", 1.0 / 3600);
+
     public static FlowUnit CubicFootPerSecond => new("ft3/s", Units.CubicFoot);
 
     public static FlowUnit UsGallonPerMinute => new("gpm", Units.UsGallonPerMinute);
 
+    /// <summary>The codes each unit system takes, its default first.</summary>
+    public static string Codes(UnitSystem units) => units.IsUs ? "ft3/s (default) or gpm" : "m3/s (default), l/s or m3/h";
+
+    /// <summary>The text every flowUnit field's description uses.</summary>
+    public const string Description =
+        "Unit of every flow in the request and response: m3/s (default), l/s or m3/h with units=si; ft3/s (default) or gpm " +
+        "(US gallons per minute, 231 in3) with units=us.";
+
     /// <summary>The default flow unit of a unit system.</summary>
     public static FlowUnit DefaultFor(UnitSystem units) => units.IsUs ? CubicFootPerSecond : CubicMetrePerSecond;
 
-    /// <summary>Parses <c>m3/s</c> (SI only), <c>ft3/s</c> or <c>gpm</c> (US only), case-insensitive; absent means the
-    /// unit system's default. An error is recorded under <c>flowUnit</c> for anything else.</summary>
-    public static FlowUnit Parse(string? text, UnitSystem units, FieldErrors errors)
+    /// <summary>Parses a flow unit of the request's unit system, case-insensitive; absent means the unit system's
+    /// default. An error is recorded under <c>flowUnit</c> for anything else.</summary>
+    public static FlowUnit Parse(string? text, UnitSystem units, FieldErrors errors) => Parse(text, units, errors.Add);
+
+    /// <summary>As <see cref="Parse(string?, UnitSystem, FieldErrors)"/>, recording the error through <paramref name="error"/>.</summary>
+    public static FlowUnit Parse(string? text, UnitSystem units, Action<string, string> error)
     {
         var unit = DefaultFor(units);
-        if (text is null || text.Equals(unit.Code, StringComparison.OrdinalIgnoreCase)) return unit;
-        if (units.IsUs && text.Equals(UsGallonPerMinute.Code, StringComparison.OrdinalIgnoreCase)) return UsGallonPerMinute;
-        errors.Add("flowUnit", units.IsUs ? "must be ft3/s or gpm" : "must be m3/s with units=si (ft3/s and gpm need units=us)");
+        if (text is null) return unit;
+        FlowUnit[] allowed = units.IsUs ? [CubicFootPerSecond, UsGallonPerMinute] : [CubicMetrePerSecond, LitrePerSecond, CubicMetrePerHour];
+        foreach (var a in allowed)
+            if (text.Equals(a.Code, StringComparison.OrdinalIgnoreCase)) return a;
+        error("flowUnit", units.IsUs
+            ? "must be ft3/s or gpm with units=us (m3/s, l/s and m3/h need units=si)"
+            : "must be m3/s, l/s or m3/h with units=si (ft3/s and gpm need units=us)");
         return unit;
     }
 

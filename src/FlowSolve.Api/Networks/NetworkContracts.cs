@@ -83,14 +83,14 @@ public sealed record NetworkSolveRequest(
     double? KinematicViscosity = null,
     [property: Description("Unit system of the request and response: si (default: m, m3/s, m/s, m2/s, degrees C) or us (ft, ft3/s, ft/s, ft2/s, degrees F).")]
     string? Units = null,
-    [property: Description("Flow unit: m3/s with units=si; ft3/s (default) or gpm (US gallons per minute) with units=us.")]
+    [property: Description(FlowUnit.Description)]
     string? FlowUnit = null,
     [property: Description("A name for the network, shown as the calculation sheet's subtitle; optional, at most 200 characters.")]
     string? Title = null);
 
 /// <summary>One pipe in a load case's answer.</summary>
 /// <param name="Id">The pipe's id.</param>
-/// <param name="Flow">Flow, positive from the pipe's 'from' node to its 'to' node (flow unit: m3/s, ft3/s or gpm).</param>
+/// <param name="Flow">Flow, positive from the pipe's 'from' node to its 'to' node (flow unit: m3/s, l/s, m3/h, ft3/s or gpm).</param>
 /// <param name="Velocity">Mean velocity Q/A, signed like the flow (m/s, or ft/s with units=us).</param>
 /// <param name="HeadLoss">Head at 'from' minus head at 'to' (m, or ft with units=us): for an open pipe the friction and minor losses, signed like the flow; for a closed pipe or check valve, the head held across it.</param>
 /// <param name="FrictionFactor">Darcy friction factor f (dimensionless); for a Hazen-Williams pipe the equivalent f = 2 g D hf / (L V^2); 0 at zero flow.</param>
@@ -163,7 +163,7 @@ public sealed record NetworkCaseDto(
 /// <param name="Converged">True when every load case converged.</param>
 /// <param name="Method">The relations and the algorithm used.</param>
 /// <param name="Units">si or us.</param>
-/// <param name="FlowUnit">m3/s, ft3/s or gpm.</param>
+/// <param name="FlowUnit">m3/s, l/s, m3/h, ft3/s or gpm.</param>
 /// <param name="HeadUnit">m or ft: heads, head losses, elevations.</param>
 /// <param name="VelocityUnit">m/s or ft/s.</param>
 /// <param name="KinematicViscosity">Kinematic viscosity used (m2/s, or ft2/s with units=us).</param>
@@ -173,4 +173,8 @@ public sealed record NetworkCaseDto(
 public sealed record NetworkSolveResponse(
     IReadOnlyList<NetworkCaseDto> Cases, int Iterations, bool Converged, string Method,
     string Units, string FlowUnit, string HeadUnit, string VelocityUnit, double KinematicViscosity,
-    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary;
+    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary
+{
+    /// <summary>The request's own warnings, then every load case's element warnings.</summary>
+    IEnumerable<string> IWarned.WarningCodes() => Warnings.Select(w => w.Code).Concat(Cases.SelectMany(c => c.Warnings.Select(w => w.Code)));
+}

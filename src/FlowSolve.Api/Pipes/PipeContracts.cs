@@ -9,7 +9,7 @@ namespace FlowSolve.Api.Pipes;
 /// <summary>Field descriptions shared by the pipe requests, so the three calculations describe a field the same way.</summary>
 internal static class PipeFields
 {
-    public const string Flow = "Volumetric flow Q, m3/s (ft3/s with units=us, or US gal/min with flowUnit=gpm); greater than 0.";
+    public const string Flow = "Volumetric flow Q, m3/s (or l/s or m3/h with flowUnit; ft3/s with units=us, or US gal/min with flowUnit=gpm); greater than 0.";
     public const string Diameter = "Inside diameter D, m (ft with units=us); at least 1e-6 m, at most 100 m.";
     public const string Length = "Pipe length L, m (ft with units=us); greater than 0, at most 1e7 m.";
     public const string Roughness = "Absolute roughness e, m (ft with units=us); 0 (smooth) or more and below the diameter. Give this or material, not both.";
@@ -25,7 +25,7 @@ internal static class PipeFields
     public const string Method = "darcy-weisbach (default: Darcy-Weisbach with the exact Colebrook-White friction factor) or hazen-williams (water only; needs hazenWilliamsC; the Darcy-Weisbach result is reported beside it).";
     public const string HazenWilliamsC = "Hazen-Williams C factor (dimensionless), with method=hazen-williams only; greater than 0, at most 1000 (tabulated values for real pipe run from about 40 to 150).";
     public const string Units = "Unit system of the whole request and response: si (default) or us (ft, ft/s, ft3/s, ft2/s, psi, lb/ft3, degrees F).";
-    public const string FlowUnit = "Unit of every flow in the request and response: m3/s with units=si; ft3/s (default) or gpm (US gallons per minute, 231 in3) with units=us.";
+    public const string FlowUnit = Hosting.FlowUnit.Description;
     public const string Trace = "When true, include the outer solver's per-iteration record (in the solve variable named by solveVariable, SI units).";
     public const string AvailableHead = "Head available to drive the flow besides elevation, m (ft with units=us): the pressure-head difference (p1 - p2)/(rho g) between inlet and outlet, or a pump's head, or for two reservoirs the difference of their levels (then leave elevationChange at 0). The friction and minor losses absorb headLoss - elevationChange; when that is not positive there is no forward flow (422). This is the inverse of head-loss's totalHead.";
     public const string AllowedHeadLoss = "Head available to the pipe besides elevation, m (ft with units=us), as for /v1/pipes/flow: without elevationChange it is the allowed friction + minor head loss; with it, the losses may use headLoss - elevationChange, which must be positive.";
@@ -200,7 +200,7 @@ public sealed record DarcyWeisbachComparisonDto(
 /// <param name="ElevationChange">z2 - z1 as used, m (ft with units=us).</param>
 /// <param name="TotalHead">HeadLoss + ElevationChange, m (ft with units=us): the head the pipe needs between its ends to carry this flow (what /v1/pipes/flow takes as headLoss).</param>
 /// <param name="TotalPressureDifference">rho g TotalHead, Pa (psi with units=us): inlet minus outlet pressure for a pipe of constant diameter; absent without a density.</param>
-/// <param name="Flow">Flow as used, in the flow unit (m3/s, ft3/s or gpm).</param>
+/// <param name="Flow">Flow as used, in the flow unit (m3/s, l/s, m3/h, ft3/s or gpm).</param>
 /// <param name="Diameter">Inside diameter as used, m (ft with units=us).</param>
 /// <param name="Velocity">Mean velocity V = 4Q/(pi D^2), m/s (ft/s with units=us).</param>
 /// <param name="VelocityHead">V^2/(2g), m (ft with units=us).</param>
@@ -220,7 +220,7 @@ public sealed record DarcyWeisbachComparisonDto(
 /// <param name="Status">solved or not-converged.</param>
 /// <param name="Method">darcy-weisbach or hazen-williams.</param>
 /// <param name="Units">si or us.</param>
-/// <param name="FlowUnit">The unit of every flow in this response: m3/s, ft3/s or gpm.</param>
+/// <param name="FlowUnit">The unit of every flow in this response: m3/s, l/s, m3/h, ft3/s or gpm.</param>
 /// <param name="Validity">Each relation's published (or common practice) range beside the values as used, in this response's units.</param>
 /// <param name="Warnings">Warnings with stable codes.</param>
 /// <param name="Assumptions">Defaults that were applied (fluid, units, method, minor losses, elevation, gravity).</param>
@@ -244,7 +244,7 @@ public sealed record PipeHeadLossResponse(
 
 
 /// <summary>Flow through a pipe from the head available to drive it.</summary>
-/// <param name="Flow">The flow found, in the flow unit (m3/s, ft3/s or gpm).</param>
+/// <param name="Flow">The flow found, in the flow unit (m3/s, l/s, m3/h, ft3/s or gpm).</param>
 /// <param name="Velocity">Mean velocity, m/s (ft/s with units=us).</param>
 /// <param name="Reynolds">Reynolds number.</param>
 /// <param name="RelativeRoughness">e/D as used.</param>

@@ -100,7 +100,15 @@ public sealed partial class BadRequestProblems(IProblemDetailsService problems, 
         if (json.Message.Contains("could not be mapped", StringComparison.Ordinal))
         {
             // UnmappedMemberHandling.Disallow: a misspelt or unknown field; the path ends at its name.
-            return (field.Length == 0 ? "body" : field, "is not a field of this request (check the spelling against the documentation)");
+            string? near = NearestField(json.Message, field);
+            return (field.Length == 0 ? "body" : field, near is null
+                ? "is not a field of this request (check the spelling against the documentation)"
+                : $"is not a field of this request: did you mean '{near}'?");
+        }
+        if (json.Message.Contains("uplicate", StringComparison.Ordinal))
+        {
+            // AllowDuplicateProperties = false: the path ends at the repeated key.
+            return (field.Length == 0 ? "body" : field, "is given more than once in the same JSON object; give each key once");
         }
         if (json.InnerException is not null && json.InnerException.GetType().Name == "JsonReaderException")
         {
@@ -114,6 +122,21 @@ public sealed partial class BadRequestProblems(IProblemDetailsService problems, 
         return field.Length == 0
             ? ("body", "the body is not valid JSON for this request (it must be a JSON object with the documented fields)")
             : (field, "has a value of the wrong type, or the JSON around it is malformed");
+    }
+
+    [GeneratedRegex("""contained in type '(?<type>[^']+)'""")]
+    private static partial Regex UnmappedType();
+
+    /// <summary>The known field nearest to an unknown one, from the type the serializer names in its message.</summary>
+    private static string? NearestField(string message, string field)
+    {
+        var m = UnmappedType().Match(message);
+        if (!m.Success || field.Length == 0) return null;
+        var type = typeof(BadRequestProblems).Assembly.GetType(m.Groups["type"].Value);
+        if (type is null) return null;
+        string name = field[(field.LastIndexOf('.') + 1)..];
+        var known = type.GetProperties().Select(p => JsonNamingPolicy.CamelCase.ConvertName(p.Name));
+        return Hosting.StrictQuery.Closest(name, known);
     }
 
     /// <summary>"$.section.points[2].station" to "section.points[2].station"; "$" to "".</summary>

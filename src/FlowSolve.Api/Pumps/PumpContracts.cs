@@ -80,7 +80,7 @@ public sealed record DutyPointRequest(
     SuctionInput? Suction = null,
     [property: Description("Unit system of the request and response: si (default) or us (ft, ft3/s, psi, lb/ft3, ft2/s, degrees F, hp).")]
     string? Units = null,
-    [property: Description("Flow unit: m3/s with units=si; ft3/s (default) or gpm (US gallons per minute) with units=us.")]
+    [property: Description(FlowUnit.Description)]
     string? FlowUnit = null,
     [property: Description("When true, include the solver's per-iteration record in the response (solve variable: the set flow in m3/s).")]
     bool? Trace = null);
@@ -131,7 +131,7 @@ public sealed record DutyPointQuery(
     [FromQuery(Name = "vapourPressure")] double? VapourPressure = null,
     [property: Description("Unit system: si (default) or us.")]
     [FromQuery(Name = "units")] string? Units = null,
-    [property: Description("Flow unit: m3/s with units=si; ft3/s (default) or gpm with units=us.")]
+    [property: Description(FlowUnit.Description)]
     [FromQuery(Name = "flowUnit")] string? FlowUnit = null,
     [property: Description("When true, include the solver's per-iteration record.")]
     [FromQuery(Name = "trace")] bool? Trace = null);
@@ -163,7 +163,7 @@ public sealed record PumpCurveDto(IReadOnlyList<double> Coefficients, int Degree
 /// <param name="SolveVariable">The variable the solver iterated on.</param>
 /// <param name="Method">The relations used.</param>
 /// <param name="Units">si or us.</param>
-/// <param name="FlowUnit">m3/s, ft3/s or gpm.</param>
+/// <param name="FlowUnit">m3/s, l/s, m3/h, ft3/s or gpm.</param>
 /// <param name="HeadUnit">m or ft.</param>
 /// <param name="PowerUnit">W or hp.</param>
 /// <param name="PumpsInParallel">Pumps in parallel, as used.</param>
@@ -222,7 +222,7 @@ public sealed record DutyPointResponse(
 /// <param name="Iterations">Iterations of the duty-point solve (0 without an answer).</param>
 /// <param name="Converged">True when a duty point was found.</param>
 /// <param name="Units">si or us.</param>
-/// <param name="FlowUnit">m3/s, ft3/s or gpm.</param>
+/// <param name="FlowUnit">m3/s, l/s, m3/h, ft3/s or gpm.</param>
 /// <param name="HeadUnit">m or ft.</param>
 /// <param name="Warnings">Warnings with stable codes (including why there is no duty point).</param>
 /// <param name="Assumptions">Defaults that were applied.</param>

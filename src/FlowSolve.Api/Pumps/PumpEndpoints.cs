@@ -254,6 +254,10 @@ public static class PumpEndpoints
         return null;
     }
 
+    /// <summary>Below this fraction of the curve's largest flow a duty point warns <c>duty-point-near-shut-off</c>: 5 percent
+    /// (a band chosen here, well below the usual minimum continuous stable flow of a centrifugal pump).</summary>
+    public const double TinyFractionOfRange = 0.05;
+
     private static DutyPointResponse Response(PumpProblem input, in DutyPointResult r, SolverTrace? trace)
     {
         var u = input.Units;
@@ -268,6 +272,11 @@ public static class PumpEndpoints
             validity.Add(new ValidityDto("pump-curve", "ratedSpeedFlow", u.Flow(qmin), u.Flow(qmax), u.Flow(r.RatedSpeedFlow),
                 r.RatedSpeedFlow >= qmin && r.RatedSpeedFlow <= qmax,
                 input.Fit is null ? "pump.maximumFlow as given" : "the flow range of the catalogue points given"));
+            // A duty point at a sliver of the curve's flow range is almost always a unit slip (a system resistance for
+            // flows in l/s applied to a curve in m3/s, say) or a pump far too large for the system.
+            if (r.RatedSpeedFlow > 0 && r.RatedSpeedFlow < TinyFractionOfRange * qmax)
+                warnings.Add(new("duty-point-near-shut-off", string.Create(CultureInfo.InvariantCulture,
+                    $"The duty point's flow at rated speed, {u.Flow(r.RatedSpeedFlow):G4} {u.FlowUnit}, is {r.RatedSpeedFlow / qmax:P2} of the curve's largest flow ({u.Flow(qmax):G4} {u.FlowUnit}): a pump does not run there for long (overheating, recirculation, below its minimum stable flow, common practice). Check the units of the system curve and the pump data, or choose a smaller pump.")));
         }
         var pipes = input.System.Pipes;
         for (int i = 0; i < pipes.Count; i++)

@@ -40,14 +40,8 @@ internal static class PumpInputReader
         if (request.Units is null) assumptions.Add(new("units", "si", "SI units (default)"));
         else if (request.Units.Equals("us", StringComparison.OrdinalIgnoreCase)) us = true;
         else if (!request.Units.Equals("si", StringComparison.OrdinalIgnoreCase)) errors.Add("units", "must be si or us");
-        bool gpm = false;
-        if (request.FlowUnit is string fu)
-        {
-            if (fu.Equals("gpm", StringComparison.OrdinalIgnoreCase) && us) gpm = true;
-            else if (!(fu.Equals(us ? "ft3/s" : "m3/s", StringComparison.OrdinalIgnoreCase)))
-                errors.Add("flowUnit", us ? "must be ft3/s or gpm with units=us" : "must be m3/s with units=si (ft3/s and gpm need units=us)");
-        }
-        var u = new PumpUnits(us, gpm);
+        var flowUnit = Hosting.FlowUnit.Parse(request.FlowUnit, new Hosting.UnitSystem(us), errors.Add);
+        var u = new PumpUnits(us, flowUnit);
         string hu = u.HeadUnit, qu = u.FlowUnit;
 
         // Arrangement.

@@ -3,24 +3,24 @@ using FlowSolve.Api.Hosting;
 namespace FlowSolve.Api.Pumps;
 
 /// <summary>
-/// The units of one pump request: SI, or US customary with flows in ft3/s or US gal/min. Converts request values
+/// The units of one pump request: SI, or US customary, with flows in any <see cref="Hosting.FlowUnit"/> of that system. Converts request values
 /// into SI (ToSi...) and SI results out (From...).
 /// </summary>
 /// <remarks>The pump-specific quantities (flows in gpm, heads, polynomial coefficients, power) on the shared exact
 /// constants of <see cref="Units"/> (NIST SP 811, 2008, appendix B).</remarks>
-internal readonly record struct PumpUnits(bool IsUs, bool Gpm)
+internal readonly record struct PumpUnits(bool IsUs, FlowUnit Flows)
 {
     private const double Foot = Units.Foot;
     private const double Psi = Units.Psi;
 
     /// <summary>m3/s per flow unit.</summary>
-    public double FlowFactor => !IsUs ? 1.0 : Gpm ? Units.UsGallonPerMinute : Units.CubicFoot;
+    public double FlowFactor => Flows.CubicMetresPerUnit;
 
     /// <summary>m per head unit.</summary>
     public double HeadFactor => IsUs ? Foot : 1.0;
 
     public string Code => IsUs ? "us" : "si";
-    public string FlowUnit => !IsUs ? "m3/s" : Gpm ? "gpm" : "ft3/s";
+    public string FlowUnit => Flows.Code;
     public string HeadUnit => IsUs ? "ft" : "m";
     public string PowerUnit => IsUs ? "hp" : "W";
 

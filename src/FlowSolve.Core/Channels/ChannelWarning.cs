@@ -29,6 +29,19 @@ public enum ChannelWarningCode
 
     /// <summary>A root solve stopped without meeting its tolerances. Code <c>not-converged</c>.</summary>
     NotConverged,
+
+    /// <summary>The mean velocity at normal depth is above <see cref="ManningSolver.MaximumDesignVelocity"/>: scour of
+    /// most linings, or a slope or flow typed in the wrong unit. Code <c>velocity-above-design-range</c>.</summary>
+    VelocityAboveDesignRange,
+
+    /// <summary>The mean velocity at normal depth is below <see cref="ManningSolver.MinimumDesignVelocity"/>: silting and
+    /// weed growth. Code <c>velocity-below-design-range</c>.</summary>
+    VelocityBelowDesignRange,
+
+    /// <summary>The Froude number at normal depth is above <see cref="ManningSolver.MaximumDesignFroudeNumber"/>: strongly
+    /// supercritical flow (standing waves, jumps at any disturbance), or a slope typed as a percent. Code
+    /// <c>froude-above-design-range</c>.</summary>
+    FroudeAboveDesignRange,
 }
 
 /// <summary>A warning attached to a channel result: a stable code and a sentence for the reader.</summary>
@@ -55,6 +68,9 @@ public static class ChannelWarningCodeExtensions
         ChannelWarningCode.NoCriticalDepthInSection => "no-critical-depth-in-section",
         ChannelWarningCode.RoughnessOutsideTypicalRange => "roughness-outside-typical-range",
         ChannelWarningCode.NotConverged => "not-converged",
+        ChannelWarningCode.VelocityAboveDesignRange => "velocity-above-design-range",
+        ChannelWarningCode.VelocityBelowDesignRange => "velocity-below-design-range",
+        ChannelWarningCode.FroudeAboveDesignRange => "froude-above-design-range",
         _ => "unknown",
     };
 }

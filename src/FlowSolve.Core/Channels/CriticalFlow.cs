@@ -18,7 +18,7 @@ namespace FlowSolve.Core.Channels;
 public static class CriticalFlow
 {
     /// <summary>Standard gravity, 9.80665 m/s2 (CGPM 1901), used throughout.</summary>
-    public const double StandardGravity = 9.80665;
+    public const double StandardGravity = Physical.StandardGravity;
 
     /// <summary>The critical depth of a flow in a section. The critical slope is given only when the section carries its own roughness.</summary>
     /// <param name="section">The cross-section.</param>

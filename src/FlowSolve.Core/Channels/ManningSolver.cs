@@ -35,6 +35,18 @@ public static class ManningSolver
     /// </summary>
     public const double UsCustomaryCoefficient = 1.486;
 
+    /// <summary>Mean velocity above which a normal-depth answer warns, m/s: 6 m/s, the usual upper limit for concrete
+    /// linings (common practice; earth and grass channels scour at well under half of it).</summary>
+    public const double MaximumDesignVelocity = 6.0;
+
+    /// <summary>Mean velocity below which a normal-depth answer warns, m/s: 0.3 m/s, below which silt settles and weeds
+    /// grow in open channels (common practice; sewers aim at 0.6 m/s or more for self-cleansing).</summary>
+    public const double MinimumDesignVelocity = 0.3;
+
+    /// <summary>Froude number above which a normal-depth answer warns: 2 (a band chosen here; lined chutes are designed
+    /// above it, ordinary channels never).</summary>
+    public const double MaximumDesignFroudeNumber = 2.0;
+
     /// <summary>Froude numbers within this band around 1 raise <see cref="ChannelWarningCode.NearCritical"/>: 0.9 to 1.1 (a band chosen here).</summary>
     public const double NearCriticalBand = 0.1;
 
@@ -261,6 +273,15 @@ public static class ManningSolver
         if (Math.Abs(froude - 1.0) <= NearCriticalBand)
             (warnings ??= new()).Add(new ChannelWarning(ChannelWarningCode.NearCritical, string.Create(CultureInfo.InvariantCulture,
                 $"The Froude number at normal depth is {froude:F3}, close to 1: near-critical flow has an unstable, wavy surface and small changes of slope or roughness switch the regime; design guides advise keeping clear of it (common practice; the band 0.9 to 1.1 is chosen here).")));
+        if (velocity > MaximumDesignVelocity)
+            (warnings ??= new()).Add(new ChannelWarning(ChannelWarningCode.VelocityAboveDesignRange, string.Create(CultureInfo.InvariantCulture,
+                $"The mean velocity at normal depth is {velocity:G4} m/s, above {MaximumDesignVelocity} m/s, the usual upper limit for concrete linings (common practice): expect scour, or check the slope (m/m, not percent) and the flow's unit.")));
+        else if (velocity < MinimumDesignVelocity)
+            (warnings ??= new()).Add(new ChannelWarning(ChannelWarningCode.VelocityBelowDesignRange, string.Create(CultureInfo.InvariantCulture,
+                $"The mean velocity at normal depth is {velocity:G4} m/s, below {MinimumDesignVelocity} m/s, where silt settles and weeds grow (common practice); check the flow's unit.")));
+        if (froude > MaximumDesignFroudeNumber)
+            (warnings ??= new()).Add(new ChannelWarning(ChannelWarningCode.FroudeAboveDesignRange, string.Create(CultureInfo.InvariantCulture,
+                $"The Froude number at normal depth is {froude:G4}, above {MaximumDesignFroudeNumber} (a band chosen here): strongly supercritical flow with standing waves and a hydraulic jump at any obstruction; check that the slope is in m/m, not percent.")));
         if (!validity.InTypicalRange)
             (warnings ??= new()).Add(new ChannelWarning(ChannelWarningCode.RoughnessOutsideTypicalRange, string.Create(CultureInfo.InvariantCulture,
                 $"Manning n = {effectiveN:G4} lies outside the tabulated range {ManningValidity.TypicalLowestN} to {ManningValidity.TypicalHighestN} s m^-1/3; check the value and its units.")));

@@ -24,6 +24,67 @@ public sealed class CheckEndpointsTests(ApiFixture api)
     }
 
     [Fact]
+    public async Task FrictionFactor_ClaimOfThreeDigits_IsMatchedToItsOwnPrecision()
+    {
+        // The README's example: 0.0486 claimed at Re 5000, e/D 0.01. Three significant digits stand for anything from
+        // 0.04855 to 0.04865, so the likely cause is the approximation inside that interval (computed independently here
+        // from the explicit formulae), not none as with a fixed 0.01 percent.
+        var r = await api.PostJson("/v1/check/friction-factor", new { reynolds = 5000, relativeRoughness = 0.01, claimed = new { frictionFactor = 0.0486 } });
+        Assert.Equal(200, r.Status);
+        var candidates = new (string Code, double F)[]
+        {
+            ("swamee-jain", ExplicitFriction.SwameeJain(5000, 0.01)), ("haaland", ExplicitFriction.Haaland(5000, 0.01)),
+            ("churchill", ExplicitFriction.Churchill(5000, 0.01)), ("serghides", ExplicitFriction.Serghides(5000, 0.01)),
+        }.Where(c => Math.Abs(c.F - 0.0486) <= 0.00005).ToArray();
+        Assert.NotEmpty(candidates);
+        string cause = r.Body.GetProperty("checks")[0].GetProperty("likelyCause").GetString()!;
+        Assert.Contains(candidates, c => cause.Contains(c.Code, StringComparison.Ordinal));
+    }
+
+    [Theory]
+    [InlineData("\"NaN\"")]
+    [InlineData("\"abc\"")]
+    [InlineData("\"0.0486\"")]
+    [InlineData("true")]
+    [InlineData("null")]
+    [InlineData("1e309")]
+    [InlineData("-1e309")]
+    public async Task Claim_NotAFiniteNumber_400NamesTheClaim(string claim)
+    {
+        var r = await api.PostRaw("/v1/check/friction-factor", "{\"reynolds\": 5000, \"relativeRoughness\": 0.01, \"claimed\": {\"frictionFactor\": " + claim + "}}", "application/json");
+        ProblemAssert.NamesField(r, 400, "claimed.frictionFactor");
+    }
+
+    [Theory]
+    [InlineData(1e308)]
+    [InlineData(-1e308)]
+    [InlineData(5e-324)]
+    public async Task Claim_AtTheExtremes_FailsWithFiniteNumbers(double claim)
+    {
+        var r = await api.PostJson("/v1/check/friction-factor", new { reynolds = 5000, relativeRoughness = 0.01, claimed = new { frictionFactor = claim } });
+        Assert.Equal(200, r.Status);
+        var check = r.Body.GetProperty("checks")[0];
+        Assert.False(check.GetProperty("pass").GetBoolean());
+        Assert.True(double.IsFinite(check.GetProperty("deviation").GetDouble()));
+    }
+
+    [Theory]
+    [InlineData("""{"reynolds": 5000, "reynolds": 6000, "relativeRoughness": 0.01, "claimed": {"frictionFactor": 0.05}}""", "reynolds")]
+    [InlineData("""{"reynolds": 5000, "relativeRoughness": 0.01, "claimed": {"frictionFactor": 0.05, "frictionFactor": 0.04}}""", "claimed.frictionFactor")]
+    public async Task DuplicateKey_400NamesIt(string body, string field) =>
+        ProblemAssert.NamesField(await api.PostRaw("/v1/check/friction-factor", body, "application/json"), 400, field);
+
+    [Theory]
+    [InlineData("text/plain")]
+    [InlineData("application/x-www-form-urlencoded")]
+    public async Task NotJson_415(string contentType)
+    {
+        var r = await api.PostRaw("/v1/check/friction-factor", """{"reynolds": 5000, "relativeRoughness": 0.01, "claimed": {"frictionFactor": 0.05}}""", contentType);
+        Assert.Equal(415, r.Status);
+        Assert.Equal("application/problem+json", r.ContentType);
+    }
+
+    [Fact]
     public async Task FrictionFactor_ClaimWithinTolerance_Passes()
     {
         double exact = ColebrookWhite.Solve(2e5, 1e-4).FrictionFactor;

@@ -20,6 +20,18 @@ public sealed class FuzzTests(ApiFixture api)
     [
         "NaN", "Infinity", "-Infinity", "1e308", "1e309", "-1e309", "-0", "4.9e-324", "2.2e-308", "0", "-1", "1,5", "abc", "",
         "0x10", " 12 ", "1e-320", "+5", "1_000", "∞", "١٢", "9".PadRight(400, '9'), "1e15", "1e16", "-1e-300",
+        "5e-324", "-5e-324", "2.2250738585072014e-308", "1.7976931348623157e308", "-1.7976931348623157e308", "1e-308",
+    ];
+
+    /// <summary>The extremes of the double range (subnormals, the largest finite values) and exact powers of ten from
+    /// 1e-12 to 1e15, which straddle every validity limit of every calculation (the limits are powers of ten or lie
+    /// between two of them).</summary>
+    public static readonly double[] Extremes =
+    [
+        5e-324, -5e-324, 1e-320, 2.2250738585072014e-308, 1e-308, 1e-300, 1e300, 1e307, 1e308, -1e308,
+        1.7976931348623157e308, -1.7976931348623157e308, 0, -0.0,
+        .. Enumerable.Range(-12, 28).Select(e => double.Parse("1e" + e, CultureInfo.InvariantCulture)),
+        .. Enumerable.Range(-12, 28).Select(e => -double.Parse("1e" + e, CultureInfo.InvariantCulture)),
     ];
 
     private static Gen<string> NumberText =>
@@ -110,6 +122,75 @@ public sealed class FuzzTests(ApiFixture api)
         {
             Assert.True(problem.RootElement.TryGetProperty("detail", out _) || problem.RootElement.TryGetProperty("title", out _));
         }
+    }
+
+    [Fact]
+    public async Task EveryCalculation_EachNumberAtTheExtremesOfTheDoubleRange_AnswersFiniteOr4xx()
+    {
+        // Every numeric query parameter of every documented example, one at a time, at every extreme.
+        foreach (var op in (await Operations()).Where(o => o.Method == "GET" && o.QueryExample.Count > 0))
+        {
+            var numeric = op.QueryExample.Where(kv => double.TryParse(kv.Value, NumberStyles.Float, CultureInfo.InvariantCulture, out _)).Select(kv => kv.Key).ToArray();
+            foreach (var name in numeric)
+            foreach (double x in Extremes)
+            {
+                string url = op.Path + "?" + string.Join("&", op.QueryExample.Select(kv =>
+                    kv.Key + "=" + Uri.EscapeDataString(kv.Key == name ? x.ToString("R", CultureInfo.InvariantCulture) : kv.Value)));
+                using var response = await api.Client.GetAsync(url, TestContext.Current.CancellationToken);
+                await CheckAnswer(response, "GET " + url);
+                using var text = await api.Client.GetAsync(url + "&format=text", TestContext.Current.CancellationToken);
+                await CheckAnswer(text, "GET " + url + "&format=text");
+            }
+        }
+    }
+
+    [Fact]
+    public async Task EveryCalculation_EachNumberOfTheBodyAtTheExtremes_AnswersFiniteOr4xx()
+    {
+        // Every numeric leaf of every documented POST example (nested ones too, such as a pump system's pipe diameter),
+        // one at a time, at the extremes; a network example's many leaves are sampled (seeded, so a failure repeats).
+        var random = new Random(20261204);
+        double[] extremes = [5e-324, -5e-324, 1e-308, 1e-12, 1e15, 1e300, 1e308, -1e308, 1.7976931348623157e308];
+        foreach (var op in (await Operations()).Where(o => o.Method == "POST" && o.BodyExample is JsonObject))
+        {
+            var leaves = new List<string>();
+            Leaves(op.BodyExample!, "", leaves);
+            var chosen = leaves.Count <= 40 ? leaves : leaves.OrderBy(_ => random.Next()).Take(40).ToList();
+            foreach (var path in chosen)
+            foreach (double x in extremes)
+            {
+                var body = op.BodyExample!.DeepClone();
+                Set(body, path, x);
+                using var content = new StringContent(body.ToJsonString(), Encoding.UTF8, "application/json");
+                using var response = await api.Client.PostAsync(op.Path, content, TestContext.Current.CancellationToken);
+                await CheckAnswer(response, $"POST {op.Path} with {path} = {x:R}");
+            }
+        }
+    }
+
+    private static void Leaves(JsonNode node, string path, List<string> leaves)
+    {
+        switch (node)
+        {
+            case JsonObject o:
+                foreach (var (k, v) in o) if (v is not null) Leaves(v, path + "/" + k, leaves);
+                break;
+            case JsonArray a:
+                for (int i = 0; i < a.Count; i++) if (a[i] is { } v) Leaves(v, path + "/" + i, leaves);
+                break;
+            case JsonValue v when v.GetValueKind() == JsonValueKind.Number:
+                leaves.Add(path);
+                break;
+        }
+    }
+
+    private static void Set(JsonNode root, string path, double value)
+    {
+        var parts = path.Trim('/').Split('/');
+        JsonNode node = root;
+        for (int i = 0; i < parts.Length - 1; i++) node = node is JsonArray a ? a[int.Parse(parts[i], CultureInfo.InvariantCulture)]! : node[parts[i]]!;
+        if (node is JsonArray array) array[int.Parse(parts[^1], CultureInfo.InvariantCulture)] = value;
+        else node[parts[^1]] = value;
     }
 
     [Fact]

@@ -345,9 +345,12 @@ public sealed class SensitivityEndpointsTests(ApiFixture api)
     [Fact]
     public async Task Sensitivities_BatchCsv_NoColumnsAndNoObjects()
     {
-        // Batches never ask for sensitivities: the CSV header has no sensitivity or spread column, and JSON rows carry neither.
+        // Batches never ask for sensitivities: asking is refused (not silently ignored), the CSV header has no sensitivity or
+        // spread column, and JSON rows carry neither.
+        var refused = await api.PostRaw("/v1/batch/pipes/head-loss?sensitivities=true", "flow,diameter,length,material\r\n0.05,0.2,500,commercial-steel\r\n", "text/csv");
+        ProblemAssert.NamesField(refused, 400, "sensitivities");
         using var content = new StringContent("flow,diameter,length,material\r\n0.05,0.2,500,commercial-steel\r\n", System.Text.Encoding.UTF8, "text/csv");
-        using var response = await api.Client.PostAsync("/v1/batch/pipes/head-loss?sensitivities=true", content, TestContext.Current.CancellationToken);
+        using var response = await api.Client.PostAsync("/v1/batch/pipes/head-loss", content, TestContext.Current.CancellationToken);
         string csv = await response.Content.ReadAsStringAsync(TestContext.Current.CancellationToken);
         Assert.Equal(200, (int)response.StatusCode);
         string header = csv.Split("\r\n")[0];

@@ -33,12 +33,18 @@ public static class OpenApiSetup
                     "a request and its response to US customary. Gravity is standard gravity, 9.80665 m/s2. Bad input answers 400 " +
                     "with an RFC 9457 problem whose errors map names each bad field; a well-formed request with no physical answer " +
                     "answers 422.\n\n" + Cautions,
-                License = new OpenApiLicense { Name = "MIT" },
+                License = new OpenApiLicense { Name = "MIT", Url = new Uri("https://opensource.org/licenses/MIT") },
             });
+            // Relative: the API is on the host that serves this document, so "Try it out" on /docs works on any host and port.
+            c.AddServer(new OpenApiServer { Url = "/", Description = "The host serving this document" });
+            c.CustomSchemaIds(OpenApiLint.SchemaId);
             string xml = Path.Combine(AppContext.BaseDirectory, "FlowSolve.Api.xml");
             if (File.Exists(xml)) c.IncludeXmlComments(xml);
             c.SchemaFilter<DescriptionSchemaFilter>();
+            c.OperationFilter<ParsableQueryParameterFilter>();
             c.OperationFilter<ParameterAndExampleFilter>();
+            c.DocumentFilter<NullableWithoutTypeDocumentFilter>();
+            c.DocumentFilter<SecurityAndTagsDocumentFilter>();
             c.SupportNonNullableReferenceTypes();
             // OpenAPI 3.0 ignores siblings of $ref: wrap references in allOf so a nested object property keeps its description.
             c.UseAllOfToExtendReferenceSchemas();
@@ -63,7 +69,15 @@ public static class OpenApiSetup
     {
         public void Apply(IOpenApiSchema schema, SchemaFilterContext context)
         {
-            if (schema is not OpenApiSchema concrete || concrete.Properties is null) return;
+            if (schema is not OpenApiSchema concrete) return;
+            // A check body carries the calculation's own input fields beside claimed and tolerancePercent: any further
+            // property is allowed, and said so explicitly (an empty schema) rather than by leaving additionalProperties out.
+            if (context.Type == typeof(FlowSolve.Api.Check.CheckRequestShape))
+            {
+                concrete.AdditionalPropertiesAllowed = true;
+                concrete.AdditionalProperties = new OpenApiSchema();
+            }
+            if (concrete.Properties is null) return;
             foreach (var property in context.Type.GetProperties(BindingFlags.Public | BindingFlags.Instance))
             {
                 var description = property.GetCustomAttribute<DescriptionAttribute>()?.Description;
@@ -142,7 +156,13 @@ public static class OpenApiSetup
             foreach (var (name, value) in example.Query)
             {
                 var p = operation.Parameters?.OfType<OpenApiParameter>().FirstOrDefault(x => x.Name == name);
-                if (p is not null) p.Example = double.TryParse(value, System.Globalization.CultureInfo.InvariantCulture, out var d) ? JsonValue.Create(d) : JsonValue.Create(value);
+                if (p is null) continue;
+                bool numeric = p.Schema?.Type is { } t && (t & (JsonSchemaType.Number | JsonSchemaType.Integer)) != 0;
+                bool boolean = p.Schema?.Type is { } u && u.HasFlag(JsonSchemaType.Boolean);
+                // The example takes the parameter's own type, so it validates against the parameter's schema.
+                p.Example = numeric && double.TryParse(value, System.Globalization.CultureInfo.InvariantCulture, out var d) ? JsonValue.Create(d)
+                    : boolean && bool.TryParse(value, out var b) ? JsonValue.Create(b)
+                    : JsonValue.Create(value);
             }
             if (example.Body is not null && operation.RequestBody?.Content is { } content)
             {

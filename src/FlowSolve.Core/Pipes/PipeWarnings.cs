@@ -41,6 +41,12 @@ public enum PipeWarnings
 
     /// <summary>Hazen-Williams and Darcy-Weisbach head losses differ by more than 10 percent.</summary>
     MethodsDisagree = 512,
+
+    /// <summary>A second flow (or diameter) meets the same head: the head lies within the drop of the head loss at
+    /// the turbulent limit (Re 4000), where Churchill's transition value gives way to the lower Colebrook-White value.
+    /// The result carries the other root (<see cref="FlowResult.AlternateFlow"/>, <see cref="DiameterResult.AlternateDiameter"/>)
+    /// and describes the warning itself, since the message quotes both roots (code <c>second-solution</c>).</summary>
+    SecondSolution = 1024,
 }
 
 /// <summary>Why a pipe calculation ended, including the well-posed problems that have no answer.</summary>

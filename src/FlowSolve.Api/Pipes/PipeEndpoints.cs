@@ -353,7 +353,7 @@ public static class PipeEndpoints
         {
             PipeStatus.NoFlow => string.Create(C,
                 $"headLoss - elevationChange is {u.Length(drivingHead):G6} {u.LengthUnit}: the available head does not exceed the elevation rise, so it drives no forward flow through this pipe."),
-            _ => status.Reason() + string.Create(C, $" (Reynolds number above {DarcyFriction.MaximumReynolds:0e0}), or beyond double precision: check the orders of magnitude of the length, flow and head."),
+            _ => status.Reason() + string.Create(C, $" (Reynolds number above {DarcyFriction.MaximumReynolds:0e0} or below {DarcyFriction.MinimumReynolds:G3}), or beyond double precision: check the orders of magnitude of the length, flow and head."),
         };
         return ProblemResults.NoAnswer(status == PipeStatus.NoFlow ? "The head drives no flow." : "No answer inside the friction relations' range.",
             detail, new Dictionary<string, object?> { ["pipeStatus"] = status.Code() });

@@ -106,10 +106,10 @@ public static class PipeDiameter
 
         double lo, hi, start;
         Bracket bracket;
-        if (!(dLam > 0) || !double.IsFinite(dLam) || !(reTimesD > 0))
+        if (!(dLam > 0) || !double.IsFinite(dLam) || !(reTimesD > 0) || !(reTimesD / dLam >= DarcyFriction.MinimumReynolds))
         {
-            // The laminar bound under- or overflows (a vanishing flow or length, say): the diameter lies beyond double
-            // precision, or below any roughness; no answer rather than an infinite or empty one.
+            // The laminar bound under- or overflows (a vanishing flow or length, say), or its Reynolds number lies below
+            // the smallest the friction relations accept: no answer rather than an infinite or empty one.
             return new DiameterResult(PipeFlow.Empty(double.IsFinite(dLam) ? dLam : 0, 0), h, 0, 0, 0.0,
                 PipeStatus.OutsideRange, SolveStatus.NoSignChange, PipeWarnings.None);
         }

@@ -116,6 +116,12 @@ public static class PipeFlow
         double lo = Math.Log(0.5 * Math.Min(reLam, laminarLimit) * qPerRe);
         double hi, start;
         Bracket bracket;
+        if (!(reLam >= DarcyFriction.MinimumReynolds))
+        {
+            // Creeping flow below the smallest Reynolds number the friction relations accept (a head of 5e-324 m,
+            // say, whose flow underflows): no answer, as for the head loss of such a flow.
+            return NoAnswer(pipe, availableHead, elevationRise, drive, PipeStatus.OutsideRange);
+        }
         if (reLam < laminarLimit)
         {
             // The laminar root is the answer; the solve confirms it in one step.

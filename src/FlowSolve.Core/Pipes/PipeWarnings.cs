@@ -66,7 +66,9 @@ public enum PipeStatus
     /// smaller than the minor losses alone at the largest listed size).</summary>
     NoListedSize,
 
-    /// <summary>No answer: the solution lies beyond the Reynolds numbers the friction relations accept (1e15).</summary>
+    /// <summary>No answer: the solution lies beyond the Reynolds numbers the friction relations accept (above 1e15, or
+    /// below <see cref="Friction.DarcyFriction.MinimumReynolds"/>, 1e-3, where the laminar factor 64/Re exceeds 64 000),
+    /// or beyond double precision (a vanishing length or flow).</summary>
     OutsideRange,
 
     /// <summary>The outer solve stopped without converging; the value is the best iterate.</summary>

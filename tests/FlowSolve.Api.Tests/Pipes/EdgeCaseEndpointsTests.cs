@@ -32,6 +32,8 @@ public sealed class EdgeCaseEndpointsTests(ApiFixture api)
     [InlineData("/v1/pipes/head-loss?flow=5e-324&diameter=0.1&length=100&roughness=0.0001", 422)]
     [InlineData("/v1/pipes/head-loss?flow=0.01&diameter=0.1&length=5e-324&roughness=0.0001", 200)]
     [InlineData("/v1/pipes/flow?headLoss=1&diameter=0.1&roughness=0.0001&length=5e-324", 422)]
+    [InlineData("/v1/pipes/flow?headLoss=1&diameter=0.1&roughness=0.0001&length=5e-324&method=hazen-williams&hazenWilliamsC=120", 422)]
+    [InlineData("/v1/pipes/flow?headLoss=5e-324&diameter=0.1&roughness=0.0001&length=100", 422)]
     [InlineData("/v1/pipes/diameter?headLoss=1&roughness=0.0001&length=100&flow=5e-324", 422)]
     [InlineData("/v1/pipes/diameter?headLoss=1&roughness=0.0001&length=5e-324&flow=0.01", 422)]
     [InlineData("/v1/pumps/duty-point?c0=40&c1=0&c2=-5000&staticHead=15&length=100&diameter=1e308&roughness=0.0001", 200)]

@@ -44,6 +44,27 @@ public sealed class VanishingInputTests
         Assert.True(double.IsFinite(r.Residual));
     }
 
+    [Fact]
+    public void Flow_VanishingHead_IsOutsideRangeBelowTheSmallestReynoldsNumber()
+    {
+        // 5e-324 m of head drives a flow whose Reynolds number (Hagen-Poiseuille: V = g D^2 H/(32 nu L)) is about 1e-320.
+        var r = PipeFlow.Solve(new PipeGeometry(100, 0.1, 1e-4), new FluidProperties(1e-6), 5e-324);
+        Assert.Equal(PipeStatus.OutsideRange, r.Status);
+        // Just above the limit the laminar answer stands: Re = g D^3 H/(32 nu^2 L) = 0.01 for this head.
+        double head = 0.01 * 32 * 1e-12 * 100 / (G * 1e-3);
+        var laminar = PipeFlow.Solve(new PipeGeometry(100, 0.1, 1e-4), new FluidProperties(1e-6), head);
+        Assert.Equal(PipeStatus.Solved, laminar.Status);
+        Assert.Equal(0.01, laminar.State.Reynolds, 1e-12);
+    }
+
+    [Fact]
+    public void HazenWilliamsFlow_VanishingLength_IsOutsideRange()
+    {
+        var r = HazenWilliams.Flow(new PipeGeometry(5e-324, 0.1, 1e-4), new FluidProperties(1e-6), 1.0, 120);
+        Assert.Equal(PipeStatus.OutsideRange, r.Status);
+        Assert.Equal(PipeStatus.OutsideRange, r.DarcyWeisbach.Status);
+    }
+
     [Theory]
     [InlineData(5e-324, 100.0, 1e-4)]
     [InlineData(0.01, 5e-324, 1e-4)]

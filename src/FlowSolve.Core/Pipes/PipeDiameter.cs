@@ -154,7 +154,7 @@ public static class PipeDiameter
         {
             // Near Re 4000 the same allowance may be met twice; the turbulent root is the answer, the other the alternate.
             var (turbulent, transitional) = TwoRootsAtTurbulentLimit(in equation, pipe, nu, flow, h,
-                reTimesD / o.Friction.TurbulentLimit, root, o.Friction);
+                reTimesD / o.Friction.TurbulentLimit, root, o.Friction, trace);
             if (turbulent is RootResult t && transitional is RootResult other)
             {
                 root = t;
@@ -174,11 +174,12 @@ public static class PipeDiameter
     /// <summary>
     /// The two diameters that give the allowance when it lies within the jump of the head loss at the turbulent limit
     /// (as the diameter grows through D_T, where Re = 4000, the factor rises from Colebrook-White to Churchill's), or
-    /// (null, null) when it does not. Both are solved on their own side: the turbulent one on [D_T / 2, D_T] (h falls at
-    /// least as D^-4 there) and the transitional one on [D_T, 2 D_T]; both brackets are checked.
+    /// (null, null) when it does not. The root not yet found is solved on its own side: the turbulent one on
+    /// [D_T / 2, D_T] (h falls at least as D^-4 there), the transitional one on [D_T, 2 D_T]; both brackets are checked.
     /// </summary>
     private static (RootResult? Turbulent, RootResult? Transitional) TwoRootsAtTurbulentLimit(in Equation equation,
-        in PipeGeometry pipe, double nu, double flow, double allowed, double dLimit, in RootResult found, in FrictionOptions limits)
+        in PipeGeometry pipe, double nu, double flow, double allowed, double dLimit, in RootResult found, in FrictionOptions limits,
+        SolverTrace? trace)
     {
         double d = Math.Exp(found.Root);
         if (!(d > 0.5 * dLimit && d < 2.0 * dLimit) || !(dLimit > pipe.Roughness)) return (null, null);
@@ -187,10 +188,15 @@ public static class PipeDiameter
         if (!(transitionSide > turbulentSide && allowed > turbulentSide && allowed < transitionSide)) return (null, null);
         double limit = Math.Log(dLimit), lower = Math.Max(limit - Math.Log(2.0), Math.Log(pipe.Roughness * (1 + 1e-9)));
         double step = 0.2 * Math.Log(transitionSide / turbulentSide);
-        var turbulent = SafeguardedNewton.Solve(in equation, Bracket.Checked(lower, limit - PipeFlow.LimitOffset),
-            Math.Max(lower, limit - step), in PipeFlow.Options);
-        var transitional = SafeguardedNewton.Solve(in equation, Bracket.Checked(limit + PipeFlow.LimitOffset, limit + Math.Log(2.0)),
-            limit + step, in PipeFlow.Options);
+        // The root already found stands for its own side (its iterations and trace stay with the answer).
+        trace = found.Root < limit ? null : trace;
+        trace?.Clear(); // the answer's own solve replaces the record of the one that found the other root
+        var turbulent = found.Root < limit ? found
+            : SafeguardedNewton.Solve(in equation, Bracket.Checked(lower, limit - PipeFlow.LimitOffset),
+                Math.Max(lower, limit - step), in PipeFlow.Options, trace);
+        var transitional = found.Root > limit ? found
+            : SafeguardedNewton.Solve(in equation, Bracket.Checked(limit + PipeFlow.LimitOffset, limit + Math.Log(2.0)),
+                limit + step, in PipeFlow.Options);
         return turbulent.Converged && transitional.Converged ? (turbulent, transitional) : (null, null);
     }
 

@@ -161,7 +161,7 @@ public static class PipeFlow
         {
             // Near Re 4000 the same head may be met twice; the turbulent root is the answer, the other the alternate.
             double qLimit = o.Friction.TurbulentLimit * qPerRe;
-            var (turbulent, transitional) = TwoRootsAtTurbulentLimit(in equation, pipe, nu, drive, qLimit, root, o.Friction);
+            var (turbulent, transitional) = TwoRootsAtTurbulentLimit(in equation, pipe, nu, drive, qLimit, root, o.Friction, trace);
             if (turbulent is RootResult t && transitional is RootResult other)
             {
                 root = t;
@@ -185,12 +185,13 @@ public static class PipeFlow
     /// <summary>
     /// The two flows that meet the head when it lies within the drop of the head loss at the turbulent limit (Churchill's
     /// transition factor just below Re 4000 is above Colebrook-White's just above it), or (null, null) when it does not.
-    /// Rather than trust whichever root the Newton solve found, both are solved on their own side of the limit:
-    /// the turbulent one on [Q_T, 2 Q_T] (h grows at least as Q there, so h(2 Q_T) &gt; the drop's top) and the
-    /// transitional one on [Q_T / 2, Q_T] (h falls at least as Q below it); both brackets are checked.
+    /// Whichever root the Newton solve found, the other is solved on its own side of the limit: the turbulent one on
+    /// [Q_T, 2 Q_T] (h grows at least as Q there, so h(2 Q_T) &gt; the drop's top), the transitional one on
+    /// [Q_T / 2, Q_T] (h falls at least as Q below it); both brackets are checked. The turbulent root is the answer
+    /// whichever was found first.
     /// </summary>
     private static (RootResult? Turbulent, RootResult? Transitional) TwoRootsAtTurbulentLimit(in Equation equation,
-        in PipeGeometry pipe, double nu, double drive, double qLimit, in RootResult found, in FrictionOptions limits)
+        in PipeGeometry pipe, double nu, double drive, double qLimit, in RootResult found, in FrictionOptions limits, SolverTrace? trace)
     {
         // A root in the drop lies within its height (a few percent) of the limit; far from it there is nothing to do.
         double q = Math.Exp(found.Root);
@@ -198,11 +199,17 @@ public static class PipeFlow
         double below = PipeHeadLoss.Evaluate(pipe, nu, qLimit * (1 - LimitOffset), limits).HeadLoss;
         double above = PipeHeadLoss.Evaluate(pipe, nu, qLimit * (1 + LimitOffset), limits).HeadLoss;
         if (!(below > above && drive > above && drive < below)) return (null, null);
+        // The root already found stands for its own side (so its iterations and trace stay with the answer); the other
+        // side is solved afresh.
         double limit = Math.Log(qLimit);
-        var turbulent = SafeguardedNewton.Solve(in equation, Bracket.Checked(limit + LimitOffset, limit + Math.Log(2.0)),
-            limit + 0.5 * Math.Log(below / above), in Options);
-        var transitional = SafeguardedNewton.Solve(in equation, Bracket.Checked(limit - Math.Log(2.0), limit - LimitOffset),
-            limit - 0.5 * Math.Log(below / above), in Options);
+        trace = found.Root > limit ? null : trace;
+        trace?.Clear(); // the answer's own solve replaces the record of the one that found the other root
+        var turbulent = found.Root > limit ? found
+            : SafeguardedNewton.Solve(in equation, Bracket.Checked(limit + LimitOffset, limit + Math.Log(2.0)),
+                limit + 0.5 * Math.Log(below / above), in Options, trace);
+        var transitional = found.Root < limit ? found
+            : SafeguardedNewton.Solve(in equation, Bracket.Checked(limit - Math.Log(2.0), limit - LimitOffset),
+                limit - 0.5 * Math.Log(below / above), in Options);
         return turbulent.Converged && transitional.Converged ? (turbulent, transitional) : (null, null);
     }
 

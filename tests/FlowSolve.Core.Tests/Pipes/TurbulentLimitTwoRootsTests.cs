@@ -72,9 +72,11 @@ public sealed class TurbulentLimitTwoRootsTests
         var reference = Roots(q => HeadLoss(length, d, roughness, k, q) - head, 0.5 * q4, 2 * q4, head);
         Assert.Equal(2, reference.Count);
 
-        var r = PipeFlow.Solve(pipe, new FluidProperties(Nu), head);
+        var trace = new FlowSolve.Core.Numerics.SolverTrace();
+        var r = PipeFlow.Solve(pipe, new FluidProperties(Nu), head, trace: trace);
         Assert.Equal(PipeStatus.Solved, r.Status);
         Assert.True(r.Warnings.HasFlag(PipeWarnings.SecondSolution));
+        Assert.Equal(r.Iterations, trace.Steps.Count); // the trace is the answer's own solve
         // The turbulent (higher) flow is the answer, the transitional (lower) one the alternate.
         Assert.Equal(reference[1], r.Flow, reference[1] * 1e-9);
         Assert.Equal(reference[0], r.AlternateFlow!.Value, reference[0] * 1e-9);
@@ -114,8 +116,10 @@ public sealed class TurbulentLimitTwoRootsTests
         var reference = Roots(dd => HeadLoss(length, dd, roughness, 0, flow) - allowed, 0.5 * d4, 2 * d4, allowed);
         Assert.Equal(2, reference.Count);
 
-        var r = PipeDiameter.Solve(length, roughness, 0, new FluidProperties(Nu), flow, allowed);
+        var trace = new FlowSolve.Core.Numerics.SolverTrace();
+        var r = PipeDiameter.Solve(length, roughness, 0, new FluidProperties(Nu), flow, allowed, trace: trace);
         Assert.Equal(PipeStatus.Solved, r.Status);
+        Assert.Equal(r.Iterations, trace.Steps.Count); // the trace is the answer's own solve
         Assert.True(r.Warnings.HasFlag(PipeWarnings.SecondSolution));
         // The turbulent (smaller) diameter is the answer, the transitional (larger) one the alternate.
         Assert.Equal(reference[0], r.Diameter, reference[0] * 1e-9);

@@ -41,7 +41,7 @@ public sealed record ApproximationDto(string Method, double? FrictionFactor, dou
 /// <param name="Iterations">Solver iterations (0 for explicit relations).</param>
 /// <param name="Converged">True when the solve met its tolerance (always true for explicit relations).</param>
 /// <param name="Residual">Residual of Colebrook-White in 1/sqrt(f) at the answer (0 for explicit relations).</param>
-/// <param name="Status">Why the solver stopped: converged-on-step, converged-on-residual, iteration-cap-reached, no-sign-change or non-finite-value.</param>
+/// <param name="Status">Why the solver stopped: converged-on-step, converged-on-residual, iteration-cap-reached, no-sign-change or non-finite-value; closed-form when no solve ran because the exact value for the regime is explicit (the laminar law 64/Re, Churchill in the transition zone).</param>
 /// <param name="SolveVariable">The variable the solver iterated on (x = 1/sqrt(f)).</param>
 /// <param name="Validity">Each correlation's published range beside the inputs.</param>
 /// <param name="Warnings">Warnings with stable codes.</param>

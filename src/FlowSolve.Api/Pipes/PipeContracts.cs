@@ -289,6 +289,9 @@ public sealed record PipeFlowResponse(
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
     DarcyWeisbachComparisonDto? DarcyWeisbach, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
 {
+    /// <summary>Present only when a second flow meets the same head (see the second-solution warning), in the flow unit: near Reynolds number 4000 Churchill's transition friction factor lies above Colebrook-White's, so heads within that drop are met twice. Flow is then the turbulent (Colebrook-White) root and this the transitional (Churchill) one, the lower flow and the cautious estimate of what the pipe delivers. Darcy-Weisbach only.</summary>
+    public double? AlternateFlow { get; init; }
+
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
 
@@ -343,6 +346,9 @@ public sealed record PipeDiameterResponse(
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
     IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
 {
+    /// <summary>Present only when a second diameter gives the allowed head loss (see the second-solution warning), m (ft with units=us): near Reynolds number 4000 the friction factor rises from Colebrook-White to Churchill's transition value as the diameter grows, so allowances within that jump are met twice. Diameter is then the turbulent (Colebrook-White) root, the smaller, and this the transitional (Churchill) one, the larger and cautious choice; diameters between the one at Reynolds number 4000 and this exceed the allowance.</summary>
+    public double? AlternateDiameter { get; init; }
+
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
 

@@ -99,6 +99,8 @@ public static class PipeEndpoints
         double velocity = flow / pipe.Area;
         double reynolds = velocity * diameter / input.Fluid.KinematicViscosity;
         if (!(reynolds <= DarcyFriction.MaximumReynolds)) return OutsideRange(reynolds);
+        // Below the smallest Reynolds number they accept, f = 64/Re overflows (5e-324 m3/s, say): a 422 that says so.
+        if (!(reynolds >= DarcyFriction.MinimumReynolds)) return BelowRange(reynolds, input, pipe, flow);
 
         try
         {
@@ -190,7 +192,7 @@ public static class PipeEndpoints
                     r.Iterations, r.FrictionIterations, r.Converged, r.Residual, r.Status.Code(), r.SolverStatus.Code(), "ln(Q)",
                     input.MethodCode, u.Code, input.FlowUnit.Code,
                     s.Validity().Select(input.Validity).ToArray(), PipeInput.Warnings(r.DescribeWarnings()), input.Assumptions,
-                    null, TraceStepDto.From(trace));
+                    null, TraceStepDto.From(trace)) { AlternateFlow = r.AlternateFlow is double alt ? input.FlowUnit.FromSi(alt) : null };
                 if (sensitivities && r.Status == PipeStatus.Solved)
                 {
                     var spread = PipeSensitivityTables.Spread("flow", input, e =>
@@ -310,7 +312,8 @@ public static class PipeEndpoints
                 u.KinematicViscosity(input.Fluid.KinematicViscosity), input.DensityOut, selected,
                 r.Iterations, r.FrictionIterations, r.Converged, r.Residual, r.Status.Code(), r.SolverStatus.Code(), "ln(D)",
                 input.MethodCode, u.Code, input.FlowUnit.Code,
-                validity.Select(input.Validity).ToArray(), warnings, input.Assumptions, TraceStepDto.From(trace));
+                validity.Select(input.Validity).ToArray(), warnings, input.Assumptions, TraceStepDto.From(trace))
+                { AlternateDiameter = r.AlternateDiameter is double alt ? u.Length(alt) : null };
             if (sensitivities && r.Status == PipeStatus.Solved)
             {
                 var spread = PipeSensitivityTables.Spread("diameter", input, e =>
@@ -350,7 +353,7 @@ public static class PipeEndpoints
         {
             PipeStatus.NoFlow => string.Create(C,
                 $"headLoss - elevationChange is {u.Length(drivingHead):G6} {u.LengthUnit}: the available head does not exceed the elevation rise, so it drives no forward flow through this pipe."),
-            _ => status.Reason() + string.Create(C, $" (Reynolds number above {DarcyFriction.MaximumReynolds:0e0})."),
+            _ => status.Reason() + string.Create(C, $" (Reynolds number above {DarcyFriction.MaximumReynolds:0e0} or below {DarcyFriction.MinimumReynolds:G3}), or beyond double precision: check the orders of magnitude of the length, flow and head."),
         };
         return ProblemResults.NoAnswer(status == PipeStatus.NoFlow ? "The head drives no flow." : "No answer inside the friction relations' range.",
             detail, new Dictionary<string, object?> { ["pipeStatus"] = status.Code() });
@@ -360,6 +363,17 @@ public static class PipeEndpoints
         ProblemResults.NoAnswer("No answer inside the friction relations' range.", string.Create(C,
             $"The Reynolds number of this flow is {reynolds:G4}, above {DarcyFriction.MaximumReynolds:0e0}, the largest the friction relations accept."),
             new Dictionary<string, object?> { ["pipeStatus"] = PipeStatus.OutsideRange.Code(), ["reynolds"] = double.IsFinite(reynolds) ? reynolds : null });
+
+    private static ProblemHttpResult BelowRange(double reynolds, PipeInput input, in PipeGeometry pipe, double flow)
+    {
+        var u = input.Units;
+        double d = pipe.Diameter, g = Physical.StandardGravity;
+        // The laminar law written in the flow, finite where f = 64/Re is not: the loss that is left out.
+        double laminar = 128.0 * input.Fluid.KinematicViscosity * pipe.Length * flow / (Math.PI * g * d * d * d * d);
+        return ProblemResults.NoAnswer("No answer inside the friction relations' range.", string.Create(C,
+            $"The Reynolds number of this flow is {reynolds:G4}, below {DarcyFriction.MinimumReynolds:G3}, the smallest the friction relations accept (creeping flow: the friction factor 64/Re would exceed {64 / DarcyFriction.MinimumReynolds:G3}). The laminar friction loss there, 128 nu L Q/(pi g D^4), is {u.Length(laminar):G4} {u.LengthUnit}: negligible for any practical purpose."),
+            new Dictionary<string, object?> { ["pipeStatus"] = PipeStatus.OutsideRange.Code(), ["reynolds"] = reynolds });
+    }
 
     private static ProblemHttpResult NoListedSize(in SizeSelectionResult pick, PipeSizeTable table, double allowed, PipeInput input)
     {

@@ -204,6 +204,18 @@ public sealed record DutyPointResponse(
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
     IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary
 {
+    /// <summary>With efficiency points: root-mean-square deviation of the fitted efficiency curve from the points (fraction), as rmsDeviation is for the head curve.</summary>
+    public double? EfficiencyRmsDeviation { get; init; }
+
+    /// <summary>With efficiency points: largest deviation of the fitted efficiency curve from a point (fraction), as maxDeviation is for the head curve.</summary>
+    public double? EfficiencyMaxDeviation { get; init; }
+
+    /// <summary>With efficiency points: the best efficiency of the fitted curve (fraction), at bestEfficiencyFlow; warned (efficiency-above-data) when it exceeds the highest catalogue efficiency by more than 0.005.</summary>
+    public double? BestEfficiency { get; init; }
+
+    /// <summary>Only for a rising pump curve whose shut-off head does not exceed the static head but which climbs above the system curve: the lower intersection, where the pump-set curve rises through the system curve (flow unit). It is unstable (the flow runs away from it either way), so flow is the stable intersection above it; see the rising-pump-curve warning.</summary>
+    public double? UnstableFlow { get; init; }
+
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
 }

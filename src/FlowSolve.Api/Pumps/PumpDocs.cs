@@ -18,7 +18,11 @@ public static class PumpDocs
         "and density; water at 20 degrees C when neither is given (echoed in assumptions). A pump set that cannot reach the " +
         "static head, or curves that never meet, answer 422 (RFC 9457 problem details: status is the numeric HTTP status) with " +
         "dutyPointStatus (shut-off-below-static-head, curves-do-not-meet, or not-finite) and the figures (headShortfall, " +
-        "closestApproach and its flow). " +
+        "closestApproach and its flow). A rising curve whose shut-off head is at or below the static head but which climbs above " +
+        "the system curve is solved at its stable intersection, where the pump curve falls through the system curve, with a " +
+        "rising-pump-curve warning and unstableFlow (the lower intersection, where it rises through). With efficiency points the " +
+        "efficiency fit's deviations are reported (efficiencyRmsDeviation, efficiencyMaxDeviation) and an efficiency-above-data " +
+        "warning says when the fit peaks above the highest catalogue efficiency (the shaft power then comes out low). " +
         "Results are engineering estimates to be checked by a qualified engineer; local codes and licensed practice govern.";
 
     public const string DutyPoint = "Duty point of identical pumps in parallel or series on a system curve. " + SensitivityNote + Common;

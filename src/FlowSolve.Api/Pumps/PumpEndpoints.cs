@@ -300,6 +300,16 @@ public static class PumpEndpoints
                 cw.RelativeRoughnessMinimum, cw.RelativeRoughnessMaximum, p.RelativeRoughness)));
         }
 
+        if (input.EfficiencyFit is { } ef && (ef.PeakAboveData || r.Efficiency > ef.DataMaximumEfficiency + EfficiencyCurveFit.AboveDataMargin))
+        {
+            // The fit through the origin can overshoot the catalogue; the shaft power computed from it then comes out low.
+            double highest = ef.DataMaximumEfficiency;
+            string atDuty = r.Efficiency is double eta && eta > highest
+                ? string.Create(CultureInfo.InvariantCulture, $" At the duty it gives {eta:G3}, so the shaft power is {(1 - highest / eta) * 100:G2} percent below what the highest catalogue efficiency would give.")
+                : "";
+            warnings.Add(new("efficiency-above-data", string.Create(CultureInfo.InvariantCulture,
+                $"The efficiency curve fitted to the points peaks at {ef.Curve.BestEfficiency:G3} (at {u.Flow(ef.Curve.BestEfficiencyFlow):G4} {u.FlowUnit} per pump at rated speed), above the highest catalogue efficiency, {highest:G3}.{atDuty} The fit (through the origin) does not follow the points near their peak: check the efficiency at the duty against the catalogue (efficiencyMaxDeviation is the fit's largest miss).")));
+        }
         double? ratio = Finite(r.BestEfficiencyRatio);
         if (r.BestEfficiencyRatio is not null && ratio is null)
             warnings.Add(new("best-efficiency-flow-zero", "The efficiency data peak at zero flow, so the duty flow cannot be given as a fraction of the best-efficiency flow; check the efficiency points."));
@@ -327,6 +337,12 @@ public static class PumpEndpoints
             Finite(r.NpshRequired) is double nr ? u.Head(nr) : null,
             Finite(r.NpshMargin) is double nm ? u.Head(nm) : null,
             Finite(r.NpshRatio),
-            validity, warnings, input.Assumptions, Trace(trace, warnings));
+            validity, warnings, input.Assumptions, Trace(trace, warnings))
+        {
+            EfficiencyRmsDeviation = input.EfficiencyFit?.RmsDeviation,
+            EfficiencyMaxDeviation = input.EfficiencyFit?.MaxDeviation,
+            BestEfficiency = input.EfficiencyFit is { } bestFit ? Finite(bestFit.Curve.BestEfficiency) : null,
+            UnstableFlow = r.UnstableFlow is double low ? u.Flow(low) : null,
+        };
     }
 }

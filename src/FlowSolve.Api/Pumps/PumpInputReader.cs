@@ -11,10 +11,12 @@ namespace FlowSolve.Api.Pumps;
 internal sealed record PumpProblem(
     PumpUnits Units, PumpCurve Curve, PumpCurveFit? Fit, SystemCurve System, PumpArrangement Arrangement,
     DutyPointData Data, FluidProperties Fluid, string Method, bool Trace,
-    List<AssumptionDto> Assumptions, List<WarningDto> Warnings, List<ValidityDto> Validity, double? WaterCelsius = null);
+    List<AssumptionDto> Assumptions, List<WarningDto> Warnings, List<ValidityDto> Validity, double? WaterCelsius = null,
+    EfficiencyCurveFit? EfficiencyFit = null);
 
-/// <summary>A pump's curves as read from a request, in SI.</summary>
-internal sealed record PumpCurveReading(PumpCurve Curve, PumpCurveFit? Fit, EfficiencyCurve? Efficiency, NpshCurve? Npsh);
+/// <summary>A pump's curves as read from a request, in SI; with efficiency points, the efficiency fit's quality too.</summary>
+internal sealed record PumpCurveReading(PumpCurve Curve, PumpCurveFit? Fit, EfficiencyCurve? Efficiency, NpshCurve? Npsh,
+    EfficiencyCurveFit? EfficiencyFit = null);
 
 /// <summary>
 /// Reads and validates a pump request: every bad field is reported at once under its wire name (dotted for nested
@@ -101,6 +103,7 @@ internal static class PumpInputReader
         PumpCurve curve = reading?.Curve ?? default;
         PumpCurveFit? fit = reading?.Fit;
         EfficiencyCurve? efficiency = reading?.Efficiency;
+        EfficiencyCurveFit? efficiencyFit = reading?.EfficiencyFit;
         NpshCurve? npsh = reading?.Npsh;
 
         // System curve.
@@ -198,7 +201,7 @@ internal static class PumpInputReader
 
         return new PumpProblem(u, curve, fit, system, new PumpArrangement(parallel, series, speed),
             new DutyPointData(efficiency, npsh, suction, fluid), fluid, string.Join("; ", method), request.Trace == true,
-            assumptions, warnings, validity, waterCelsius);
+            assumptions, warnings, validity, waterCelsius, efficiencyFit);
 
         static double ToFahrenheit(double celsius) => celsius * 9.0 / 5.0 + 32;
     }
@@ -214,6 +217,7 @@ internal static class PumpInputReader
         PumpCurve curve = default;
         PumpCurveFit? fit = null;
         EfficiencyCurve? efficiency = null;
+        EfficiencyCurveFit? efficiencyFit = null;
         NpshCurve? npsh = null;
         bool curveOk = false;
         var degree = CurveDegree.Quadratic;
@@ -253,13 +257,24 @@ internal static class PumpInputReader
                 {
                     if (qmax is null && !double.IsFinite(CauchyBound(si[0], si[1], si[2], si[3])))
                         errors.Add(N(prefix + ".coefficients"), "the coefficients span too many orders of magnitude for double precision (the zero-head flow would overflow); rescale them, for example with another flow unit");
+                    else if (OverflowingTerm(si, qmax is double mq ? u.FlowToSi(mq) : CauchyBound(si[0], si[1], si[2], si[3])) is int k)
+                        errors.Add(N($"{prefix}.coefficients[{k}]"), string.Create(CultureInfo.InvariantCulture,
+                            $"c{k} is so large against the other coefficients that the head overflows double precision within the flow range searched for the zero-head flow (up to {u.Flow(qmax is double mq2 ? u.FlowToSi(mq2) : CauchyBound(si[0], si[1], si[2], si[3])):G3} {qu}); rescale the coefficients, for example with another flow unit"));
                     else if (qmax is null && !ReachesZeroHead(si[0], si[1], si[2], si[3]))
                         errors.Add(N(prefix + ".coefficients"), "the curve never falls to zero head, so the search for a duty point has no end; give " + N(prefix + ".maximumFlow"));
                     else
                     {
-                        curve = PumpCurve.FromCoefficients(si[0], si[1], si[2], si[3], qmax is double m ? u.FlowToSi(m) : null);
-                        curveOk = true;
-                        method.Add("pump curve from the coefficients given");
+                        try
+                        {
+                            curve = PumpCurve.FromCoefficients(si[0], si[1], si[2], si[3], qmax is double m ? u.FlowToSi(m) : null);
+                            curveOk = true;
+                            method.Add("pump curve from the coefficients given");
+                        }
+                        catch (ArgumentException)
+                        {
+                            // The checks above mirror the Core's; should rounding still part them, say so on the field.
+                            errors.Add(N(prefix + ".coefficients"), "the zero-head flow of these coefficients cannot be found in double precision; rescale them, for example with another flow unit, or give " + N(prefix + ".maximumFlow"));
+                        }
                     }
                 }
             }
@@ -336,7 +351,8 @@ internal static class PumpInputReader
                         if (p.CurveDegree is null) assumptions.Add(new(prefix + ".curveDegree", "quadratic", "a quadratic fit (default)"));
                         if (effs.Count >= 3)
                         {
-                            efficiency = EfficiencyCurve.Fit(effFlows.ToArray(), effs.ToArray(), degree, throughOrigin: true).Curve;
+                            efficiencyFit = EfficiencyCurve.Fit(effFlows.ToArray(), effs.ToArray(), degree, throughOrigin: true);
+                            efficiency = efficiencyFit.Value.Curve;
                             method.Add("efficiency curve fitted through the origin (no flow, no useful work)");
                         }
                         if (npshs.Count >= 3)
@@ -348,7 +364,7 @@ internal static class PumpInputReader
                 }
             }
         }
-        return curveOk ? new PumpCurveReading(curve, fit, efficiency, npsh) : null;
+        return curveOk ? new PumpCurveReading(curve, fit, efficiency, npsh, efficiencyFit) : null;
     }
 
     /// <summary>How many messages are recorded (to tell whether one section of the request added any).</summary>
@@ -375,6 +391,28 @@ internal static class PumpInputReader
         double lead = c3 != 0 ? c3 : c2 != 0 ? c2 : c1;
         if (lead == 0) return 1.0;
         return 1.0 + Math.Max(Math.Abs(c0 / lead), Math.Max(c3 != 0 ? Math.Abs(c1 / lead) : 0, c3 != 0 ? Math.Abs(c2 / lead) : c2 != 0 ? Math.Abs(c1 / lead) : 0));
+    }
+
+    /// <summary>The coefficient to blame when a term c_k x^k overflows (beyond an eighth of the largest double, so the
+    /// polynomial's sum stays finite) somewhere on [0, <paramref name="reach"/>]: the one with the largest ratio to the
+    /// leading coefficient, which sets the reach; null when every term stays finite. The Core searches the zero-head
+    /// flow up to that reach, and an overflow there leaves it unable to find a zero the curve does have.</summary>
+    private static int? OverflowingTerm(double[] c, double reach)
+    {
+        const double limit = double.MaxValue / 8;
+        bool overflow = !double.IsFinite(reach);
+        for (int k = 1; k < 4 && !overflow; k++)
+            overflow = !(Math.Abs(c[k]) * Math.Pow(reach, k) < limit);
+        if (!overflow) return null;
+        int lead = c[3] != 0 ? 3 : c[2] != 0 ? 2 : 1;
+        int worst = 0;
+        double ratio = -1;
+        for (int k = 0; k < lead; k++)
+        {
+            double r = Math.Abs(c[k] / c[lead]);
+            if (r > ratio) (ratio, worst) = (r, k);
+        }
+        return worst;
     }
 
     /// <summary>True when c0 + c1 Q + c2 Q^2 + c3 Q^3 (c0 &gt; 0) falls clearly below zero for some Q &gt; 0, so the Core's

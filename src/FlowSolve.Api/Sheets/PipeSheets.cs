@@ -164,6 +164,8 @@ public sealed class PipeFlowSheet : ISheetBuilder
             "FlowSolve's bracketed Newton-bisection (after Press et al., Numerical Recipes, rtsafe)"));
 
         sheet.Results.Add(new("Flow Q", SheetHtml.Fmt(r.Flow), r.FlowUnit, "by " + r.Method));
+        if (r.AlternateFlow is double altQ) sheet.Results.Add(new("Alternate flow", SheetHtml.Fmt(altQ), r.FlowUnit,
+            "a second flow meets the same head: transitional, Churchill (see the second-solution warning)"));
         sheet.Results.Add(new("Velocity V", SheetHtml.Fmt(r.Velocity), u.VelocityUnit, ""));
         sheet.Results.Add(new("Head for the losses (driving head)", SheetHtml.Fmt(r.DrivingHead), u.LengthUnit, "available head - elevation change"));
         sheet.Results.Add(new("Head loss hf + hm at Q", SheetHtml.Fmt(r.HeadLoss), u.LengthUnit, ""));
@@ -212,6 +214,8 @@ public sealed class PipeDiameterSheet : ISheetBuilder
             "FlowSolve's bracketed Newton-bisection (after Press et al., Numerical Recipes, rtsafe)"));
 
         sheet.Results.Add(new("Minimum inside diameter D", SheetHtml.Fmt(r.Diameter), u.LengthUnit, ""));
+        if (r.AlternateDiameter is double altD) sheet.Results.Add(new("Alternate diameter", SheetHtml.Fmt(altD), u.LengthUnit,
+            "a second diameter gives the same loss: transitional, Churchill; the diameters between the one at Re 4000 and this exceed it"));
         if (r.SelectedSize is { } s)
         {
             sheet.Results.Add(new("Selected size", s.Name, "", s.Table));

@@ -60,8 +60,8 @@ public sealed class PumpDutySheet : ISheetBuilder
 
         var curves = OperatingCurves.Sample(input.Curve, input.System, input.Arrangement, u.FlowToSi(r.Flow), CurvePoints,
             input.Data.Efficiency, input.Data.NpshRequired);
-        sheet.Figures.Add(HeadPlot(r, input, curves));
-        if (curves.Efficiency is not null && r.BestEfficiencyFlow is not null) sheet.Figures.Add(EfficiencyPlot(r, input, curves));
+        sheet.Figures.Add(HeadPlot(r, input, curves, request.Pump?.Points));
+        if (curves.Efficiency is not null && r.BestEfficiencyFlow is not null) sheet.Figures.Add(EfficiencyPlot(r, input, curves, request.Pump?.Points));
         sheet.Figures.Add(SheetParts.Convergence(steps, "(m)",
             "Pump-set head minus system head at each Newton iteration, in m, log scale; the last iteration is marked."));
         return sheet;
@@ -184,6 +184,11 @@ public sealed class PumpDutySheet : ISheetBuilder
         if (c.ZeroHeadFlow is double z) sheet.Results.Add(new("Zero-head flow of one pump at rated speed", SheetHtml.Fmt(z), qu, ""));
         if (r.RmsDeviation is double rms) sheet.Results.Add(new("Fit: root-mean-square deviation", SheetHtml.Fmt(rms), hu, "from the points"));
         if (r.MaxDeviation is double max) sheet.Results.Add(new("Fit: largest deviation", SheetHtml.Fmt(max), hu, "from a point"));
+        if (r.UnstableFlow is double low) sheet.Results.Add(new("Unstable intersection", SheetHtml.Fmt(low), qu,
+            "where the rising pump curve climbs through the system curve; not a duty point"));
+        if (r.BestEfficiency is double best) sheet.Results.Add(new("Best efficiency of the fitted curve", SheetHtml.Fmt(best), "-", "fraction, at the best-efficiency flow"));
+        if (r.EfficiencyRmsDeviation is double erms) sheet.Results.Add(new("Efficiency fit: root-mean-square deviation", SheetHtml.Fmt(erms), "-", "from the points, fraction"));
+        if (r.EfficiencyMaxDeviation is double emax) sheet.Results.Add(new("Efficiency fit: largest deviation", SheetHtml.Fmt(emax), "-", "from a point, fraction"));
         if (r.Efficiency is double eta) sheet.Results.Add(new("Efficiency of each pump", SheetHtml.Fmt(eta), "-", "fraction"));
         if (r.HydraulicPower is double ph) sheet.Results.Add(new("Hydraulic power of the set", SheetHtml.Fmt(ph), pu, "rho g Q H"));
         if (r.ShaftPower is double ps) sheet.Results.Add(new("Shaft power of the set", SheetHtml.Fmt(ps), pu, "rho g Q H / eta"));
@@ -200,7 +205,7 @@ public sealed class PumpDutySheet : ISheetBuilder
 
     /// <summary>One pump at speed, the pump set and the system against the set flow, the duty point and (with
     /// efficiency data) the best-efficiency points marked; in the response's units.</summary>
-    private static SheetFigure HeadPlot(DutyPointResponse r, PumpProblem input, OperatingCurves curves)
+    private static SheetFigure HeadPlot(DutyPointResponse r, PumpProblem input, OperatingCurves curves, IReadOnlyList<PumpPointInput>? catalogue)
     {
         var u = input.Units;
         var a = input.Arrangement;
@@ -220,6 +225,11 @@ public sealed class PumpDutySheet : ISheetBuilder
         if (!single) plot.Label(pump[flows.Length / 4].Item1, pump[flows.Length / 4].Item2 - 0.03 * (top - bottom), "one pump", "end");
         plot.Label(system[^1].Item1 * 0.97, Math.Min(system[^1].Item2, top) - 0.03 * (top - bottom), "system", "end");
         plot.Marker("duty point", r.Flow, r.Head, string.Create(C, $"Q = {r.Flow:G5}, H = {r.Head:G5}"));
+        // The catalogue points the curve was fitted to, carried to the running speed by the affinity laws (q s, H s^2),
+        // beside the one-pump curve they belong to.
+        double sr = a.SpeedRatio;
+        foreach (var pt in catalogue ?? [])
+            if (pt is { Flow: double cq, Head: double ch }) plot.Point("catalogue point", cq * sr, ch * sr * sr, "catalogue");
 
         if (r.BestEfficiencyFlow is double qb)
         {
@@ -235,11 +245,12 @@ public sealed class PumpDutySheet : ISheetBuilder
             $"Head against flow for {arrangement} at speed ratio {SheetHtml.Fmt(a.SpeedRatio)}, computed by FlowSolve at {CurvePoints.ToString(C)} flows: "
             + (single ? "the pump (accent line)" : "one pump at speed (dashed), the pump set (accent line)")
             + " and the system; the duty point is marked" + (r.BestEfficiencyFlow is null ? "." : ", and the best-efficiency points (BEP) in ink.")
+            + (catalogue is { Count: > 0 } ? " Hollow circles: the catalogue points the pump curve was fitted to" + (a.SpeedRatio == 1 ? "." : ", carried to the running speed by the affinity laws.") : "")
             + " Heads below the axis (beyond the zero-head flow) are left out of the drawing.");
     }
 
     /// <summary>The efficiency of each pump against the set flow, the duty and best-efficiency points marked.</summary>
-    private static SheetFigure EfficiencyPlot(DutyPointResponse r, PumpProblem input, OperatingCurves curves)
+    private static SheetFigure EfficiencyPlot(DutyPointResponse r, PumpProblem input, OperatingCurves curves, IReadOnlyList<PumpPointInput>? catalogue)
     {
         var u = input.Units;
         var eff = input.Data.Efficiency!.Value;
@@ -251,8 +262,12 @@ public sealed class PumpDutySheet : ISheetBuilder
             plot.Marker("duty point", r.Flow, eta, string.Create(C, $"eta = {eta:G4}"));
         plot.Marker("best efficiency", input.Arrangement.Parallel * r.BestEfficiencyFlow!.Value, eff.BestEfficiency,
             string.Create(C, $"BEP {eff.BestEfficiency:G4}"), role: "bep", accent: false);
+        // The catalogue efficiencies at the set flow where each pump runs at the point's rated-speed flow: Q = Np s q.
+        double setPerRated = input.Arrangement.Parallel * input.Arrangement.SpeedRatio;
+        foreach (var pt in catalogue ?? [])
+            if (pt is { Flow: double cq, Efficiency: double ce }) plot.Point("catalogue point", cq * setPerRated, ce, "catalogue");
         return new SheetFigure("efficiency", plot.Render(),
             "Efficiency of each pump while the set delivers Q (the fitted curve read at each pump's rated-speed flow), computed by FlowSolve; "
-            + "the duty point and the best-efficiency point are marked.");
+            + "the duty point and the best-efficiency point are marked; hollow circles are the catalogue points the curve was fitted to.");
     }
 }

@@ -145,6 +145,15 @@ public sealed class SvgPlot
         return this;
     }
 
+    /// <summary>A data point drawn as a hollow circle without a label (a catalogue point beside a fitted curve), with its
+    /// data coordinates in data-x and data-y; left out of the drawing, not the markup, outside the axes' ranges.</summary>
+    public SvgPlot Point(string name, double x, double y, string role = "data-point")
+    {
+        string at = Drawable(x, y) ? string.Create(C, $" cx=\"{Px(x)}\" cy=\"{Py(y)}\"") : " visibility=\"hidden\"";
+        _body.Append(C, $"<circle data-role=\"{Enc(role)}\" data-name=\"{Enc(name)}\" data-x=\"{Num(x)}\" data-y=\"{Num(y)}\"{at} r=\"3.5\" fill=\"#ffffff\" stroke=\"{Ink}\" stroke-width=\"1.5\"/>");
+        return this;
+    }
+
     /// <summary>A straight link between two points (a pipe or pump on a schematic), with its ends in data units and an
     /// optional label at its middle; dashed for a pump, grey for a closed link.</summary>
     public SvgPlot Segment(string name, double x1, double y1, double x2, double y2, string label, string role = "link", bool dashed = false, bool grey = false)

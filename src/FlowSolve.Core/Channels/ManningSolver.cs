@@ -176,7 +176,10 @@ public static class ManningSolver
         var function = new ConveyanceResidual(circle, n, logTarget);
         // Residuals ln(Q(y)/Q) at the peak and at the crown.
         double atPeak = function.Value(peak, false), atFull = function.Value(d, false);
-        var capacity = new ChannelCapacity(flow * Math.Exp(atPeak), peak, flow * Math.Exp(atFull), d);
+        // From the conveyances themselves, as Capacity does, not as Q e^r: for a vanishing flow (5e-324 m3/s) e^r
+        // overflows, and the target ln(Q / sqrt(S)) of a subnormal Q carries little precision.
+        double sqrtS = Math.Sqrt(slope);
+        var capacity = new ChannelCapacity(circle.Evaluate(peak).Conveyance(n) * sqrtS, peak, circle.Evaluate(d).Conveyance(n) * sqrtS, d);
 
         const double touch = 1e-13; // a flow within this relative margin of the peak is taken as the peak itself
         if (atPeak < -touch)
@@ -211,7 +214,7 @@ public static class ManningSolver
     private static NormalDepthResult Surveyed(SurveyedSection section, double flow, double slope, double n, double logTarget)
     {
         var scan = DepthScan.Run(section, new ConveyanceResidual(section, n, logTarget), LogDepthSolve.DepthOptions);
-        var capacity = new ChannelCapacity(flow * Math.Exp(scan.MaximumValue), scan.DepthAtMaximum, flow * Math.Exp(scan.ValueAtTop), section.MaximumDepth);
+        var capacity = new ChannelCapacity(Math.Exp(scan.MaximumValue + Math.Log(flow)), scan.DepthAtMaximum, Math.Exp(scan.ValueAtTop + Math.Log(flow)), section.MaximumDepth);
         if (scan.Depths.Count == 0)
         {
             return NoDepth(section, flow, slope, n, capacity, scan.MaximumValue, scan.Iterations, string.Create(CultureInfo.InvariantCulture,

@@ -49,7 +49,8 @@ public readonly struct FrictionResult
     /// <summary>Colebrook-White residual in 1/sqrt(f) for the exact solve; 0 for explicit relations.</summary>
     public double Residual { get; }
 
-    /// <summary>Solver status; <see cref="SolveStatus.ConvergedOnResidual"/> for explicit relations, which are exact by definition.</summary>
+    /// <summary>Solver status; <see cref="SolveStatus.ClosedForm"/> for the laminar law and the explicit relations, which
+    /// involve no iteration and are exact by definition.</summary>
     public SolveStatus Status { get; }
 
     /// <summary>Warning flags.</summary>
@@ -127,7 +128,7 @@ public static class DarcyFriction
         {
             if (method != FrictionMethod.ColebrookWhite) warnings |= FrictionWarnings.MethodNotApplicableInRegime;
             return new FrictionResult(64.0 / reynolds, FlowRegime.Laminar, LaminarRelation, 0, 0.0,
-                SolveStatus.ConvergedOnResidual, warnings, reynolds, relativeRoughness, FrictionMethod.ColebrookWhite);
+                SolveStatus.ClosedForm, warnings, reynolds, relativeRoughness, FrictionMethod.ColebrookWhite);
         }
 
         if (reynolds < limits.TurbulentLimit)
@@ -163,7 +164,7 @@ public static class DarcyFriction
         if (regime == FlowRegime.Turbulent && !info.InRange(reynolds, relativeRoughness))
             warnings |= FrictionWarnings.ApproximationOutOfRange;
         double f = ExplicitFriction.Evaluate(info.Method, reynolds, relativeRoughness);
-        return new FrictionResult(f, regime, info.Code, 0, 0.0, SolveStatus.ConvergedOnResidual, warnings,
+        return new FrictionResult(f, regime, info.Code, 0, 0.0, SolveStatus.ClosedForm, warnings,
             reynolds, relativeRoughness, info.Method);
     }
 

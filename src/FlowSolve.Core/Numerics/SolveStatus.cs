@@ -24,6 +24,11 @@ public enum SolveStatus
 
     /// <summary>The function returned NaN or an infinity at a point inside the bracket.</summary>
     NonFiniteValue,
+
+    /// <summary>No iteration ran: the value comes from a closed-form (explicit) relation, such as the laminar law
+    /// f = 64/Re or an explicit friction approximation, and is exact for that relation. Added after the other codes, so
+    /// their numeric values and wire codes are unchanged.</summary>
+    ClosedForm,
 }
 
 /// <summary>Human-readable reasons for <see cref="SolveStatus"/> values (static strings; no allocation).</summary>
@@ -38,6 +43,7 @@ public static class SolveStatusExtensions
         SolveStatus.IterationCapReached => "stopped: the iteration cap was reached before convergence",
         SolveStatus.NoSignChange => "stopped: the function has the same sign at both ends of the bracket",
         SolveStatus.NonFiniteValue => "stopped: the function returned a non-finite value",
+        SolveStatus.ClosedForm => "exact: a closed-form relation gave the value; no iteration was needed",
         _ => "unknown",
     };
 
@@ -50,10 +56,12 @@ public static class SolveStatusExtensions
         SolveStatus.IterationCapReached => "iteration-cap-reached",
         SolveStatus.NoSignChange => "no-sign-change",
         SolveStatus.NonFiniteValue => "non-finite-value",
+        SolveStatus.ClosedForm => "closed-form",
         _ => "unknown",
     };
 
-    /// <summary>True for the two converged statuses.</summary>
+    /// <summary>True for the converged statuses and for a closed-form value.</summary>
     public static bool IsConverged(this SolveStatus status) =>
-        status is SolveStatus.ConvergedOnStep or SolveStatus.ConvergedOnResidual or SolveStatus.ConvergedOnPredictedStep;
+        status is SolveStatus.ConvergedOnStep or SolveStatus.ConvergedOnResidual or SolveStatus.ConvergedOnPredictedStep
+            or SolveStatus.ClosedForm;
 }

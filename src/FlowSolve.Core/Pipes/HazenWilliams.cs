@@ -154,6 +154,13 @@ public static class HazenWilliams
             if (!root.Converged) status = PipeStatus.NotConverged;
         }
 
+        double reynolds = q / area * d / fluid.KinematicViscosity;
+        if (!(reynolds <= DarcyFriction.MaximumReynolds && reynolds >= DarcyFriction.MinimumReynolds))
+        {
+            // The Darcy-Weisbach state beside the answer cannot be evaluated there (a vanishing length drives an
+            // unbounded flow): no answer, as for Darcy-Weisbach itself.
+            return new HazenWilliamsFlowResult(default, drive, iterations, PipeStatus.OutsideRange, dw, 0, 0);
+        }
         var dwAtQ = PipeHeadLoss.Evaluate(pipe, fluid.KinematicViscosity, q, o.Friction);
         var result = Build(pipe, fluid.KinematicViscosity, q, coefficient, dwAtQ, o);
         if (status == PipeStatus.NotConverged) result = result with { Warnings = result.Warnings | PipeWarnings.NotConverged };

@@ -22,9 +22,31 @@ public readonly record struct DiameterResult(
     /// <summary>True when the result holds a usable diameter.</summary>
     public bool Converged => Status.HasAnswer();
 
+    /// <summary>A second diameter that gives the same head loss, or null: near the turbulent limit (Re 4000) the
+    /// friction factor rises where Colebrook-White gives way to Churchill's transition value as the diameter grows, so the
+    /// head loss jumps up there and allowances within that jump are met twice (<see cref="PipeWarnings.SecondSolution"/>).
+    /// <see cref="Diameter"/> is then the turbulent (Colebrook-White) root, the smaller, and this the transitional
+    /// (Churchill) one, the larger, in m. Diameters between the one at Re 4000 and this exceed the allowance.</summary>
+    public double? AlternateDiameter { get; init; }
+
     /// <summary>Friction and pipe warnings as coded messages (allocates).</summary>
     /// <param name="options">Options used.</param>
-    public IReadOnlyList<CalculationWarning> DescribeWarnings(PipeOptions? options = null) => State.Describe(Warnings, options);
+    public IReadOnlyList<CalculationWarning> DescribeWarnings(PipeOptions? options = null)
+    {
+        var list = State.Describe(Warnings, options);
+        if (AlternateDiameter is not double other) return list;
+        double limit = (options ?? PipeOptions.Default).Friction.TurbulentLimit;
+        return new List<CalculationWarning>(list)
+        {
+            new("second-solution", string.Format(System.Globalization.CultureInfo.InvariantCulture,
+                "Two diameters give the allowed head loss: {0:G6} m (Reynolds number {1:G5}, turbulent, Colebrook-White), " +
+                "reported as the diameter, and {2:G6} m (transitional, Churchill 1977), reported as alternateDiameter. As the " +
+                "diameter grows through Reynolds number {3:G4} ({4:G6} m) the friction factor rises from Colebrook-White to " +
+                "Churchill's transition value, so every diameter between {4:G6} m and {2:G6} m exceeds the allowance. Flow there " +
+                "may be laminar or turbulent; the larger diameter is the cautious choice.",
+                Diameter, State.Reynolds, other, limit, State.Diameter * State.Reynolds / limit)),
+        };
+    }
 }
 
 /// <summary>The smallest listed size that meets an allowed head loss, with the minimum diameter behind it.</summary>
@@ -84,6 +106,13 @@ public static class PipeDiameter
 
         double lo, hi, start;
         Bracket bracket;
+        if (!(dLam > 0) || !double.IsFinite(dLam) || !(reTimesD > 0) || !(reTimesD / dLam >= DarcyFriction.MinimumReynolds))
+        {
+            // The laminar bound under- or overflows (a vanishing flow or length, say), or its Reynolds number lies below
+            // the smallest the friction relations accept: no answer rather than an infinite or empty one.
+            return new DiameterResult(PipeFlow.Empty(double.IsFinite(dLam) ? dLam : 0, 0), h, 0, 0, 0.0,
+                PipeStatus.OutsideRange, SolveStatus.NoSignChange, PipeWarnings.None);
+        }
         if (reTimesD / dLam < laminarLimit)
         {
             // The laminar diameter is the answer; the solve confirms it in one step.
@@ -96,6 +125,9 @@ public static class PipeDiameter
         {
             hi = Math.Log(reTimesD / (0.5 * laminarLimit));
             double dFloor = Math.Max(roughness * (1 + 1e-9), 2.0 * reTimesD / DarcyFriction.MaximumReynolds);
+            if (!(Math.Log(dFloor) < hi))
+                return new DiameterResult(PipeFlow.Empty(dFloor, 0), h, 0, 0, 0.0, PipeStatus.OutsideRange,
+                    SolveStatus.NoSignChange, PipeWarnings.None);
             if (dLam > dFloor)
             {
                 lo = Math.Log(dLam);
@@ -113,15 +145,59 @@ public static class PipeDiameter
         var equation = new Equation(pipe, nu, flow, Math.Log(h), o.Friction);
         FrictionCounter.Reset();
         RootResult root = SafeguardedNewton.Solve(in equation, bracket, start, in PipeFlow.Options, trace);
-        if (root.Status == SolveStatus.NoSignChange)
+        if (root.Status is SolveStatus.NoSignChange or SolveStatus.NonFiniteValue)
             return new DiameterResult(PipeFlow.Empty(Math.Exp(root.Root), 0), h, root.Iterations, FrictionCounter.Total,
                 0.0, PipeStatus.OutsideRange, root.Status, PipeWarnings.None);
+
+        double? alternate = null;
+        if (root.Converged)
+        {
+            // Near Re 4000 the same allowance may be met twice; the turbulent root is the answer, the other the alternate.
+            var (turbulent, transitional) = TwoRootsAtTurbulentLimit(in equation, pipe, nu, flow, h,
+                reTimesD / o.Friction.TurbulentLimit, root, o.Friction, trace);
+            if (turbulent is RootResult t && transitional is RootResult other)
+            {
+                root = t;
+                alternate = Math.Exp(other.Root);
+            }
+        }
 
         var state = PipeHeadLoss.Evaluate(pipe.WithDiameter(Math.Exp(root.Root)), nu, flow, o.Friction);
         FrictionCounter.Add(state.FrictionIterations);
         double residual = Math.Log(state.HeadLoss) - Math.Log(h);
         var (status, warnings) = PipeFlow.Classify(root, residual, state, o);
-        return new DiameterResult(state, h, root.Iterations, FrictionCounter.Total, residual, status, root.Status, warnings);
+        if (alternate is not null) warnings |= PipeWarnings.SecondSolution;
+        return new DiameterResult(state, h, root.Iterations, FrictionCounter.Total, residual, status, root.Status, warnings)
+            { AlternateDiameter = alternate };
+    }
+
+    /// <summary>
+    /// The two diameters that give the allowance when it lies within the jump of the head loss at the turbulent limit
+    /// (as the diameter grows through D_T, where Re = 4000, the factor rises from Colebrook-White to Churchill's), or
+    /// (null, null) when it does not. The root not yet found is solved on its own side: the turbulent one on
+    /// [D_T / 2, D_T] (h falls at least as D^-4 there), the transitional one on [D_T, 2 D_T]; both brackets are checked.
+    /// </summary>
+    private static (RootResult? Turbulent, RootResult? Transitional) TwoRootsAtTurbulentLimit(in Equation equation,
+        in PipeGeometry pipe, double nu, double flow, double allowed, double dLimit, in RootResult found, in FrictionOptions limits,
+        SolverTrace? trace)
+    {
+        double d = Math.Exp(found.Root);
+        if (!(d > 0.5 * dLimit && d < 2.0 * dLimit) || !(dLimit > pipe.Roughness)) return (null, null);
+        double turbulentSide = PipeHeadLoss.Evaluate(pipe.WithDiameter(dLimit * (1 - PipeFlow.LimitOffset)), nu, flow, limits).HeadLoss;
+        double transitionSide = PipeHeadLoss.Evaluate(pipe.WithDiameter(dLimit * (1 + PipeFlow.LimitOffset)), nu, flow, limits).HeadLoss;
+        if (!(transitionSide > turbulentSide && allowed > turbulentSide && allowed < transitionSide)) return (null, null);
+        double limit = Math.Log(dLimit), lower = Math.Max(limit - Math.Log(2.0), Math.Log(pipe.Roughness * (1 + 1e-9)));
+        double step = 0.2 * Math.Log(transitionSide / turbulentSide);
+        // The root already found stands for its own side (its iterations and trace stay with the answer).
+        trace = found.Root < limit ? null : trace;
+        trace?.Clear(); // the answer's own solve replaces the record of the one that found the other root
+        var turbulent = found.Root < limit ? found
+            : SafeguardedNewton.Solve(in equation, Bracket.Checked(lower, limit - PipeFlow.LimitOffset),
+                Math.Max(lower, limit - step), in PipeFlow.Options, trace);
+        var transitional = found.Root > limit ? found
+            : SafeguardedNewton.Solve(in equation, Bracket.Checked(limit + PipeFlow.LimitOffset, limit + Math.Log(2.0)),
+                limit + step, in PipeFlow.Options);
+        return turbulent.Converged && transitional.Converged ? (turbulent, transitional) : (null, null);
     }
 
     /// <summary>Chooses the smallest size in a table whose inside diameter carries the flow within the allowed head loss.</summary>

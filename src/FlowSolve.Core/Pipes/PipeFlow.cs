@@ -26,9 +26,30 @@ public readonly record struct FlowResult(
     /// <summary>True when the result holds a usable flow.</summary>
     public bool Converged => Status.HasAnswer();
 
+    /// <summary>A second flow that the same head drives, or null: near the turbulent limit (Re 4000) the friction
+    /// factor drops where Churchill's transition value gives way to Colebrook-White, so the head loss falls slightly as
+    /// the flow rises through it and heads within that drop are met twice (<see cref="PipeWarnings.SecondSolution"/>).
+    /// <see cref="Flow"/> is then the turbulent (Colebrook-White) root and this the transitional (Churchill) one, the
+    /// lower flow, in m3/s.</summary>
+    public double? AlternateFlow { get; init; }
+
     /// <summary>Friction and pipe warnings as coded messages (allocates).</summary>
     /// <param name="options">Options used.</param>
-    public IReadOnlyList<CalculationWarning> DescribeWarnings(PipeOptions? options = null) => State.Describe(Warnings, options);
+    public IReadOnlyList<CalculationWarning> DescribeWarnings(PipeOptions? options = null)
+    {
+        var list = State.Describe(Warnings, options);
+        if (AlternateFlow is not double other) return list;
+        return new List<CalculationWarning>(list)
+        {
+            new("second-solution", string.Format(System.Globalization.CultureInfo.InvariantCulture,
+                "Two flows meet this head: {0:G6} m3/s (Reynolds number {1:G5}, turbulent, Colebrook-White), reported as the flow, " +
+                "and {2:G6} m3/s (transitional, Churchill 1977), reported as alternateFlow. Near Reynolds number {3:G4} the " +
+                "friction factor drops where Churchill's transition value gives way to Colebrook-White, so the head loss falls " +
+                "slightly as the flow rises through it. Flow there may be laminar or turbulent; the lower flow is the cautious " +
+                "estimate of what the pipe delivers.",
+                Flow, State.Reynolds, other, (options ?? PipeOptions.Default).Friction.TurbulentLimit)),
+        };
+    }
 }
 
 /// <summary>Flow through a pipe from the head available to drive it.</summary>
@@ -95,6 +116,12 @@ public static class PipeFlow
         double lo = Math.Log(0.5 * Math.Min(reLam, laminarLimit) * qPerRe);
         double hi, start;
         Bracket bracket;
+        if (!(reLam >= DarcyFriction.MinimumReynolds))
+        {
+            // Creeping flow below the smallest Reynolds number the friction relations accept (a head of 5e-324 m,
+            // say, whose flow underflows): no answer, as for the head loss of such a flow.
+            return NoAnswer(pipe, availableHead, elevationRise, drive, PipeStatus.OutsideRange);
+        }
         if (reLam < laminarLimit)
         {
             // The laminar root is the answer; the solve confirms it in one step.
@@ -112,6 +139,10 @@ public static class PipeFlow
             }
             else
             {
+                // The laminar bound lies beyond the friction relations (or overflows, for a vanishing length): when
+                // even the flow at half their largest Reynolds number leaves head over, the answer lies beyond them.
+                if (!(PipeHeadLoss.Evaluate(pipe, nu, qCap, o.Friction).HeadLoss >= drive))
+                    return NoAnswer(pipe, availableHead, elevationRise, drive, PipeStatus.OutsideRange);
                 hi = Math.Log(qCap);
                 bracket = Bracket.Checked(lo, hi);
             }
@@ -121,17 +152,65 @@ public static class PipeFlow
         var equation = new Equation(pipe, nu, Math.Log(drive), o.Friction);
         FrictionCounter.Reset();
         RootResult root = SafeguardedNewton.Solve(in equation, bracket, start, in Options, trace);
-        if (root.Status == SolveStatus.NoSignChange)
+        if (root.Status is SolveStatus.NoSignChange or SolveStatus.NonFiniteValue)
             return NoAnswer(pipe, availableHead, elevationRise, drive, PipeStatus.OutsideRange) with
                 { Iterations = root.Iterations, FrictionIterations = FrictionCounter.Total, SolverStatus = root.Status };
+
+        double? alternate = null;
+        if (root.Converged)
+        {
+            // Near Re 4000 the same head may be met twice; the turbulent root is the answer, the other the alternate.
+            double qLimit = o.Friction.TurbulentLimit * qPerRe;
+            var (turbulent, transitional) = TwoRootsAtTurbulentLimit(in equation, pipe, nu, drive, qLimit, root, o.Friction, trace);
+            if (turbulent is RootResult t && transitional is RootResult other)
+            {
+                root = t;
+                alternate = Math.Exp(other.Root);
+            }
+        }
 
         var state = PipeHeadLoss.Evaluate(pipe, nu, Math.Exp(root.Root), o.Friction);
         FrictionCounter.Add(state.FrictionIterations);
         double residual = Math.Log(state.HeadLoss) - Math.Log(drive);
         var (status, warnings) = Classify(root, residual, state, o);
+        if (alternate is not null) warnings |= PipeWarnings.SecondSolution;
         double? pressureDrop = fluid.Density * g * state.HeadLoss;
         return new FlowResult(state, availableHead, elevationRise, drive, pressureDrop, root.Iterations,
-            FrictionCounter.Total, residual, status, root.Status, warnings);
+            FrictionCounter.Total, residual, status, root.Status, warnings) { AlternateFlow = alternate };
+    }
+
+    /// <summary>Relative offset from a regime limit at which the relation on either side is evaluated.</summary>
+    internal const double LimitOffset = 1e-12;
+
+    /// <summary>
+    /// The two flows that meet the head when it lies within the drop of the head loss at the turbulent limit (Churchill's
+    /// transition factor just below Re 4000 is above Colebrook-White's just above it), or (null, null) when it does not.
+    /// Whichever root the Newton solve found, the other is solved on its own side of the limit: the turbulent one on
+    /// [Q_T, 2 Q_T] (h grows at least as Q there, so h(2 Q_T) &gt; the drop's top), the transitional one on
+    /// [Q_T / 2, Q_T] (h falls at least as Q below it); both brackets are checked. The turbulent root is the answer
+    /// whichever was found first.
+    /// </summary>
+    private static (RootResult? Turbulent, RootResult? Transitional) TwoRootsAtTurbulentLimit(in Equation equation,
+        in PipeGeometry pipe, double nu, double drive, double qLimit, in RootResult found, in FrictionOptions limits, SolverTrace? trace)
+    {
+        // A root in the drop lies within its height (a few percent) of the limit; far from it there is nothing to do.
+        double q = Math.Exp(found.Root);
+        if (!(q > 0.5 * qLimit && q < 2.0 * qLimit)) return (null, null);
+        double below = PipeHeadLoss.Evaluate(pipe, nu, qLimit * (1 - LimitOffset), limits).HeadLoss;
+        double above = PipeHeadLoss.Evaluate(pipe, nu, qLimit * (1 + LimitOffset), limits).HeadLoss;
+        if (!(below > above && drive > above && drive < below)) return (null, null);
+        // The root already found stands for its own side (so its iterations and trace stay with the answer); the other
+        // side is solved afresh.
+        double limit = Math.Log(qLimit);
+        trace = found.Root > limit ? null : trace;
+        trace?.Clear(); // the answer's own solve replaces the record of the one that found the other root
+        var turbulent = found.Root > limit ? found
+            : SafeguardedNewton.Solve(in equation, Bracket.Checked(limit + LimitOffset, limit + Math.Log(2.0)),
+                limit + 0.5 * Math.Log(below / above), in Options, trace);
+        var transitional = found.Root < limit ? found
+            : SafeguardedNewton.Solve(in equation, Bracket.Checked(limit - Math.Log(2.0), limit - LimitOffset),
+                limit - 0.5 * Math.Log(below / above), in Options);
+        return turbulent.Converged && transitional.Converged ? (turbulent, transitional) : (null, null);
     }
 
     /// <summary>Status and warnings shared by the flow and diameter solves.</summary>

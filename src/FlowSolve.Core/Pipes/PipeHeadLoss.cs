@@ -154,7 +154,8 @@ public static class PipeHeadLoss
     /// <param name="pipe">The pipe.</param>
     /// <param name="kinematicViscosity">Kinematic viscosity in m2/s; finite and positive.</param>
     /// <param name="flow">Flow Q in m3/s; finite, any sign. The loss is odd in Q (h(-Q) = -h(Q)); at Q = 0 the
-    /// derivative is the laminar slope 128 nu L/(pi g D^4).</param>
+    /// derivative is the laminar slope 128 nu L/(pi g D^4). Below <see cref="DarcyFriction.MinimumReynolds"/> the laminar
+    /// law is evaluated in closed form in the velocity, so a vanishing Reynolds number gives a finite (vanishing) loss.</param>
     /// <param name="options">Regime limits; <see cref="FrictionOptions.Default"/> when omitted.</param>
     /// <returns>h = hf + hm in m (signed like Q) and dh/dQ in m per m3/s (always positive).</returns>
     /// <exception cref="ArgumentOutOfRangeException">An argument is outside its domain.</exception>
@@ -169,7 +170,20 @@ public static class PipeHeadLoss
             double d = pipe.Diameter;
             return (0.0, 128.0 * kinematicViscosity * pipe.Length / (Math.PI * Physical.StandardGravity * d * d * d * d));
         }
-        var state = Evaluate(pipe, kinematicViscosity, Math.Abs(flow), options ?? FrictionOptions.Default);
+        double area = pipe.Area, aq = Math.Abs(flow);
+        double reynolds = aq / area * pipe.Diameter / kinematicViscosity;
+        if (!(reynolds >= DarcyFriction.MinimumReynolds))
+        {
+            // Creeping flow (or a Reynolds number that underflows, as for a huge diameter): the laminar law in closed
+            // form, h = 32 nu L V/(g D^2) + K V^2/(2g). Through f = 64/Re the friction factor would overflow and
+            // f V^2 become infinity times zero; written in V it is finite, and the limit of the general expression.
+            double g = Physical.StandardGravity, d = pipe.Diameter, v = aq / area;
+            double laminar = 32.0 * kinematicViscosity * pipe.Length / (g * d * d);
+            double h = laminar * v + pipe.MinorLossCoefficient * v * v / (2 * g);
+            double slope = (laminar + pipe.MinorLossCoefficient * v / g) / area;
+            return (Math.CopySign(h, flow), double.IsFinite(slope) ? slope : 0.0);
+        }
+        var state = Evaluate(pipe, kinematicViscosity, aq, options ?? FrictionOptions.Default);
         return (Math.CopySign(state.HeadLoss, flow), state.DHeadLossDFlow);
     }
 

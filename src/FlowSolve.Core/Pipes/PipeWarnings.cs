@@ -41,6 +41,12 @@ public enum PipeWarnings
 
     /// <summary>Hazen-Williams and Darcy-Weisbach head losses differ by more than 10 percent.</summary>
     MethodsDisagree = 512,
+
+    /// <summary>A second flow (or diameter) meets the same head: the head lies within the drop of the head loss at
+    /// the turbulent limit (Re 4000), where Churchill's transition value gives way to the lower Colebrook-White value.
+    /// The result carries the other root (<see cref="FlowResult.AlternateFlow"/>, <see cref="DiameterResult.AlternateDiameter"/>)
+    /// and describes the warning itself, since the message quotes both roots (code <c>second-solution</c>).</summary>
+    SecondSolution = 1024,
 }
 
 /// <summary>Why a pipe calculation ended, including the well-posed problems that have no answer.</summary>
@@ -60,7 +66,9 @@ public enum PipeStatus
     /// smaller than the minor losses alone at the largest listed size).</summary>
     NoListedSize,
 
-    /// <summary>No answer: the solution lies beyond the Reynolds numbers the friction relations accept (1e15).</summary>
+    /// <summary>No answer: the solution lies beyond the Reynolds numbers the friction relations accept (above 1e15, or
+    /// below <see cref="Friction.DarcyFriction.MinimumReynolds"/>, 1e-3, where the laminar factor 64/Re exceeds 64 000),
+    /// or beyond double precision (a vanishing length or flow).</summary>
     OutsideRange,
 
     /// <summary>The outer solve stopped without converging; the value is the best iterate.</summary>

@@ -101,6 +101,12 @@ public readonly record struct DutyPointResult
     /// <summary>Without an answer: the set flow in m3/s at which <see cref="ClosestApproach"/> occurs.</summary>
     public double ClosestApproachFlow { get; init; }
 
+    /// <summary>With a rising curve whose shut-off head does not exceed the static head but which climbs above the system
+    /// curve: the lower intersection, where the pump-set curve rises through the system curve, in m3/s. The flow drifts
+    /// away from it either way, so it is not a duty point; <see cref="Flow"/> is the stable intersection above it.
+    /// Null otherwise.</summary>
+    public double? UnstableFlow { get; init; }
+
     /// <summary>Efficiency of each pump (fraction) at the duty, eta(RatedSpeedFlow); null without efficiency data.</summary>
     public double? Efficiency { get; init; }
 
@@ -169,8 +175,14 @@ public readonly record struct DutyPointResult
             list.Add(new("zero-head-not-reached", string.Format(c,
                 "The pump curve does not reach zero head up to {0:G4} m3/s (set flow); the search ended there.", BracketUpperFlow)));
         if (w.HasFlag(PumpWarnings.RisingCurve))
-            list.Add(new("rising-pump-curve",
-                "The pump curve rises with flow somewhere on its range: the pump may run unstably and more than one duty point may exist."));
+            list.Add(new("rising-pump-curve", UnstableFlow is double low
+                ? string.Format(c,
+                    "The pump curve rises with flow and its shut-off head, {0:G6} m, does not exceed the static head, {1:G6} m, yet it climbs " +
+                    "above the system curve: the curves meet at {2:G6} m3/s, where the pump curve rises through the system curve (unstable: " +
+                    "the flow runs away from it either way), and at {3:G6} m3/s, where it falls through it. The stable intersection is " +
+                    "reported. The pump cannot start against the static head from rest without help (a bypass, a lower static head at " +
+                    "start-up) and may surge.", ShutOffHead, StaticHead, low, Flow)
+                : "The pump curve rises with flow somewhere on its range: the pump may run unstably and more than one duty point may exist."));
         if (w.HasFlag(PumpWarnings.EfficiencyNotPositive))
             list.Add(new("efficiency-not-positive",
                 "The efficiency curve gives zero or less at the duty flow (far outside its data); shaft power is not reported."));
@@ -195,9 +207,13 @@ public readonly record struct DutyPointResult
 /// common head; series pumps carry the whole flow and add their heads; the affinity laws scale one pump,
 /// H_s(q) = s^2 H(q/s): common practice). The solve finds F(Q) = H_set(Q) - H_sys(Q) = 0 by
 /// <see cref="SafeguardedNewton"/> on the bracket [0, Parallel s Q0], Q0 the pump's zero-head flow (or its search
-/// limit when the curve never reaches zero head), from a regula falsi start. F(0) &lt;= 0 is
-/// <see cref="DutyStatus.ShutOffBelowStaticHead"/>; F &gt; 0 at both ends is <see cref="DutyStatus.CurvesDoNotMeet"/>.
-/// Both carry the curves' closest approach on the bracket.</para>
+/// limit when the curve never reaches zero head), from a regula falsi start. F &gt; 0 at both ends is
+/// <see cref="DutyStatus.CurvesDoNotMeet"/>. F(0) &lt;= 0 (shut-off head at or below the static head) is
+/// <see cref="DutyStatus.ShutOffBelowStaticHead"/> unless F climbs above zero somewhere, as a curve that rises with flow
+/// can: then the largest value of F on the bracket is found (a 64-interval scan refined by golden section), the stable
+/// intersection, where F falls through zero, is solved on [that flow, the bracket's end] and reported as the duty point
+/// with <see cref="PumpWarnings.RisingCurve"/>, and the unstable one below it, where F rises through zero, is reported in
+/// <see cref="DutyPointResult.UnstableFlow"/>. The no-answer statuses carry the curves' closest approach on the bracket.</para>
 /// <para>With the curve held as coefficients and the system as K Q^2 or pipes in an array, the solve allocates
 /// nothing (the trace, when given, does). Thread-safe.</para>
 /// <para>The results are engineering estimates; a duty point used for design is to be checked by a qualified engineer.</para>
@@ -246,23 +262,42 @@ public static class DutyPoint
         };
 
         double f0 = f.Evaluate(0).Value, fu = f.Evaluate(upper).Value;
-        if (!(f0 > 0) || !(fu < 0))
+        RootResult root;
+        double? unstable = null;
+        int scanned = 0;
+        if (f0 > 0 && fu < 0)
         {
-            var (gap, at) = ClosestApproach(f, upper);
-            return result with
-            {
-                Status = f0 > 0 ? DutyStatus.CurvesDoNotMeet : DutyStatus.ShutOffBelowStaticHead,
-                SolverStatus = SolveStatus.NoSignChange,
-                Evaluations = 2,
-                ClosestApproach = gap,
-                ClosestApproachFlow = at,
-                Warnings = warnings,
-            };
+            // Regula falsi start: exact for a straight-line difference, inside the bracket always.
+            double guess = upper * f0 / (f0 - fu);
+            root = SafeguardedNewton.Solve(f, Bracket.KnownDecreasing(0, upper), guess, o.Solver, trace);
         }
-
-        // Regula falsi start: exact for a straight-line difference, inside the bracket always.
-        double guess = upper * f0 / (f0 - fu);
-        var root = SafeguardedNewton.Solve(f, Bracket.KnownDecreasing(0, upper), guess, o.Solver, trace);
+        else
+        {
+            // Shut-off head at or below the static head: a curve that rises with flow may still climb above the system
+            // curve and fall back through it. Then the stable intersection, where the pump-set curve falls through the
+            // system curve, lies beyond the largest surplus of pump head; the lower one, where it rises through, is
+            // unstable (the flow runs away from it either way) and is only reported.
+            var (peak, atPeak, evaluations) = !(f0 > 0) && fu < 0 ? LargestSurplus(f, upper) : (double.NaN, 0.0, 0);
+            if (!(peak > 0))
+            {
+                var (gap, at) = ClosestApproach(f, upper);
+                return result with
+                {
+                    Status = f0 > 0 ? DutyStatus.CurvesDoNotMeet : DutyStatus.ShutOffBelowStaticHead,
+                    SolverStatus = SolveStatus.NoSignChange,
+                    Evaluations = 2,
+                    ClosestApproach = gap,
+                    ClosestApproachFlow = at,
+                    Warnings = warnings,
+                };
+            }
+            root = SafeguardedNewton.Solve(f, Bracket.Checked(atPeak, upper), atPeak + (upper - atPeak) * peak / (peak - fu), o.Solver, trace);
+            var rising = f0 == 0 ? new RootResult(0, 0, 0, 0, 0, 0, 0, SolveStatus.ConvergedOnResidual)
+                : SafeguardedNewton.Solve(f, Bracket.Checked(0, atPeak), atPeak * -f0 / (peak - f0), o.Solver);
+            if (rising.Converged) unstable = rising.Root;
+            scanned = evaluations + rising.Evaluations;
+            warnings |= PumpWarnings.RisingCurve;
+        }
         double q = root.Root;
         var status = root.Converged ? DutyStatus.Solved : DutyStatus.NotConverged;
         if (!root.Converged) warnings |= PumpWarnings.NotConverged;
@@ -278,8 +313,9 @@ public static class DutyPoint
             HeadPerPump = head / ns,
             RatedSpeedFlow = rated,
             Iterations = root.Iterations,
-            Evaluations = root.Evaluations + 2,
+            Evaluations = root.Evaluations + 2 + scanned,
             Residual = root.Residual,
+            UnstableFlow = unstable,
         };
         if (pump.DataMaximumFlow is double qmax && (rated > qmax || rated < (pump.DataMinimumFlow ?? 0)))
             warnings |= PumpWarnings.OutsideCatalogueRange;
@@ -330,6 +366,32 @@ public static class DutyPoint
         arrangement.Validate();
         double s = arrangement.SpeedRatio;
         return arrangement.Series * s * s * pump.Head(flow / (arrangement.Parallel * s));
+    }
+
+    /// <summary>The largest value of F on [0, upper] and where it lies: a 64-interval scan, then golden-section refinement
+    /// around the best sample (allocation-free), with the evaluations spent.</summary>
+    private static (double Value, double At, int Evaluations) LargestSurplus(in SetMinusSystem f, double upper)
+    {
+        const int n = 64;
+        int best = 0, evaluations = 0;
+        double bestValue = double.NegativeInfinity;
+        for (int i = 0; i <= n; i++, evaluations++)
+        {
+            double v = f.Evaluate(upper * i / n).Value;
+            if (v > bestValue) { bestValue = v; best = i; }
+        }
+        double a = upper * Math.Max(best - 1, 0) / n, b = upper * Math.Min(best + 1, n) / n;
+        const double invPhi = 0.6180339887498949;
+        double x1 = b - invPhi * (b - a), x2 = a + invPhi * (b - a);
+        double f1 = f.Evaluate(x1).Value, f2 = f.Evaluate(x2).Value;
+        evaluations += 2;
+        for (int k = 0; k < 60 && b - a > 1e-14 * upper; k++, evaluations++)
+        {
+            if (f1 > f2) { b = x2; x2 = x1; f2 = f1; x1 = b - invPhi * (b - a); f1 = f.Evaluate(x1).Value; }
+            else { a = x1; x1 = x2; f1 = f2; x2 = a + invPhi * (b - a); f2 = f.Evaluate(x2).Value; }
+        }
+        double candidate = f1 > f2 ? x1 : x2, candidateValue = Math.Max(f1, f2);
+        return candidateValue > bestValue ? (candidateValue, candidate, evaluations) : (bestValue, upper * best / n, evaluations);
     }
 
     /// <summary>The value of F nearest zero on [0, upper]: a 64-interval scan, then golden-section refinement of |F|

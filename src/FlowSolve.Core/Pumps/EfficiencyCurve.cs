@@ -85,7 +85,9 @@ public readonly record struct EfficiencyCurve
         double qmin = double.MaxValue, qmax = 0;
         foreach (double q in flows) { qmin = Math.Min(qmin, q); qmax = Math.Max(qmax, q); }
         var curve = new EfficiencyCurve(fit.C0, fit.C1, fit.C2, fit.C3, qmin, qmax);
-        return new EfficiencyCurveFit(curve, fit.RmsDeviation, fit.MaxDeviation, flows.Length);
+        double highest = 0;
+        foreach (double e in efficiencies) highest = Math.Max(highest, e);
+        return new EfficiencyCurveFit(curve, fit.RmsDeviation, fit.MaxDeviation, flows.Length) { DataMaximumEfficiency = highest };
     }
 }
 
@@ -94,4 +96,17 @@ public readonly record struct EfficiencyCurve
 /// <param name="RmsDeviation">Root-mean-square deviation from the points (fraction).</param>
 /// <param name="MaxDeviation">Largest absolute deviation from a point (fraction).</param>
 /// <param name="PointCount">Number of points fitted.</param>
-public readonly record struct EfficiencyCurveFit(EfficiencyCurve Curve, double RmsDeviation, double MaxDeviation, int PointCount);
+public readonly record struct EfficiencyCurveFit(EfficiencyCurve Curve, double RmsDeviation, double MaxDeviation, int PointCount)
+{
+    /// <summary>How far a fitted efficiency may rise above the highest catalogue value before it is flagged: half a
+    /// percentage point, 0.005 (a margin chosen here, so that rounding in catalogue figures is not flagged).</summary>
+    public const double AboveDataMargin = 0.005;
+
+    /// <summary>The highest efficiency among the points fitted (fraction).</summary>
+    public double DataMaximumEfficiency { get; init; }
+
+    /// <summary>True when the fitted curve's best efficiency exceeds the highest catalogue value by more than
+    /// <see cref="AboveDataMargin"/>: the fit (through the origin, say) overshoots the data, and powers computed from it
+    /// come out low.</summary>
+    public bool PeakAboveData => Curve.BestEfficiency > DataMaximumEfficiency + AboveDataMargin;
+}

@@ -17,7 +17,9 @@ public enum DutyStatus
     /// <summary>Solved: pump-set head equals system head to the solver's tolerance.</summary>
     Solved,
 
-    /// <summary>No answer: the pump set's shut-off head does not exceed the static head, so it cannot start flow;
+    /// <summary>No answer: the pump set's shut-off head does not exceed the static head, and its head stays at or below the
+    /// system head at every flow up to the end of the bracket, so it cannot deliver flow (a rising curve that climbs above
+    /// the system curve is solved instead, at its stable intersection, with <see cref="PumpWarnings.RisingCurve"/>);
     /// see <see cref="DutyPointResult.ShutOffHead"/>, <see cref="DutyPointResult.StaticHead"/> and
     /// <see cref="DutyPointResult.HeadShortfall"/>.</summary>
     ShutOffBelowStaticHead,

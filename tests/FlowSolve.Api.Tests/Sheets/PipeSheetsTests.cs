@@ -7,6 +7,26 @@ namespace FlowSolve.Api.Tests.Sheets;
 public sealed class PipeSheetsTests(ApiFixture api)
 {
     [Fact]
+    public async Task FlowAndDiameter_NearRe4000_ShowTheAlternateAsTheResponseDoes()
+    {
+        // Inside the drop of the head loss at Re 4000 (Churchill above Colebrook-White): the response carries a second
+        // root, and the sheet lists it beside the answer, as the channel sheet lists a second normal depth.
+        const string flowQuery = "/v1/pipes/flow?headLoss=0.0033706&diameter=0.1&length=100&roughness=0.0001&kinematicViscosity=1e-6&density=1000";
+        const string diameterQuery = "/v1/pipes/diameter?flow=0.00142&headLoss=0.00035555127&length=1000&roughness=0&kinematicViscosity=1e-6&density=1000";
+        foreach (var (query, field, row) in new[] { (flowQuery, "alternateFlow", "Alternate flow"), (diameterQuery, "alternateDiameter", "Alternate diameter") })
+        {
+            var json = await api.GetJson(query);
+            var page = await SheetPage.Get(api, query + "&format=html");
+            Assert.Equal(200, page.Status);
+            var results = page.Document.GetElementById("results")!.QuerySelectorAll("tr").Where(r => r.Children.Length > 1)
+                .ToDictionary(r => r.Children[0].TextContent, r => r.Children[1].TextContent);
+            double alternate = json.Body.GetProperty(field).GetDouble();
+            Assert.Equal(alternate, double.Parse(results[row], System.Globalization.CultureInfo.InvariantCulture), alternate * 1e-7);
+            Assert.Contains("second-solution", page.Document.GetElementById("warnings")!.TextContent);
+        }
+    }
+
+    [Fact]
     public async Task HeadLoss_Curve_EqualsTheEngineAtEveryPlottedFlow()
     {
         const string query = "/v1/pipes/head-loss?flow=0.05&diameter=0.2&length=1200&roughness=0.00026&minorLossCoefficient=3&kinematicViscosity=1.1e-6";

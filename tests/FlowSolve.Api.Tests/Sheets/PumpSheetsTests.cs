@@ -152,6 +152,40 @@ public sealed class PumpSheetsTests(ApiFixture api)
     }
 
     [Fact]
+    public async Task Build_CataloguePoints_AreDrawnBesideTheFittedCurves()
+    {
+        // Points on H = 40 - 5000 Q^2 and eta = 20 Q - 200 Q^2, two pumps in parallel at speed ratio 0.9: by the affinity
+        // laws each point sits on the one-pump curve at (s q, s^2 H), and its efficiency at the set flow Np s q.
+        double[] flows = [0.01, 0.02, 0.04, 0.06, 0.08];
+        double s = 0.9;
+        var body = new
+        {
+            pump = new { points = flows.Select(q => new { flow = q, head = PumpHead(q), efficiency = 20 * q - 200 * q * q }).ToArray() },
+            system = new { staticHead = 5.0, resistance = 1000.0 },
+            pumpsInParallel = 2,
+            speedRatio = s,
+        };
+        var page = await SheetPage.Post(api, "/v1/pumps/duty-point?format=html", body);
+        Assert.Equal(200, page.Status);
+        var head = page.Document.QuerySelectorAll("svg#plot-duty-point [data-role=catalogue]").ToList();
+        Assert.Equal(flows.Length, head.Count);
+        for (int i = 0; i < flows.Length; i++)
+        {
+            AssertRelative(s * flows[i], SheetPage.Attr(head[i], "data-x"), 1e-12);
+            AssertRelative(s * s * PumpHead(flows[i]), SheetPage.Attr(head[i], "data-y"), 1e-12);
+        }
+        var eff = page.Document.QuerySelectorAll("svg#plot-efficiency [data-role=catalogue]").ToList();
+        Assert.Equal(flows.Length, eff.Count);
+        for (int i = 0; i < flows.Length; i++)
+        {
+            AssertRelative(2 * s * flows[i], SheetPage.Attr(eff[i], "data-x"), 1e-12);
+            AssertRelative(20 * flows[i] - 200 * flows[i] * flows[i], SheetPage.Attr(eff[i], "data-y"), 1e-12);
+        }
+        var results = page.Document.GetElementById("results")!.TextContent;
+        Assert.Contains("Efficiency fit: largest deviation", results);
+    }
+
+    [Fact]
     public async Task Build_PipesSuctionAndNpshData_ShowsTheMarginAndThePipeRelations()
     {
         // The OpenAPI example (a fictional pump and rising main): points with efficiency and NPSH required, two pipes, suction data.

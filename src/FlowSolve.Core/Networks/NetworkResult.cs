@@ -197,7 +197,8 @@ public enum NetworkWarningCode
 
     /// <summary>A Darcy-Weisbach pipe's Reynolds number lies in the transition zone, from the laminar to the turbulent
     /// limit (2000 to 4000 by default), where the friction factor is Churchill's (1977) interpolation, as for a single
-    /// pipe (value: the Reynolds number).</summary>
+    /// pipe, joined continuously to the neighbouring laws within 5 % of each limit (<see cref="Friction.TransitionalFriction"/>;
+    /// value: the Reynolds number).</summary>
     TransitionalFlow,
 }
 
@@ -231,7 +232,7 @@ public readonly record struct NetworkWarning(string ElementId, NetworkWarningCod
                 ElementId, Value),
             NetworkWarningCode.TransitionalFlow => string.Format(c,
                 "Pipe '{0}': Reynolds number {1:G6} lies in the transition zone ({2:G4} to {3:G4}), where flow may be laminar or " +
-                "turbulent and no relation is reliable; the friction factor is Churchill's (1977) interpolation, as for a single pipe. Design for the worse case.",
+                "turbulent and no relation is reliable; the friction factor is Churchill's (1977) interpolation, as for a single pipe (joined smoothly to the neighbouring law within 5 % of each limit). Design for the worse case.",
                 ElementId, Value, o.Friction.LaminarLimit, o.Friction.TurbulentLimit),
             _ => ElementId,
         };

@@ -10,8 +10,9 @@ namespace FlowSolve.Core.Networks;
 /// </summary>
 /// <remarks>
 /// <para>Equations. For each open link l from node i to node j, energy: H_i - H_j = h_l(Q_l), with h the Darcy-Weisbach
-/// loss of the single-pipe routes (<see cref="PipeHeadLoss.WithDerivative"/>: 64/Re below Re 2000, Churchill (1977) in the
-/// transition zone with a <see cref="NetworkWarningCode.TransitionalFlow"/> warning, exact Colebrook-White above 4000) or
+/// loss of the single-pipe routes (<see cref="PipeHeadLoss.WithDerivative"/>: 64/Re below Re 2000, exact Colebrook-White
+/// from 4000; in the transition zone Churchill (1977), joined continuously to both within 5 % of each limit by
+/// <see cref="TransitionalFriction"/>, with a <see cref="NetworkWarningCode.TransitionalFlow"/> warning) or
 /// the Hazen-Williams loss, or minus a pump's head
 /// s^2 H(Q/s). For each junction n, continuity: sum of inflows - sum of outflows = demand_n. Linearising the energy
 /// equation at the current flows with g_l = dh/dQ gives Q'_l = y_l + (H'_i - H'_j)/g_l, y_l = Q_l - h_l/g_l; putting
@@ -71,6 +72,7 @@ public sealed class NetworkSolver
     private readonly PumpCurve[] _curve;
     private readonly double[] _speed, _pumpSlopeFloor, _reverseCurvature;
     private readonly double[] _stepLimit;     // m3/s: the largest flow change of one Newton step before it is shortened
+    private readonly TransitionalFriction[] _transition; // Darcy pipes: the transition zone's joined relation
     private readonly double[] _baseDemand, _demand, _elevation;
 
     private readonly LinkStatus[] _status;
@@ -143,6 +145,8 @@ public sealed class NetworkSolver
         _reverseCurvature = new double[_links];
         _stepLimit = new double[_links];
         _status = new LinkStatus[_links];
+        _transition = new TransitionalFriction[_pipes];
+        var joins = new Dictionary<double, TransitionalFriction>();
         var linkIndex = new Dictionary<string, int>(_links, StringComparer.Ordinal);
         double g = Physical.StandardGravity;
         for (int l = 0; l < _pipes; l++)
@@ -166,6 +170,11 @@ public sealed class NetworkSolver
             {
                 _kind[l] = Kind.Darcy;
                 _geometry[l] = new PipeGeometry(p.Length, p.Diameter, p.Roughness, p.MinorLossCoefficient);
+                // Pipes of one size and material share a relative roughness: prepare the transition zone once for each.
+                double relative = p.Roughness / p.Diameter;
+                if (!joins.TryGetValue(relative, out var join))
+                    joins[relative] = join = new TransitionalFriction(relative, _options.Friction);
+                _transition[l] = join;
             }
         }
         for (int k = 0; k < model.Pumps.Count; k++)
@@ -363,21 +372,31 @@ public sealed class NetworkSolver
         }
     }
 
-    /// <summary>Darcy-Weisbach h and dh/dQ by <see cref="PipeHeadLoss.WithDerivative"/>, the relations of the single-pipe
-    /// routes in every regime: 64/Re below the laminar limit, Churchill (1977) in the transition zone (smooth, with its
-    /// derivative df/dRe, which Newton needs), exact Colebrook-White above the turbulent limit. One pipe at the same heads
-    /// therefore carries the same flow in a network as alone.</summary>
+    /// <summary>Darcy-Weisbach h and dh/dQ: <see cref="PipeHeadLoss.WithDerivative"/>, the single-pipe relations, in
+    /// laminar and turbulent flow; in the transition zone <see cref="TransitionalFriction"/>, which is the single pipe's
+    /// Churchill (1977) except within 5 % of each regime limit, where a cubic joins it to the neighbouring law so that
+    /// h(Q) has no jump for Newton to cycle across. One pipe at the same heads carries the same flow in a network as
+    /// alone, except near the limits, where the single-pipe relation itself has no answer or two.</summary>
     private (double HeadLoss, double Slope) DarcyLoss(int l, double q, double nu, in FrictionOptions friction)
     {
         ref readonly var pipe = ref _geometry[l];
-        double re = Math.Abs(q) * pipe.Diameter / (_area[l] * nu);
+        double aq = Math.Abs(q);
+        double re = aq * pipe.Diameter / (_area[l] * nu);
         if (!(re <= DarcyFriction.MaximumReynolds))
         {
             // Beyond the friction relations (or not finite): the solve stops with a status instead of an exception.
             _outOfRange = true;
             return (double.NaN, double.NaN);
         }
-        return PipeHeadLoss.WithDerivative(pipe, nu, q, friction);
+        if (!(re >= friction.LaminarLimit && re < friction.TurbulentLimit))
+            return PipeHeadLoss.WithDerivative(pipe, nu, q, friction);
+        var (f, dfdRe) = _transition[l].Evaluate(re);
+        double v = aq / _area[l];
+        double velocityHead = v * v / (2 * Physical.StandardGravity);
+        double lOverD = pipe.Length / pipe.Diameter;
+        double h = (f * lOverD + pipe.MinorLossCoefficient) * velocityHead;
+        double slope = (2 * h + lOverD * velocityHead * re * dfdRe) / aq;
+        return (Math.CopySign(h, q), slope);
     }
 
     /// <summary>Hazen-Williams h = r |Q|^0.852 Q + m |Q| Q, regularised below the regularisation velocity by
@@ -600,12 +619,13 @@ public sealed class NetworkSolver
                 double re = Math.Abs(q) * _geometry[l].Diameter / (_area[l] * nu);
                 if (_kind[l] == Kind.Darcy && !(re <= DarcyFriction.MaximumReynolds))
                     f = double.NaN; // FlowsOutOfRange: no friction factor exists there
-                else if (_kind[l] == Kind.Darcy)
+                else if (_kind[l] == Kind.Darcy && re >= o.Friction.LaminarLimit && re < o.Friction.TurbulentLimit)
                 {
-                    f = PipeHeadLoss.Evaluate(_geometry[l], nu, Math.Abs(q), o.Friction).FrictionFactor;
-                    if (re >= o.Friction.LaminarLimit && re < o.Friction.TurbulentLimit)
-                        warnings.Add(new NetworkWarning(id, NetworkWarningCode.TransitionalFlow, re));
+                    f = _transition[l].Evaluate(re).F;
+                    warnings.Add(new NetworkWarning(id, NetworkWarningCode.TransitionalFlow, re));
                 }
+                else if (_kind[l] == Kind.Darcy)
+                    f = PipeHeadLoss.Evaluate(_geometry[l], nu, Math.Abs(q), o.Friction).FrictionFactor;
                 else
                     f = 2 * g * _geometry[l].Diameter * _hazenConstant[l] * Math.Pow(Math.Abs(q), HazenWilliams.FlowExponent)
                         / (_geometry[l].Length * v * v);

@@ -65,6 +65,13 @@ internal static class NetworkChecks
         double h;
         if (p.HazenWilliamsC is double c)
             h = HazenWilliams.HeadLoss(geometry, new FluidProperties(nu), Math.Abs(flow), c).HeadLoss;
+        else if (re >= 2000 && re < 4000)
+        {
+            // The network's transition zone: Churchill (1977), joined to 64/Re and Colebrook-White by a cubic within 5 %
+            // of each limit (TransitionalFriction, itself checked against Churchill and Brent in NetworkEdgeCaseTests).
+            double f = new TransitionalFriction(p.Roughness / p.Diameter, FrictionOptions.Default).Evaluate(re).F;
+            h = (f * p.Length / p.Diameter + p.MinorLossCoefficient) * v * v / (2 * Physical.StandardGravity);
+        }
         else
             h = PipeHeadLoss.Compute(geometry, new FluidProperties(nu), Math.Abs(flow)).HeadLoss;
         return Math.CopySign(h, flow);

@@ -1,3 +1,4 @@
+using FlowSolve.Core.Friction;
 using FlowSolve.Core.Networks;
 using FlowSolve.Core.Pipes;
 using MathNet.Numerics.RootFinding;
@@ -117,6 +118,71 @@ public sealed class NetworkEdgeCaseTests
         Assert.Equal("p", warning.ElementId);
         Assert.Equal(re, warning.Value, re * 1e-8);
         Assert.Equal("transitional-flow", warning.Describe().Code);
+    }
+
+    public static TheoryData<double> Roughnesses => new() { 0, 1e-5, 1e-4, 1e-3, 1e-2, 0.05 };
+
+    [Theory]
+    [MemberData(nameof(Roughnesses))]
+    public void TransitionalFriction_IsChurchillInsideAndMeetsTheNeighbouringLawsAtTheLimits(double relativeRoughness)
+    {
+        var join = new TransitionalFriction(relativeRoughness, FrictionOptions.Default);
+        // At the limits: the laminar law and Colebrook-White (both from the reference above, the second by Brent).
+        Assert.Equal(64.0 / 2000, join.Evaluate(2000).F, 1e-15);
+        Assert.Equal(ReferenceFriction(4000, relativeRoughness), join.Evaluate(4000).F, 1e-12);
+        // Inside the joins (2100 to 3800): Churchill's own value.
+        foreach (double re in new[] { 2100.0 + 1e-9, 2500, 3000, 3500, 3800 - 1e-9 })
+        {
+            Assert.True(join.IsChurchill(re));
+            Assert.Equal(ReferenceFriction(re, relativeRoughness), join.Evaluate(re).F, 1e-13);
+        }
+        // Property: h is proportional to f Re^2 at a fixed pipe, so f Re^2 must rise through the whole zone, and the
+        // reported slope must be the value's derivative (central difference of the values; 1e-3 relative, since the
+        // second derivative jumps at the joins, 2100 and 3800).
+        double previous = 0;
+        for (double re = 2000; re < 4000; re += 0.5)
+        {
+            var (f, d) = join.Evaluate(re);
+            Assert.True(f * re * re > previous, $"f Re^2 does not rise at Re {re}");
+            previous = f * re * re;
+            if (re > 2001 && re < 3999)
+            {
+                double numeric = (join.Evaluate(re + 0.01).F - join.Evaluate(re - 0.01).F) / 0.02;
+                Assert.Equal(numeric, d, Math.Abs(numeric) * 1e-3 + 1e-12);
+            }
+        }
+    }
+
+    [Theory]
+    [InlineData(0.483)]
+    [InlineData(0.816)]
+    [InlineData(1.38)]
+    public void Solve_GridWithHundredsOfTransitionalPipes_Converges(double multiplier)
+    {
+        // A 40 x 40 grid of 100 mm pipes, 50 to 150 m long, fed from two corners, with demands that leave hundreds of
+        // pipes in the transition zone. Churchill's jumps at Re 2000 and 4000, unjoined, kept Newton cycling to the cap
+        // (head imbalance about 1e-6 m) at these three multipliers.
+        var rng = new Random(7);
+        const int n = 40;
+        var junctions = new List<Junction>();
+        var pipes = new List<NetworkPipe>();
+        for (int i = 0; i < n; i++)
+            for (int k = 0; k < n; k++)
+            {
+                junctions.Add(new($"n{i}_{k}", 0, 4e-5 * (0.2 + rng.NextDouble())));
+                if (k + 1 < n) pipes.Add(new($"h{i}_{k}", $"n{i}_{k}", $"n{i}_{k + 1}", 50 + 100 * rng.NextDouble(), 0.1, 1e-5));
+                if (i + 1 < n) pipes.Add(new($"v{i}_{k}", $"n{i}_{k}", $"n{i + 1}_{k}", 50 + 100 * rng.NextDouble(), 0.1, 1e-5));
+            }
+        pipes.Add(new("feed", "src", "n0_0", 10, 1.0, 1e-5));
+        pipes.Add(new("feed2", "src2", $"n{n - 1}_{n - 1}", 10, 1.0, 1e-5));
+        var model = new NetworkModel(junctions, [new("src", 100), new("src2", 99.9)], pipes, [], Nu);
+
+        var result = NetworkSolver.Solve(model with { Junctions = junctions.Select(j => j with { Demand = j.Demand * multiplier }).ToArray() });
+
+        Assert.True(result.Converged, $"{result.Status} after {result.Iterations} iterations");
+        Assert.InRange(result.Iterations, 1, 20);
+        Assert.True(result.Warnings.Count(w => w.Code == NetworkWarningCode.TransitionalFlow) >= 100);
+        NetworkChecks.AssertBalanced(model with { Junctions = junctions.Select(j => j with { Demand = j.Demand * multiplier }).ToArray() }, result, 1e-8);
     }
 
     [Fact]

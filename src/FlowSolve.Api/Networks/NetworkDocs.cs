@@ -22,7 +22,8 @@ public static class NetworkDocs
         "each step's head equations solved by a direct sparse Cholesky factorisation (headSolver in the answer names it). " +
         "The request is a network document: junctions (id, elevation, demand), reservoirs (id, fixed head), pipes (id, from, to, " +
         "length, diameter, and roughness for Darcy-Weisbach with the exact Colebrook-White friction factor from Re 4000, 64/Re below " +
-        "Re 2000 and Churchill's (1977) interpolation between, the same relations as /v1/pipes/flow, or hazenWilliamsC for " +
+        "Re 2000 and Churchill's (1977) interpolation between, the same relations as /v1/pipes/flow (joined to the neighbouring laws " +
+        "by a cubic within 5 % of each limit, where the single-pipe relations jump), or hazenWilliamsC for " +
         "Hazen-Williams; minorLossCoefficient; checkValve; closed), pumps (id, from, to, curve as in /v1/pumps/duty-point, " +
         "speedRatio), optional x and y on the nodes for the schematic of the calculation sheet, the fluid (water's temperature or " +
         "kinematicViscosity; water at 20 degrees C when neither is given) and demandMultipliers, one load case each (default [1]). " +

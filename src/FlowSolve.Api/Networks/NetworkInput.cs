@@ -279,7 +279,7 @@ internal static class NetworkInput
             errors.Add(PathOf(request, issue.ElementId), issue.ElementId.Length == 0 ? "network" : $"element '{Short(issue.ElementId)}'", issue.ElementId, issue.Message);
         if (errors.Any) return null;
 
-        if (darcy) method.Add("pipes with roughness by Darcy-Weisbach, hf = f (L/D) V^2/(2g), with the exact Colebrook-White friction factor (1939) from Re 4000, 64/Re below Re 2000 and Churchill's (1977) interpolation between, as for a single pipe (/v1/pipes/...), each such pipe with a transitional-flow warning; minor losses K V^2/(2g); g = 9.80665 m/s2");
+        if (darcy) method.Add("pipes with roughness by Darcy-Weisbach, hf = f (L/D) V^2/(2g), with the exact Colebrook-White friction factor (1939) from Re 4000, 64/Re below Re 2000 and Churchill's (1977) interpolation between, as for a single pipe (/v1/pipes/...), joined to the neighbouring laws by a cubic within 5 % of each limit so that the head loss has no jump, each such pipe with a transitional-flow warning; minor losses K V^2/(2g); g = 9.80665 m/s2");
         if (hazen) method.Add("pipes with hazenWilliamsC by Hazen-Williams, V = 0.849 C R^0.63 S^0.54 (SI), made linear below 1 mm/s so that its slope never vanishes (Elhay and Simpson 2011)");
         if (pumps.Count > 0) method.Add("pumps by their curves and the affinity laws, H_s(Q) = s^2 H(Q/s); a pump driven backwards stops");
         if (pipes.Any(p => p.CheckValve)) method.Add("check valves close under reverse flow and reopen under forward head, re-examined between Newton solves");

@@ -169,7 +169,7 @@ public sealed class NetworkSheet : ISheetBuilder
         {
             sheet.Methods.Add(new("Darcy-Weisbach", "hf = f (L/D) V^2/(2g), hm = K V^2/(2g); V = 4Q/(pi D^2); g = 9.80665 m/s2",
                 "Weisbach (1845) and Darcy (1857), from memory; standard gravity, 3rd CGPM (1901)"));
-            sheet.Methods.Add(new("Colebrook-White, exact", "1/sqrt(f) = -2 log10(e/(3.7 D) + 2.51/(Re sqrt(f))) from Re 4000; 64/Re below 2000; Churchill's interpolation between, as for a single pipe (each such pipe is warned about: transitional-flow)",
+            sheet.Methods.Add(new("Colebrook-White, exact", "1/sqrt(f) = -2 log10(e/(3.7 D) + 2.51/(Re sqrt(f))) from Re 4000; 64/Re below 2000; Churchill's interpolation between, as for a single pipe, joined to the neighbouring laws by a cubic (values and slopes matched) within 5 % of each limit so that Newton meets no jump (each such pipe is warned about: transitional-flow)",
                 "Colebrook, C. F. (1939), J. Inst. Civ. Eng. 11(4), 133-156; Churchill, S. W. (1977), Chem. Eng. 84(24), 91-92"));
         }
         if (pipes.Any(p => p.HazenWilliamsC is not null))

@@ -235,7 +235,7 @@ public sealed class NetworkSheet : ISheetBuilder
             plot.Marker(v.Id!, v.X!.Value, v.Y!.Value, "", role: "case");
         }
         return new SheetFigure("schematic", plot.Render(), string.Create(C,
-            $"The network drawn from the node coordinates (equal scale); each pipe is labelled with its flow in {r.FlowUnit} in {Tag(design, k)}, positive from its 'from' node to its 'to' node. Squares are reservoirs, dashed lines pumps, grey lines closed links; the junction of lowest pressure head is marked in the accent colour."));
+            $"The network drawn from the node coordinates (equal scale); each pipe is labelled with its flow in {r.FlowUnit} in {Tag(design, k)}, positive from its 'from' node to its 'to' node{(r.Detail == "full" ? "" : " (only the pipes the answer lists carry a flow)")}. Squares are reservoirs, dashed lines pumps, grey lines closed links; the junction of lowest pressure head is marked in the accent colour."));
     }
 
     /// <summary>The three convergence measures per iteration on a log scale for the slowest load case, the head

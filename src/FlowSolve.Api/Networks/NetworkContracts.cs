@@ -65,6 +65,13 @@ public sealed record NetworkPumpInput(
     [property: Description("Speed ratio s = n / n_rated (dimensionless), 0 to 1.5; 1 when omitted; 0 switches the pump off. Affinity laws: H_s(Q) = s^2 H(Q/s).")]
     double? SpeedRatio = null);
 
+/// <summary>How much of each load case the answer lists: every element (the default), a summary only, or chosen elements.</summary>
+public sealed record NetworkOutputInput(
+    [property: Description("full (default): every pipe, pump, junction and reservoir in every load case; summary: no element rows, only each load case's status, totals, extremes (summary), convergence record and warnings. The rows listed, times the load cases, count against FlowSolve:Limits:NetworkMaxElementCases (100 000 by default); a full answer over it answers 413, so a large network with many load cases asks for summary or chosen elements.")]
+    string? Detail = null,
+    [property: Description("Ids of the pipes, pumps, junctions and reservoirs to list in each load case (in the tables' usual order, request order within each kind); the others are left out of the tables but still solved, and still counted in the totals, extremes and warnings. Each id must name an element of the network, at most once. Not with detail=summary.")]
+    IReadOnlyList<string?>? Elements = null);
+
 /// <summary>A pipe network to solve: nodes, links, the fluid and the load cases.</summary>
 public sealed record NetworkSolveRequest(
     [property: Description("Junctions: nodes of unknown head (id, elevation, demand; x and y for the schematic).")]
@@ -86,7 +93,9 @@ public sealed record NetworkSolveRequest(
     [property: Description(FlowUnit.Description)]
     string? FlowUnit = null,
     [property: Description("A name for the network, shown as the calculation sheet's subtitle; optional, at most 200 characters.")]
-    string? Title = null);
+    string? Title = null,
+    [property: Description("How much of each load case to list: {\"detail\": \"summary\"} for the totals and extremes only, or {\"elements\": [ids]} for chosen elements; every element when omitted. Bounds the answer: the element rows times the load cases may not exceed FlowSolve:Limits:NetworkMaxElementCases.")]
+    NetworkOutputInput? Output = null);
 
 /// <summary>One pipe in a load case's answer.</summary>
 /// <param name="Id">The pipe's id.</param>
@@ -124,11 +133,12 @@ public sealed record NetworkReservoirResultDto(string Id, double Head, double Ou
 /// <param name="MaxFlowChange">Largest change of a link's flow in this step (flow unit).</param>
 /// <param name="MaxHeadImbalance">Largest energy imbalance |H_from - H_to - h(Q)| over the open links after the step (m, or ft with units=us).</param>
 /// <param name="MaxContinuityError">Largest continuity error |inflow - outflow - demand| over the junctions after the step (flow unit).</param>
-/// <param name="LinearIterations">Conjugate-gradient iterations of this step's head solve.</param>
+/// <param name="LinearIterations">Work of this step's head solve: with the sparse Cholesky solver (the service's), the
+/// triangular solves with the factor (1, plus one per refinement step); with conjugate gradients, their iterations.</param>
 public sealed record NetworkIterationDto(int Iteration, int StatusPass, double MaxFlowChange, double MaxHeadImbalance, double MaxContinuityError, int LinearIterations);
 
 /// <summary>A warning about one element of the network, or the summary of the rest of one code's warnings.</summary>
-/// <param name="Code">Stable kebab-case code: velocity-below-design-range, velocity-above-design-range, negative-pressure, pump-cannot-lift, pump-outside-curve-range, not-converged.</param>
+/// <param name="Code">Stable kebab-case code: velocity-below-design-range, velocity-above-design-range, negative-pressure, pump-cannot-lift, pump-outside-curve-range, transitional-flow (a Darcy-Weisbach pipe's Reynolds number between 2000 and 4000, where the friction factor is Churchill's 1977 interpolation, as for a single pipe), not-converged.</param>
 /// <param name="Message">What it means, naming the element (figures in SI).</param>
 /// <param name="Element">The id of the pipe, pump or junction it is about; omitted for the whole case and for a summary.</param>
 /// <param name="MoreElements">Only on a summary: a load case lists at most FlowSolve:Limits:NetworkWarningsPerCode
@@ -151,11 +161,28 @@ public sealed record NetworkWarningDto(string Code, string Message, string? Elem
 /// <param name="TotalSupply">Sum of the reservoirs' net outflows (flow unit); equals totalDemand within the flow tolerance.</param>
 /// <param name="Convergence">The convergence record, one row per Newton iteration.</param>
 /// <param name="Warnings">Warnings with stable codes, each naming its element; at most FlowSolve:Limits:NetworkWarningsPerCode (50 by default) of one code, then one summary of that code with moreElements.</param>
+/// <param name="Summary">The extremes of the load case over every element, whether listed or not.</param>
 public sealed record NetworkCaseDto(
     double DemandMultiplier, string Status, string Reason, bool Converged, int Iterations, int StatusPasses,
     IReadOnlyList<NetworkPipeResultDto> Pipes, IReadOnlyList<NetworkJunctionResultDto> Junctions,
     IReadOnlyList<NetworkPumpResultDto> Pumps, IReadOnlyList<NetworkReservoirResultDto> Reservoirs,
-    double TotalDemand, double TotalSupply, IReadOnlyList<NetworkIterationDto> Convergence, IReadOnlyList<NetworkWarningDto> Warnings);
+    double TotalDemand, double TotalSupply, IReadOnlyList<NetworkIterationDto> Convergence, IReadOnlyList<NetworkWarningDto> Warnings,
+    NetworkCaseSummaryDto Summary);
+
+/// <summary>One extreme value of a load case and the element where it occurs.</summary>
+/// <param name="Element">The id of the junction or pipe.</param>
+/// <param name="Value">The value, in the unit its field names.</param>
+public sealed record NetworkExtremeDto(string Element, double Value);
+
+/// <summary>The extremes of one load case over every element (listed in the tables or not).</summary>
+/// <param name="LowestPressureHead">The junction of lowest pressure head, head minus elevation (m, or ft with units=us); omitted without junctions.</param>
+/// <param name="HighestPressureHead">The junction of highest pressure head (m, or ft); omitted without junctions.</param>
+/// <param name="HighestVelocity">The pipe of largest mean speed |V| (m/s, or ft/s); omitted without pipes.</param>
+/// <param name="TransitionalPipes">How many open Darcy-Weisbach pipes run with a Reynolds number between 2000 and 4000 (each has a transitional-flow warning).</param>
+/// <param name="ClosedLinks">How many pipes and pumps carry no flow: closed, check valve shut, or pump off.</param>
+public sealed record NetworkCaseSummaryDto(
+    NetworkExtremeDto? LowestPressureHead, NetworkExtremeDto? HighestPressureHead, NetworkExtremeDto? HighestVelocity,
+    int TransitionalPipes, int ClosedLinks);
 
 /// <summary>The solved network: one answer per load case, with the method, units and defaults.</summary>
 /// <param name="Cases">One answer per demand multiplier, in the order given.</param>
@@ -170,10 +197,15 @@ public sealed record NetworkCaseDto(
 /// <param name="Validity">Each correlation's published range beside the extremes of the inputs over every case.</param>
 /// <param name="Warnings">Warnings about the request as a whole (the fluid); the element warnings are in each case.</param>
 /// <param name="Assumptions">Defaults that were applied.</param>
+/// <param name="HeadSolver">The linear solver that ran for the head equations of each Newton step: sparse-cholesky (a
+/// direct supernodal Cholesky factorisation under a nested-dissection ordering, the service's) or conjugate-gradient.</param>
+/// <param name="Detail">What each load case lists: full (every element), summary (no element rows) or elements (the
+/// chosen ones), as asked in output.</param>
 public sealed record NetworkSolveResponse(
     IReadOnlyList<NetworkCaseDto> Cases, int Iterations, bool Converged, string Method,
     string Units, string FlowUnit, string HeadUnit, string VelocityUnit, double KinematicViscosity,
-    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary
+    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
+    string HeadSolver, string Detail) : ISolveSummary
 {
     /// <summary>The request's own warnings, then every load case's element warnings.</summary>
     IEnumerable<string> IWarned.WarningCodes() => Warnings.Select(w => w.Code).Concat(Cases.SelectMany(c => c.Warnings.Select(w => w.Code)));

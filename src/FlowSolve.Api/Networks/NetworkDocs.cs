@@ -1,16 +1,29 @@
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Pumps;
+using FlowSolve.Core.Networks;
 
 namespace FlowSolve.Api.Networks;
 
 /// <summary>The network endpoint's OpenAPI description and example.</summary>
 public static class NetworkDocs
 {
+    /// <summary>How the head equations were solved, for the answer's method text.</summary>
+    public static string HeadSolverMethod(NetworkLinearSolver solver) => solver == NetworkLinearSolver.ConjugateGradient
+        ? "head equations solved by conjugate gradients with an incomplete Cholesky preconditioner"
+        : "head equations solved in each Newton step by a direct sparse Cholesky factorisation (supernodal, under a nested-dissection ordering analysed once per network), with iterative refinement";
+
+    /// <summary>The answer's headSolver code.</summary>
+    public static string HeadSolverCode(NetworkLinearSolver solver) =>
+        solver == NetworkLinearSolver.ConjugateGradient ? "conjugate-gradient" : "sparse-cholesky";
+
     public const string Solve =
         "Steady flows and heads of a looped (or branched) pipe network by the global gradient algorithm of Todini and Pilati " +
-        "(1988): Newton iteration on the energy equation of every link and the continuity equation of every junction together. " +
+        "(1988): Newton iteration on the energy equation of every link and the continuity equation of every junction together, " +
+        "each step's head equations solved by a direct sparse Cholesky factorisation (headSolver in the answer names it). " +
         "The request is a network document: junctions (id, elevation, demand), reservoirs (id, fixed head), pipes (id, from, to, " +
-        "length, diameter, and roughness for Darcy-Weisbach with the exact Colebrook-White friction factor, or hazenWilliamsC for " +
+        "length, diameter, and roughness for Darcy-Weisbach with the exact Colebrook-White friction factor from Re 4000, 64/Re below " +
+        "Re 2000 and Churchill's (1977) interpolation between, the same relations as /v1/pipes/flow (joined to the neighbouring laws " +
+        "by a cubic within 5 % of each limit, where the single-pipe relations jump), or hazenWilliamsC for " +
         "Hazen-Williams; minorLossCoefficient; checkValve; closed), pumps (id, from, to, curve as in /v1/pumps/duty-point, " +
         "speedRatio), optional x and y on the nodes for the schematic of the calculation sheet, the fluid (water's temperature or " +
         "kinematicViscosity; water at 20 degrees C when neither is given) and demandMultipliers, one load case each (default [1]). " +
@@ -18,8 +31,14 @@ public static class NetworkDocs
         "loss, friction factor, Reynolds number, status), junction (head, pressure head, demand), pump and reservoir, the supply " +
         "and demand totals, iterations, the convergence record per iteration (largest flow change, head imbalance and continuity " +
         "error) and warnings with stable codes naming their element (velocities outside 0.6 to 3 m/s, common practice; negative " +
-        "pressures; pumps), at most FlowSolve:Limits:NetworkWarningsPerCode (50 by default) of one code per load case, then one " +
-        "summary of that code whose moreElements counts the rest (the pipe, junction and pump tables still carry every value). Converged means continuity to 1e-10 m3/s at every junction and energy to 1e-10 m on every link. " +
+        "pressures; pumps; transitional-flow for each pipe whose Reynolds number lies between 2000 and 4000, as single pipes have), " +
+        "at most FlowSolve:Limits:NetworkWarningsPerCode (50 by default) of one code per load case, then one " +
+        "summary of that code whose moreElements counts the rest (the pipe, junction and pump tables still carry every value), and " +
+        "a summary of extremes (lowest and highest pressure head, highest velocity). Converged means continuity to 1e-10 m3/s at every junction and energy to 1e-10 m on every link, " +
+        "or, where that is finer than double precision holds (a very short or very wide pipe between heads of some metres), to 8 units in the last place of the numbers involved. " +
+        "output bounds the answer: {\"detail\": \"summary\"} lists no element rows, {\"elements\": [ids]} lists only those elements; " +
+        "the rows listed times the load cases may not exceed FlowSolve:Limits:NetworkMaxElementCases (100 000 by default), or the " +
+        "request answers 413 naming that limit before anything is solved. " +
         "Units: SI by default (m, m3/s, m/s, m2/s, degrees C); units=us gives ft, ft3/s (or US gal/min with flowUnit=gpm), ft/s, " +
         "ft2/s and degrees F, for inputs and outputs alike; warning messages quote SI figures. Bad input answers 400 whose errors " +
         "map names each field (pipes[2].length) and whose messages name the element by id (duplicate ids, unknown nodes, a link " +

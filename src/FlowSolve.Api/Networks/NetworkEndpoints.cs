@@ -18,6 +18,10 @@ public static class NetworkEndpoints
 {
     public const string Calculation = "networks/solve";
 
+    /// <summary>The solver's options: the Core's defaults (the sparse Cholesky head solve); the method text and the
+    /// answer's headSolver are read from them, so they name what ran.</summary>
+    public static NetworkOptions SolverOptions { get; } = NetworkOptions.Default;
+
     public static IEndpointRouteBuilder MapNetworkEndpoints(this IEndpointRouteBuilder routes)
     {
         var group = routes.MapGroup("/v1/networks").WithTags("Networks");
@@ -51,15 +55,29 @@ public static class NetworkEndpoints
                 type: "https://flowsolve.example/problems/invalid-input", extensions: extensions);
         }
 
-        var results = new NetworkResult[input.Multipliers.Length];
+        // Each load case is solved, turned into its answer (only the rows asked for) and let go before the next, so a
+        // request holds one case's full result at a time beside the answer it is building.
+        int n = input.Multipliers.Length;
+        var cases = new NetworkCaseDto[n];
+        var validity = new ValidityExtremes();
+        var trouble = new Trouble();
+        int iterations = 0;
+        bool converged = true;
         try
         {
-            var solver = new NetworkSolver(input.Model);
-            for (int i = 0; i < results.Length; i++)
+            var solver = new NetworkSolver(input.Model, SolverOptions);
+            for (int i = 0; i < n; i++)
             {
                 // A request over its time budget stops between load cases (the timeout middleware answers 503).
                 cancellation.ThrowIfCancellationRequested();
-                results[i] = solver.SolveCase(input.Multipliers[i]);
+                var result = solver.SolveCase(input.Multipliers[i]);
+                if (result.Status == NetworkStatus.NoPathToFixedHead) return NoPath(result); // the same for every case
+                iterations = Math.Max(iterations, result.Iterations);
+                converged &= result.Converged;
+                trouble.Add(result);
+                if (trouble.Any) continue; // the answer will be a 422: no case tables needed
+                validity.Add(input.Model, result);
+                cases[i] = Case(input, result, i, limits.NetworkWarningsPerCode);
             }
         }
         catch (ArgumentOutOfRangeException)
@@ -68,8 +86,13 @@ public static class NetworkEndpoints
             return OutOfRange(FlowsOutOfRangeDetail);
         }
 
-        if (NoAnswer(input, results) is { } none) return none;
-        var response = Response(input, results, limits.NetworkWarningsPerCode);
+        if (NoAnswer(input, trouble) is { } none) return none;
+        var u = input.Units;
+        double nu = input.Model.KinematicViscosity;
+        var response = new NetworkSolveResponse(cases, iterations, converged, input.Method,
+            u.Code, u.FlowUnit, u.HeadUnit, u.IsUs ? "ft/s" : "m/s", u.IsUs ? nu / (Units.Foot * Units.Foot) : nu,
+            validity.Report(input), input.Warnings, input.Assumptions,
+            NetworkDocs.HeadSolverCode(SolverOptions.LinearSolver), input.Detail);
         if (!Finite(response)) return OutOfRange("The solve met values too large for double precision (the inputs are extreme in magnitude); rescale them.");
         return TypedResults.Ok(response);
     }
@@ -96,53 +119,78 @@ public static class NetworkEndpoints
                     $"demandMultipliers holds {cases} load cases; this service solves at most {maxCases} in one request (FlowSolve:Limits:NetworkMaxDemandMultipliers). Send the rest in further requests."),
                 type: "https://flowsolve.example/problems/limit-exceeded",
                 extensions: new Dictionary<string, object?> { ["limit"] = "networkMaxDemandMultipliers", ["maximum"] = maxCases, ["given"] = cases, ["field"] = "demandMultipliers" });
+        long rows = NetworkInput.ListedElements(r) * Math.Max(cases, 1);
+        long maxRows = limits.NetworkMaxElementCases;
+        if (rows > maxRows)
+            return TypedResults.Problem(statusCode: StatusCodes.Status413PayloadTooLarge, title: "The answer would be too large.",
+                detail: string.Create(CultureInfo.InvariantCulture,
+                    $"Listing {NetworkInput.ListedElements(r)} elements (pipes, pumps, junctions and reservoirs) in each of {Math.Max(cases, 1)} load cases makes {rows} rows; this service answers at most {maxRows} (FlowSolve:Limits:NetworkMaxElementCases). Ask for output.detail \"summary\" (totals and extremes per load case), or output.elements with the ids you need, or fewer load cases per request."),
+                type: "https://flowsolve.example/problems/limit-exceeded",
+                extensions: new Dictionary<string, object?> { ["limit"] = "networkMaxElementCases", ["maximum"] = maxRows, ["given"] = rows, ["field"] = "output" });
         return null;
     }
 
-    /// <summary>422 for a network with no physical answer: a part without a fixed head, a pump that cannot lift, or head
-    /// equations that cannot be solved.</summary>
-    private static ProblemHttpResult? NoAnswer(NetworkProblem input, NetworkResult[] results)
+    /// <summary>The load cases without a physical answer, gathered while solving (small: ids and figures only).</summary>
+    private sealed class Trouble
     {
-        var first = results[0];
-        if (first.Status == NetworkStatus.NoPathToFixedHead)
+        public List<(double Multiplier, (string Id, double Head)[] Pumps)> Lift { get; } = [];
+        public double? LinearSolveFailed { get; private set; }
+        public double? FlowsOutOfRange { get; private set; }
+        public bool Any => Lift.Count > 0 || LinearSolveFailed is not null || FlowsOutOfRange is not null;
+
+        public void Add(NetworkResult r)
         {
-            var ids = first.UnsuppliedJunctions;
-            string list = string.Join(", ", ids.Take(10).Select(i => "'" + i + "'")) + (ids.Count > 10 ? $" and {ids.Count - 10} more" : "");
-            return ProblemResults.NoAnswer("Part of the network has no path to a fixed head.",
-                $"Junctions {list} are not connected to any reservoir through pipes or pumps, so their heads are undefined. Connect that part to a reservoir, or remove it.",
-                new Dictionary<string, object?> { ["networkStatus"] = first.Status.Code(), ["unsuppliedJunctions"] = ids.ToArray() });
+            if (r.Status == NetworkStatus.PumpCannotLift)
+                Lift.Add((r.DemandMultiplier, r.PumpsUnableToLift.Select(id => (id, r.Pump(id).Head)).ToArray()));
+            else if (r.Status == NetworkStatus.LinearSolveFailed) LinearSolveFailed ??= r.DemandMultiplier;
+            else if (r.Status == NetworkStatus.FlowsOutOfRange) FlowsOutOfRange ??= r.DemandMultiplier;
         }
-        var lift = results.Where(r => r.Status == NetworkStatus.PumpCannotLift).ToArray();
-        if (lift.Length > 0)
+    }
+
+    /// <summary>422 for a part of the network without a path to a fixed head.</summary>
+    private static ProblemHttpResult NoPath(NetworkResult first)
+    {
+        var ids = first.UnsuppliedJunctions;
+        string list = string.Join(", ", ids.Take(10).Select(i => "'" + i + "'")) + (ids.Count > 10 ? $" and {ids.Count - 10} more" : "");
+        return ProblemResults.NoAnswer("Part of the network has no path to a fixed head.",
+            $"Junctions {list} are not connected to any reservoir through pipes or pumps, so their heads are undefined. Connect that part to a reservoir, or remove it.",
+            new Dictionary<string, object?> { ["networkStatus"] = first.Status.Code(), ["unsuppliedJunctions"] = ids.ToArray() });
+    }
+
+    /// <summary>422 for a network with no physical answer: a pump that cannot lift, or head equations that cannot be
+    /// solved, or flows beyond the friction relations.</summary>
+    private static ProblemHttpResult? NoAnswer(NetworkProblem input, Trouble trouble)
+    {
+        if (trouble.Lift.Count > 0)
         {
             var u = input.Units;
-            var cases = lift.Select(r => new Dictionary<string, object?>
+            var cases = trouble.Lift.Select(r => new Dictionary<string, object?>
             {
-                ["demandMultiplier"] = r.DemandMultiplier,
-                ["pumps"] = r.PumpsUnableToLift.Select(id => new Dictionary<string, object?>
+                ["demandMultiplier"] = r.Multiplier,
+                ["pumps"] = r.Pumps.Select(p => new Dictionary<string, object?>
                 {
-                    ["id"] = id,
-                    ["headAcross"] = FiniteOrNull(u.Head(r.Pump(id).Head)),
+                    ["id"] = p.Id,
+                    ["headAcross"] = FiniteOrNull(u.Head(p.Head)),
                 }).ToArray(),
             }).ToArray();
-            var r0 = lift[0];
-            string id0 = r0.PumpsUnableToLift[0];
+            var r0 = trouble.Lift[0];
+            var (id0, head0) = r0.Pumps[0];
             string detail = string.Create(CultureInfo.InvariantCulture,
-                $"Pump '{id0}' cannot lift against the system at demand multiplier {r0.DemandMultiplier:G6}: the head of {u.Head(r0.Pump(id0).Head):G6} {u.HeadUnit} across it exceeds its shut-off head at its speed, so it would deliver nothing.")
-                + (lift.Sum(r => r.PumpsUnableToLift.Count) > 1 ? " Other pumps or load cases are affected too (see cases)." : "")
+                $"Pump '{id0}' cannot lift against the system at demand multiplier {r0.Multiplier:G6}: the head of {u.Head(head0):G6} {u.HeadUnit} across it exceeds its shut-off head at its speed, so it would deliver nothing.")
+                + (trouble.Lift.Sum(r => r.Pumps.Length) > 1 ? " Other pumps or load cases are affected too (see cases)." : "")
                 + " Raise its speed or choose a larger pump, or lower the delivery head.";
             return ProblemResults.NoAnswer("A pump cannot lift against the system.", detail,
                 new Dictionary<string, object?> { ["networkStatus"] = NetworkStatus.PumpCannotLift.Code(), ["headUnit"] = u.HeadUnit, ["cases"] = cases });
         }
-        if (results.FirstOrDefault(r => r.Status == NetworkStatus.LinearSolveFailed) is { } failed)
+        if (trouble.LinearSolveFailed is double failed)
             return ProblemResults.NoAnswer("The head equations could not be solved.",
                 string.Create(CultureInfo.InvariantCulture,
-                    $"At demand multiplier {failed.DemandMultiplier:G6} the head equations met a non-finite value or could not be solved. Check for pipes whose sizes differ by many orders of magnitude, or extreme demands."),
-                new Dictionary<string, object?> { ["networkStatus"] = failed.Status.Code() });
-        if (results.FirstOrDefault(r => r.Status == NetworkStatus.FlowsOutOfRange) is { } outside)
+                    $"At demand multiplier {failed:G6} the head equations met a non-finite value or could not be solved. Check for pipes whose sizes differ by many orders of magnitude, or extreme demands."),
+                new Dictionary<string, object?> { ["networkStatus"] = NetworkStatus.LinearSolveFailed.Code() });
+        if (trouble.FlowsOutOfRange is double outside)
             return ProblemResults.NoAnswer("The network lies outside the range of the arithmetic.",
-                string.Create(CultureInfo.InvariantCulture, $"At demand multiplier {outside.DemandMultiplier:G6}: ") + FlowsOutOfRangeDetail,
-                new Dictionary<string, object?> { ["networkStatus"] = outside.Status.Code() });
+                string.Create(CultureInfo.InvariantCulture, $"At demand multiplier {outside:G6}: ") + FlowsOutOfRangeDetail,
+                new Dictionary<string, object?> { ["networkStatus"] = NetworkStatus.FlowsOutOfRange.Code() });
         return null;
     }
 
@@ -154,38 +202,60 @@ public static class NetworkEndpoints
 
     private static double? FiniteOrNull(double v) => double.IsFinite(v) ? v : null;
 
-    private static NetworkSolveResponse Response(NetworkProblem input, NetworkResult[] results, int warningsPerCode)
+    /// <summary>One load case's answer: the rows asked for (all, none, or the chosen elements), the extremes over every
+    /// element, the convergence record and the warnings.</summary>
+    private static NetworkCaseDto Case(NetworkProblem input, NetworkResult r, int c, int warningsPerCode)
     {
         var u = input.Units;
         var model = input.Model;
         double nu = model.KinematicViscosity;
-        var cases = new NetworkCaseDto[results.Length];
-        for (int c = 0; c < results.Length; c++)
+        bool all = input.Detail == NetworkInput.FullDetail, none = input.Detail == NetworkInput.SummaryDetail;
+        var chosen = input.Chosen;
+        bool Listed(string id) => all || (!none && chosen!.Contains(id));
+
+        var pipes = new List<NetworkPipeResultDto>(all ? r.Pipes.Count : 0);
+        NetworkExtremeDto? fastest = null;
+        int transitional = 0, closed = 0;
+        double vMax = -1;
+        for (int i = 0; i < r.Pipes.Count; i++)
         {
-            var r = results[c];
-            var pipes = new NetworkPipeResultDto[r.Pipes.Count];
-            for (int i = 0; i < pipes.Length; i++)
-            {
-                var p = r.Pipes[i];
-                double re = Math.Abs(p.Velocity) * model.Pipes[i].Diameter / nu;
-                pipes[i] = new(p.Id, u.Flow(p.Flow), u.Head(p.Velocity), u.Head(p.HeadLoss), p.FrictionFactor, re, p.Status.Code());
-            }
-            var junctions = r.Junctions.Select(j => new NetworkJunctionResultDto(j.Id, u.Head(j.Head), u.Head(j.PressureHead), u.Flow(j.Demand))).ToArray();
-            var pumps = r.Pumps.Select(p => new NetworkPumpResultDto(p.Id, u.Flow(p.Flow), u.Head(p.Head), p.Status.Code())).ToArray();
-            var reservoirs = r.Reservoirs.Select(x => new NetworkReservoirResultDto(x.Id, u.Head(x.Head), u.Flow(x.Outflow))).ToArray();
-            var record = r.Record.Select(t => new NetworkIterationDto(t.Iteration, t.StatusPass, u.Flow(t.MaxFlowChange),
-                u.Head(t.MaxHeadImbalance), u.Flow(t.MaxContinuityError), t.LinearIterations)).ToArray();
-            var warnings = new List<NetworkWarningDto>();
-            if (!r.Converged)
-                warnings.Add(new("not-converged", $"Load case {c + 1} (demand multiplier {r.DemandMultiplier.ToString("G6", CultureInfo.InvariantCulture)}) did not converge: {r.Status.Reason()}. The last iterate is reported; do not use it for design.", null));
-            warnings.AddRange(r.Warnings.Select(w => { var d = w.Describe(); return new NetworkWarningDto(d.Code, d.Message, w.ElementId); }));
-            cases[c] = new NetworkCaseDto(r.DemandMultiplier, r.Status.Code(), r.Status.Reason(), r.Converged, r.Iterations, r.StatusPasses,
-                pipes, junctions, pumps, reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply), record,
-                CapPerCode(warnings, warningsPerCode, c + 1));
+            var p = r.Pipes[i];
+            if (p.Status != LinkStatus.Open) closed++;
+            double speed = Math.Abs(p.Velocity);
+            if (speed > vMax) { vMax = speed; fastest = new NetworkExtremeDto(p.Id, u.Head(speed)); }
+            double re = speed * model.Pipes[i].Diameter / nu;
+            if (model.Pipes[i].HazenWilliamsC is null && p.Status == LinkStatus.Open && p.Flow != 0
+                && re >= SolverOptions.Friction.LaminarLimit && re < SolverOptions.Friction.TurbulentLimit) transitional++;
+            if (Listed(p.Id)) pipes.Add(new(p.Id, u.Flow(p.Flow), u.Head(p.Velocity), u.Head(p.HeadLoss), p.FrictionFactor, re, p.Status.Code()));
         }
-        return new NetworkSolveResponse(cases, results.Max(r => r.Iterations), results.All(r => r.Converged), input.Method,
-            u.Code, u.FlowUnit, u.HeadUnit, u.IsUs ? "ft/s" : "m/s", u.IsUs ? nu / (Units.Foot * Units.Foot) : nu,
-            Validity(input, results), input.Warnings, input.Assumptions);
+        var junctions = new List<NetworkJunctionResultDto>(all ? r.Junctions.Count : 0);
+        NetworkExtremeDto? lowest = null, highest = null;
+        double pMin = double.PositiveInfinity, pMax = double.NegativeInfinity;
+        foreach (var j in r.Junctions)
+        {
+            if (j.PressureHead < pMin) { pMin = j.PressureHead; lowest = new NetworkExtremeDto(j.Id, u.Head(j.PressureHead)); }
+            if (j.PressureHead > pMax) { pMax = j.PressureHead; highest = new NetworkExtremeDto(j.Id, u.Head(j.PressureHead)); }
+            if (Listed(j.Id)) junctions.Add(new(j.Id, u.Head(j.Head), u.Head(j.PressureHead), u.Flow(j.Demand)));
+        }
+        var pumps = new List<NetworkPumpResultDto>();
+        foreach (var p in r.Pumps)
+        {
+            if (p.Status != LinkStatus.Open) closed++;
+            if (Listed(p.Id)) pumps.Add(new(p.Id, u.Flow(p.Flow), u.Head(p.Head), p.Status.Code()));
+        }
+        var reservoirs = new List<NetworkReservoirResultDto>();
+        foreach (var x in r.Reservoirs)
+            if (Listed(x.Id)) reservoirs.Add(new(x.Id, u.Head(x.Head), u.Flow(x.Outflow)));
+        var record = r.Record.Select(t => new NetworkIterationDto(t.Iteration, t.StatusPass, u.Flow(t.MaxFlowChange),
+            u.Head(t.MaxHeadImbalance), u.Flow(t.MaxContinuityError), t.LinearIterations)).ToArray();
+        var warnings = new List<NetworkWarningDto>();
+        if (!r.Converged)
+            warnings.Add(new("not-converged", $"Load case {c + 1} (demand multiplier {r.DemandMultiplier.ToString("G6", CultureInfo.InvariantCulture)}) did not converge: {r.Status.Reason()}. The last iterate is reported; do not use it for design.", null));
+        warnings.AddRange(r.Warnings.Select(w => { var d = w.Describe(SolverOptions); return new NetworkWarningDto(d.Code, d.Message, w.ElementId); }));
+        return new NetworkCaseDto(r.DemandMultiplier, r.Status.Code(), r.Status.Reason(), r.Converged, r.Iterations, r.StatusPasses,
+            pipes, junctions, pumps, reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply), record,
+            CapPerCode(warnings, warningsPerCode, c + 1),
+            new NetworkCaseSummaryDto(lowest, highest, fastest, transitional, closed));
     }
 
     /// <summary>At most <paramref name="cap"/> warnings of each code, in their order; in place of the first one over the
@@ -215,58 +285,68 @@ public static class NetworkEndpoints
     }
 
     /// <summary>Each correlation's range beside the extremes over every pipe and case: Colebrook-White's published range
-    /// for the turbulent Darcy-Weisbach pipes, the usual range of Hazen-Williams (common practice) for the others.</summary>
-    private static List<ValidityDto> Validity(NetworkProblem input, NetworkResult[] results)
+    /// for the turbulent Darcy-Weisbach pipes, the usual range of Hazen-Williams (common practice) for the others. The
+    /// extremes are gathered case by case (<see cref="Add"/>), so no case's result need be kept.</summary>
+    private sealed class ValidityExtremes
     {
-        var list = new List<ValidityDto>();
-        var model = input.Model;
-        var u = input.Units;
-        double nu = model.KinematicViscosity;
-        double reMin = double.PositiveInfinity, reMax = 0, relMax = -1, vMax = -1;
-        for (int i = 0; i < model.Pipes.Count; i++)
+        private double _reMin = double.PositiveInfinity, _reMax, _vMax = -1;
+
+        public void Add(NetworkModel model, NetworkResult r)
         {
-            var p = model.Pipes[i];
-            if (p.HazenWilliamsC is null) relMax = Math.Max(relMax, p.Roughness / p.Diameter);
-            foreach (var r in results)
+            double nu = model.KinematicViscosity;
+            for (int i = 0; i < model.Pipes.Count; i++)
             {
+                var p = model.Pipes[i];
                 var pr = r.Pipes[i];
                 if (pr.Status != LinkStatus.Open || pr.Flow == 0) continue;
                 double re = Math.Abs(pr.Velocity) * p.Diameter / nu;
                 if (p.HazenWilliamsC is null)
                 {
                     if (re < FrictionOptions.Default.TurbulentLimit) continue;
-                    reMin = Math.Min(reMin, re);
-                    reMax = Math.Max(reMax, re);
+                    _reMin = Math.Min(_reMin, re);
+                    _reMax = Math.Max(_reMax, re);
                 }
-                else vMax = Math.Max(vMax, Math.Abs(pr.Velocity));
+                else _vMax = Math.Max(_vMax, Math.Abs(pr.Velocity));
             }
         }
-        var cw = FrictionMethodInfo.ColebrookWhite;
-        string cwSource = cw.Source + "; range: " + cw.RangeProvenance;
-        if (reMax > 0)
+
+        public List<ValidityDto> Report(NetworkProblem input)
         {
-            list.Add(new ValidityDto(cw.Code, "smallest turbulent pipe Reynolds number", cw.ReynoldsMinimum, cw.ReynoldsMaximum, reMin, reMin >= cw.ReynoldsMinimum && reMin <= cw.ReynoldsMaximum, cwSource));
-            list.Add(new ValidityDto(cw.Code, "largest pipe Reynolds number", cw.ReynoldsMinimum, cw.ReynoldsMaximum, reMax, reMax <= cw.ReynoldsMaximum, cwSource));
+            var list = new List<ValidityDto>();
+            var model = input.Model;
+            var u = input.Units;
+            double nu = model.KinematicViscosity;
+            double relMax = -1;
+            foreach (var p in model.Pipes)
+                if (p.HazenWilliamsC is null) relMax = Math.Max(relMax, p.Roughness / p.Diameter);
+            double reMin = _reMin, reMax = _reMax, vMax = _vMax;
+            var cw = FrictionMethodInfo.ColebrookWhite;
+            string cwSource = cw.Source + "; range: " + cw.RangeProvenance;
+            if (reMax > 0)
+            {
+                list.Add(new ValidityDto(cw.Code, "smallest turbulent pipe Reynolds number", cw.ReynoldsMinimum, cw.ReynoldsMaximum, reMin, reMin >= cw.ReynoldsMinimum && reMin <= cw.ReynoldsMaximum, cwSource));
+                list.Add(new ValidityDto(cw.Code, "largest pipe Reynolds number", cw.ReynoldsMinimum, cw.ReynoldsMaximum, reMax, reMax <= cw.ReynoldsMaximum, cwSource));
+            }
+            if (relMax >= 0)
+                list.Add(new ValidityDto(cw.Code, "largest relative roughness e/D", cw.RelativeRoughnessMinimum, cw.RelativeRoughnessMaximum, relMax, relMax <= cw.RelativeRoughnessMaximum, cwSource));
+            var hw = model.Pipes.Where(p => p.HazenWilliamsC is not null).ToArray();
+            if (hw.Length > 0)
+            {
+                const string source = "Hazen-Williams usual range (common practice): water at ordinary temperatures, turbulent flow";
+                double dMin = hw.Min(p => p.Diameter), dMax = hw.Max(p => p.Diameter);
+                double cMin = hw.Min(p => p.HazenWilliamsC!.Value), cMax = hw.Max(p => p.HazenWilliamsC!.Value);
+                list.Add(new ValidityDto("hazen-williams", "smallest diameter", u.Head(HazenWilliams.MinimumDiameter), u.Head(HazenWilliams.MaximumDiameter), u.Head(dMin), dMin >= HazenWilliams.MinimumDiameter, source));
+                list.Add(new ValidityDto("hazen-williams", "largest diameter", u.Head(HazenWilliams.MinimumDiameter), u.Head(HazenWilliams.MaximumDiameter), u.Head(dMax), dMax <= HazenWilliams.MaximumDiameter, source));
+                list.Add(new ValidityDto("hazen-williams", "smallest C", HazenWilliams.MinimumCoefficient, HazenWilliams.MaximumCoefficient, cMin, cMin >= HazenWilliams.MinimumCoefficient, source));
+                list.Add(new ValidityDto("hazen-williams", "largest C", HazenWilliams.MinimumCoefficient, HazenWilliams.MaximumCoefficient, cMax, cMax <= HazenWilliams.MaximumCoefficient, source));
+                if (vMax >= 0)
+                    list.Add(new ValidityDto("hazen-williams", "largest velocity", 0, u.Head(HazenWilliams.MaximumVelocity), u.Head(vMax), vMax <= HazenWilliams.MaximumVelocity, source));
+                double nuShown = u.IsUs ? 1 / (Units.Foot * Units.Foot) : 1;
+                list.Add(new ValidityDto("hazen-williams", "kinematic viscosity", HazenWilliams.MinimumViscosity * nuShown, HazenWilliams.MaximumViscosity * nuShown, nu * nuShown,
+                    nu >= HazenWilliams.MinimumViscosity && nu <= HazenWilliams.MaximumViscosity, source));
+            }
+            return list;
         }
-        if (relMax >= 0)
-            list.Add(new ValidityDto(cw.Code, "largest relative roughness e/D", cw.RelativeRoughnessMinimum, cw.RelativeRoughnessMaximum, relMax, relMax <= cw.RelativeRoughnessMaximum, cwSource));
-        var hw = model.Pipes.Where(p => p.HazenWilliamsC is not null).ToArray();
-        if (hw.Length > 0)
-        {
-            const string source = "Hazen-Williams usual range (common practice): water at ordinary temperatures, turbulent flow";
-            double dMin = hw.Min(p => p.Diameter), dMax = hw.Max(p => p.Diameter);
-            double cMin = hw.Min(p => p.HazenWilliamsC!.Value), cMax = hw.Max(p => p.HazenWilliamsC!.Value);
-            list.Add(new ValidityDto("hazen-williams", "smallest diameter", u.Head(HazenWilliams.MinimumDiameter), u.Head(HazenWilliams.MaximumDiameter), u.Head(dMin), dMin >= HazenWilliams.MinimumDiameter, source));
-            list.Add(new ValidityDto("hazen-williams", "largest diameter", u.Head(HazenWilliams.MinimumDiameter), u.Head(HazenWilliams.MaximumDiameter), u.Head(dMax), dMax <= HazenWilliams.MaximumDiameter, source));
-            list.Add(new ValidityDto("hazen-williams", "smallest C", HazenWilliams.MinimumCoefficient, HazenWilliams.MaximumCoefficient, cMin, cMin >= HazenWilliams.MinimumCoefficient, source));
-            list.Add(new ValidityDto("hazen-williams", "largest C", HazenWilliams.MinimumCoefficient, HazenWilliams.MaximumCoefficient, cMax, cMax <= HazenWilliams.MaximumCoefficient, source));
-            if (vMax >= 0)
-                list.Add(new ValidityDto("hazen-williams", "largest velocity", 0, u.Head(HazenWilliams.MaximumVelocity), u.Head(vMax), vMax <= HazenWilliams.MaximumVelocity, source));
-            double nuShown = u.IsUs ? 1 / (Units.Foot * Units.Foot) : 1;
-            list.Add(new ValidityDto("hazen-williams", "kinematic viscosity", HazenWilliams.MinimumViscosity * nuShown, HazenWilliams.MaximumViscosity * nuShown, nu * nuShown,
-                nu >= HazenWilliams.MinimumViscosity && nu <= HazenWilliams.MaximumViscosity, source));
-        }
-        return list;
     }
 
     private static bool Finite(NetworkSolveResponse r)
@@ -283,6 +363,8 @@ public static class NetworkEndpoints
                 if (!double.IsFinite(p.Flow) || !double.IsFinite(p.Head)) return false;
             foreach (var x in c.Reservoirs)
                 if (!double.IsFinite(x.Outflow)) return false;
+            foreach (var e in new[] { c.Summary.LowestPressureHead, c.Summary.HighestPressureHead, c.Summary.HighestVelocity })
+                if (e is not null && !double.IsFinite(e.Value)) return false;
             foreach (var t in c.Convergence)
                 if (!double.IsFinite(t.MaxFlowChange) || !double.IsFinite(t.MaxHeadImbalance) || !double.IsFinite(t.MaxContinuityError)) return false;
         }

@@ -9,9 +9,11 @@ using FlowSolve.Core.Pumps;
 namespace FlowSolve.Api.Networks;
 
 /// <summary>A validated network request, in SI, ready for the Core.</summary>
+/// <remarks>Detail is full, summary or elements (see <see cref="NetworkOutputInput"/>); Chosen holds the ids to list
+/// with elements, else null.</remarks>
 internal sealed record NetworkProblem(
     PumpUnits Units, NetworkModel Model, double[] Multipliers, string Method, double? WaterCelsius,
-    List<AssumptionDto> Assumptions, List<WarningDto> Warnings);
+    List<AssumptionDto> Assumptions, List<WarningDto> Warnings, string Detail = NetworkInput.FullDetail, HashSet<string>? Chosen = null);
 
 /// <summary>
 /// Reads and validates a network request. Every bad field is reported at once under its wire path
@@ -23,6 +25,17 @@ internal static class NetworkInput
     public const int MaximumIdLength = 64;
     public const double MaximumMultiplier = 100;
     private const double DefaultTemperature = 20.0;
+    public const string FullDetail = "full", SummaryDetail = "summary", ElementsDetail = "elements";
+
+    /// <summary>The rows of the element tables an answer would list per load case (pipes, pumps, junctions and
+    /// reservoirs), read from the raw request before anything is validated or solved: 0 for a summary, the chosen
+    /// elements' count when they are given, else every element.</summary>
+    public static long ListedElements(NetworkSolveRequest r)
+    {
+        if (r.Output?.Elements is { } chosen) return chosen.Count;
+        if (r.Output?.Detail is string d && d.Equals(SummaryDetail, StringComparison.OrdinalIgnoreCase)) return 0;
+        return (long)(r.Pipes?.Count ?? 0) + (r.Pumps?.Count ?? 0) + (r.Junctions?.Count ?? 0) + (r.Reservoirs?.Count ?? 0);
+    }
 
     /// <summary>The element ids named by the errors (for the problem's <c>elements</c> list).</summary>
     public sealed class Errors
@@ -62,7 +75,9 @@ internal static class NetworkInput
         var warnings = new List<WarningDto>();
         var method = new List<string>
         {
-            "global gradient algorithm (Todini and Pilati 1988): Newton iteration on the energy and continuity equations of the whole network, head equations solved by conjugate gradients with an incomplete Cholesky preconditioner",
+            "global gradient algorithm (Todini and Pilati 1988): Newton iteration on the energy and continuity equations of the whole network, "
+                + NetworkDocs.HeadSolverMethod(NetworkEndpoints.SolverOptions.LinearSolver)
+                + "; converged when every link's energy and every junction's continuity are within 1e-10 m and 1e-10 m3/s, or within what double precision resolves at that element's scale where that is finer",
         };
 
         // Units first: every other field is read in them.
@@ -217,6 +232,38 @@ internal static class NetworkInput
             if (ok && pump is not null) pumps.Add(pump);
         }
 
+        // What the answer lists.
+        string detail = FullDetail;
+        HashSet<string>? chosen = null;
+        if (request.Output is { } output)
+        {
+            if (output.Detail is string od)
+            {
+                if (od.Equals(SummaryDetail, StringComparison.OrdinalIgnoreCase)) detail = SummaryDetail;
+                else if (!od.Equals(FullDetail, StringComparison.OrdinalIgnoreCase)) fields.Add("output.detail", "must be full or summary");
+            }
+            if (output.Elements is { } ids)
+            {
+                if (detail == SummaryDetail)
+                    fields.Add("output.elements", "give elements with detail full, or leave detail out: a summary lists no elements");
+                else if (ids.Count == 0)
+                    fields.Add("output.elements", "must name at least one element (or ask for detail summary)");
+                else
+                {
+                    detail = ElementsDetail;
+                    chosen = new HashSet<string>(ids.Count, StringComparer.Ordinal);
+                    for (int i = 0; i < ids.Count; i++)
+                    {
+                        string? id = ids[i];
+                        if (string.IsNullOrEmpty(id) || !(nodeAt.ContainsKey(id) || linkAt.ContainsKey(id)))
+                            fields.Add($"output.elements[{i}]", $"'{Short(id)}' is not the id of a pipe, pump, junction or reservoir of this network");
+                        else if (!chosen.Add(id))
+                            fields.Add($"output.elements[{i}]", $"'{Short(id)}' is listed more than once");
+                    }
+                }
+            }
+        }
+
         if (errors.Any || !double.IsFinite(nu)) return null;
 
         var model = new NetworkModel(junctions, reservoirs, pipes, pumps, nu);
@@ -226,11 +273,11 @@ internal static class NetworkInput
             errors.Add(PathOf(request, issue.ElementId), issue.ElementId.Length == 0 ? "network" : $"element '{Short(issue.ElementId)}'", issue.ElementId, issue.Message);
         if (errors.Any) return null;
 
-        if (darcy) method.Add("pipes with roughness by Darcy-Weisbach, hf = f (L/D) V^2/(2g), with the exact Colebrook-White friction factor (1939), 64/Re below Re 2000 and a cubic blend between 2000 and 4000; minor losses K V^2/(2g); g = 9.80665 m/s2");
+        if (darcy) method.Add("pipes with roughness by Darcy-Weisbach, hf = f (L/D) V^2/(2g), with the exact Colebrook-White friction factor (1939) from Re 4000, 64/Re below Re 2000 and Churchill's (1977) interpolation between, as for a single pipe (/v1/pipes/...), joined to the neighbouring laws by a cubic within 5 % of each limit so that the head loss has no jump, each such pipe with a transitional-flow warning; minor losses K V^2/(2g); g = 9.80665 m/s2");
         if (hazen) method.Add("pipes with hazenWilliamsC by Hazen-Williams, V = 0.849 C R^0.63 S^0.54 (SI), made linear below 1 mm/s so that its slope never vanishes (Elhay and Simpson 2011)");
         if (pumps.Count > 0) method.Add("pumps by their curves and the affinity laws, H_s(Q) = s^2 H(Q/s); a pump driven backwards stops");
         if (pipes.Any(p => p.CheckValve)) method.Add("check valves close under reverse flow and reopen under forward head, re-examined between Newton solves");
-        return new NetworkProblem(u, model, multipliers, string.Join("; ", method), waterCelsius, assumptions, warnings);
+        return new NetworkProblem(u, model, multipliers, string.Join("; ", method), waterCelsius, assumptions, warnings, detail, chosen);
     }
 
     private static double Length(FieldErrors e, string field, double? value, PumpUnits u, string unit)

@@ -27,33 +27,46 @@ public sealed class NetworkSheet : ISheetBuilder
 
         Inputs(sheet, request, r);
         sheet.Assumptions.AddRange(r.Assumptions);
-        Methods(sheet, request);
+        Methods(sheet, request, r);
+        bool cholesky = r.HeadSolver == "sparse-cholesky";
 
         for (int c = 0; c < r.Cases.Count; c++)
         {
             var k = r.Cases[c];
             string tag = Tag(c, k);
-            string lowest = k.Junctions.Count == 0 ? "no junctions" : k.Junctions.MinBy(j => j.PressureHead)!.Id;
-            double lowestHead = k.Junctions.Count == 0 ? double.NaN : k.Junctions.Min(j => j.PressureHead);
+            string lowest = k.Summary.LowestPressureHead?.Element ?? "no junctions";
+            double lowestHead = k.Summary.LowestPressureHead?.Value ?? double.NaN;
             {
                 sheet.Results.Add(new($"{tag}: status", k.Status, "", k.Reason));
                 sheet.Results.Add(new($"{tag}: total demand", F(k.TotalDemand), qu, "sum of the junction demands times the multiplier"));
                 sheet.Results.Add(new($"{tag}: total supply", F(k.TotalSupply), qu, "sum of the reservoirs' net outflows"));
-                sheet.Results.Add(new($"{tag}: lowest pressure head", F(lowestHead), hu, k.Junctions.Count == 0 ? "" : $"at junction '{lowest}'"));
+                sheet.Results.Add(new($"{tag}: lowest pressure head", F(lowestHead), hu, k.Summary.LowestPressureHead is null ? "" : $"at junction '{lowest}'"));
+                if (k.Summary.HighestVelocity is { } fastest)
+                    sheet.Results.Add(new($"{tag}: highest velocity", F(fastest.Value), vu, $"in pipe '{fastest.Element}'"));
+                if (k.Summary.TransitionalPipes > 0)
+                    sheet.Results.Add(new($"{tag}: pipes in the transition zone", k.Summary.TransitionalPipes.ToString(C), "", "Reynolds number 2000 to 4000: friction factor by Churchill (1977), as for a single pipe"));
                 sheet.Results.Add(new($"{tag}: iterations", k.Iterations.ToString(C), "", $"{k.StatusPasses} status pass(es); converged: {(k.Converged ? "yes" : "no")}"));
             }
-            sheet.Tables.Add(Table($"pipes-{c + 1}", $"Pipes, {tag}", ["Pipe", $"Flow ({qu})", $"Velocity ({vu})", $"Head loss ({hu})", "Friction factor f", "Reynolds number", "Status"],
-                k.Pipes.Select(p => new[] { p.Id, F(p.Flow), F(p.Velocity), F(p.HeadLoss), F(p.FrictionFactor), F(p.Reynolds), p.Status }),
-                "Flow is positive from the pipe's 'from' node to its 'to' node; head loss is the head at 'from' minus the head at 'to'."));
-            sheet.Tables.Add(Table($"junctions-{c + 1}", $"Junctions, {tag}", ["Junction", $"Head ({hu})", $"Pressure head ({hu})", $"Demand ({qu})"],
-                k.Junctions.Select(j => new[] { j.Id, F(j.Head), F(j.PressureHead), F(j.Demand) })));
-            if (k.Pumps.Count > 0)
-                sheet.Tables.Add(Table($"pumps-{c + 1}", $"Pumps, {tag}", ["Pump", $"Flow ({qu})", $"Head added ({hu})", "Status"],
-                    k.Pumps.Select(p => new[] { p.Id, F(p.Flow), F(p.Head), p.Status })));
-            sheet.Tables.Add(Table($"reservoirs-{c + 1}", $"Reservoirs, {tag}", ["Reservoir", $"Head ({hu})", $"Outflow ({qu})"],
-                k.Reservoirs.Select(x => new[] { x.Id, F(x.Head), F(x.Outflow) })));
+            if (r.Detail == "summary")
+            {
+                sheet.Results.Add(new($"{tag}: element tables", "not listed", "", "the request asked for output.detail summary"));
+            }
+            else
+            {
+                string chosenNote = r.Detail == "elements" ? " Only the elements named in output.elements are listed." : "";
+                sheet.Tables.Add(Table($"pipes-{c + 1}", $"Pipes, {tag}", ["Pipe", $"Flow ({qu})", $"Velocity ({vu})", $"Head loss ({hu})", "Friction factor f", "Reynolds number", "Status"],
+                    k.Pipes.Select(p => new[] { p.Id, F(p.Flow), F(p.Velocity), F(p.HeadLoss), F(p.FrictionFactor), F(p.Reynolds), p.Status }),
+                    "Flow is positive from the pipe's 'from' node to its 'to' node; head loss is the head at 'from' minus the head at 'to'." + chosenNote));
+                sheet.Tables.Add(Table($"junctions-{c + 1}", $"Junctions, {tag}", ["Junction", $"Head ({hu})", $"Pressure head ({hu})", $"Demand ({qu})"],
+                    k.Junctions.Select(j => new[] { j.Id, F(j.Head), F(j.PressureHead), F(j.Demand) })));
+                if (k.Pumps.Count > 0)
+                    sheet.Tables.Add(Table($"pumps-{c + 1}", $"Pumps, {tag}", ["Pump", $"Flow ({qu})", $"Head added ({hu})", "Status"],
+                        k.Pumps.Select(p => new[] { p.Id, F(p.Flow), F(p.Head), p.Status })));
+                sheet.Tables.Add(Table($"reservoirs-{c + 1}", $"Reservoirs, {tag}", ["Reservoir", $"Head ({hu})", $"Outflow ({qu})"],
+                    k.Reservoirs.Select(x => new[] { x.Id, F(x.Head), F(x.Outflow) })));
+            }
             sheet.Tables.Add(Table($"convergence-{c + 1}", $"Convergence record, {tag}",
-                ["Iteration", "Status pass", $"Largest flow change ({qu})", $"Largest head imbalance ({hu})", $"Largest continuity error ({qu})", "CG iterations"],
+                ["Iteration", "Status pass", $"Largest flow change ({qu})", $"Largest head imbalance ({hu})", $"Largest continuity error ({qu})", cholesky ? "Triangular solves" : "CG iterations"],
                 k.Convergence.Select(t => new[] { t.Iteration.ToString(C), t.StatusPass.ToString(C), E3(t.MaxFlowChange), E3(t.MaxHeadImbalance), E3(t.MaxContinuityError), t.LinearIterations.ToString(C) })));
             foreach (var w in k.Warnings) sheet.Warnings.Add(new WarningDto(w.Code, $"{tag}: {w.Message}"));
         }
@@ -63,7 +76,7 @@ public sealed class NetworkSheet : ISheetBuilder
         sheet.Solver = new SolverRecord(r.Iterations, r.Converged, last?.MaxHeadImbalance ?? 0,
             $"largest energy imbalance over the open links after the last iteration of the slowest load case, {hu}", slowest.Status, slowest.Reason,
             "every junction head and link flow at once (Newton on the whole network)", [],
-            "Each load case's iterations are in its convergence record above; the tolerances are 1e-10 m on every link's energy balance and 1e-10 m3/s on every junction's continuity.");
+            "Each load case's iterations are in its convergence record above; the tolerances are 1e-10 m on every link's energy balance and 1e-10 m3/s on every junction's continuity, or 8 units in the last place of the numbers involved where that is finer than double precision holds.");
         sheet.Validity.AddRange(r.Validity);
         sheet.Warnings.InsertRange(0, r.Warnings);
 
@@ -138,21 +151,26 @@ public sealed class NetworkSheet : ISheetBuilder
 
     private static string Coord(double? x, double? y) => x is double a && y is double b ? a.ToString("G6", C) + ", " + b.ToString("G6", C) : "";
 
-    private static void Methods(Sheet sheet, NetworkSolveRequest q)
+    private static void Methods(Sheet sheet, NetworkSolveRequest q, NetworkSolveResponse r)
     {
         var pipes = q.Pipes ?? [];
         sheet.Methods.Add(new("Global gradient algorithm",
             "Newton iteration on energy H_i - H_j = h(Q) for every link and continuity (inflow - outflow = demand) for every junction together; each step solves the Schur complement A21 D^-1 A12 H = b for the junction heads, then the link flows",
             "Todini, E. and Pilati, S. (1988), A gradient algorithm for the analysis of pipe networks, in Computer Applications in Water Supply, vol. 1, Research Studies Press, 1-20 (from memory)"));
-        sheet.Methods.Add(new("Head equations",
-            "conjugate gradients with an incomplete Cholesky preconditioner on the sparse symmetric positive-definite head matrix",
-            "Hestenes and Stiefel (1952); Meijerink and van der Vorst (1977), from memory"));
+        if (r.HeadSolver == "sparse-cholesky")
+            sheet.Methods.Add(new("Head equations",
+                "direct sparse Cholesky factorisation of the symmetric positive-definite head matrix (supernodal, under a nested-dissection ordering analysed once per network), refactorised each Newton step, with iterative refinement; solved for the head corrections, so the flows keep full precision",
+                "Cholesky factorisation; nested dissection: George, A. (1973), SIAM J. Numer. Anal. 10(2), 345-363, from memory"));
+        else
+            sheet.Methods.Add(new("Head equations",
+                "conjugate gradients with an incomplete Cholesky preconditioner on the sparse symmetric positive-definite head matrix",
+                "Hestenes and Stiefel (1952); Meijerink and van der Vorst (1977), from memory"));
         if (pipes.Any(p => p.HazenWilliamsC is null))
         {
             sheet.Methods.Add(new("Darcy-Weisbach", "hf = f (L/D) V^2/(2g), hm = K V^2/(2g); V = 4Q/(pi D^2); g = 9.80665 m/s2",
                 "Weisbach (1845) and Darcy (1857), from memory; standard gravity, 3rd CGPM (1901)"));
-            sheet.Methods.Add(new("Colebrook-White, exact", "1/sqrt(f) = -2 log10(e/(3.7 D) + 2.51/(Re sqrt(f))) above Re 4000; 64/Re below 2000; a cubic blend of the two, values and slopes matched, between",
-                "Colebrook, C. F. (1939), J. Inst. Civ. Eng. 11(4), 133-156; the blend after Dunlop (1991), from memory"));
+            sheet.Methods.Add(new("Colebrook-White, exact", "1/sqrt(f) = -2 log10(e/(3.7 D) + 2.51/(Re sqrt(f))) from Re 4000; 64/Re below 2000; Churchill's interpolation between, as for a single pipe, joined to the neighbouring laws by a cubic (values and slopes matched) within 5 % of each limit so that Newton meets no jump (each such pipe is warned about: transitional-flow)",
+                "Colebrook, C. F. (1939), J. Inst. Civ. Eng. 11(4), 133-156; Churchill, S. W. (1977), Chem. Eng. 84(24), 91-92"));
         }
         if (pipes.Any(p => p.HazenWilliamsC is not null))
             sheet.Methods.Add(new("Hazen-Williams", "V = 0.849 C R^0.63 S^0.54 (SI); below 1 mm/s an odd cubic with the same value and slope, so dh/dQ never vanishes",
@@ -179,22 +197,28 @@ public sealed class NetworkSheet : ISheetBuilder
         int design = Math.Max(0, r.Cases.ToList().FindIndex(k => k.DemandMultiplier == 1));
         var k = r.Cases[design];
         var pipes = q.Pipes ?? [];
+        // The case lists every pipe unless output asked for fewer: then the unlisted ones are drawn without a flow.
+        var listedPipes = k.Pipes.ToDictionary(p => p.Id, StringComparer.Ordinal);
+        var listedPumps = k.Pumps.ToDictionary(p => p.Id, StringComparer.Ordinal);
         for (int i = 0; i < pipes.Count; i++)
         {
             var p = pipes[i];
             var (a, b) = (at[p.From!], at[p.To!]);
-            var res = k.Pipes[i];
-            plot.Segment(p.Id!, a.X, a.Y, b.X, b.Y, p.Id + " " + res.Flow.ToString("G3", C), role: "pipe", grey: res.Status != "open");
+            if (listedPipes.TryGetValue(p.Id!, out var res))
+                plot.Segment(p.Id!, a.X, a.Y, b.X, b.Y, p.Id + " " + res.Flow.ToString("G3", C), role: "pipe", grey: res.Status != "open");
+            else
+                plot.Segment(p.Id!, a.X, a.Y, b.X, b.Y, p.Id!, role: "pipe", grey: p.Closed == true);
         }
         var pumps = q.Pumps ?? [];
         for (int i = 0; i < pumps.Count; i++)
         {
             var p = pumps[i];
             var (a, b) = (at[p.From!], at[p.To!]);
-            plot.Segment(p.Id!, a.X, a.Y, b.X, b.Y, p.Id + " (pump)", role: "pump", dashed: true, grey: k.Pumps[i].Status != "open");
+            bool off = listedPumps.TryGetValue(p.Id!, out var pr) ? pr.Status != "open" : (p.SpeedRatio ?? 1) == 0;
+            plot.Segment(p.Id!, a.X, a.Y, b.X, b.Y, p.Id + " (pump)", role: "pump", dashed: true, grey: off);
         }
         foreach (var v in q.Reservoirs ?? []) plot.Square(v.Id!, v.X!.Value, v.Y!.Value, v.Id!);
-        string? lowest = k.Junctions.Count == 0 ? null : k.Junctions.MinBy(j => j.PressureHead)!.Id;
+        string? lowest = k.Summary.LowestPressureHead?.Element;
         foreach (var j in q.Junctions ?? [])
         {
             if (j.Id == lowest) continue;
@@ -211,7 +235,7 @@ public sealed class NetworkSheet : ISheetBuilder
             plot.Marker(v.Id!, v.X!.Value, v.Y!.Value, "", role: "case");
         }
         return new SheetFigure("schematic", plot.Render(), string.Create(C,
-            $"The network drawn from the node coordinates (equal scale); each pipe is labelled with its flow in {r.FlowUnit} in {Tag(design, k)}, positive from its 'from' node to its 'to' node. Squares are reservoirs, dashed lines pumps, grey lines closed links; the junction of lowest pressure head is marked in the accent colour."));
+            $"The network drawn from the node coordinates (equal scale); each pipe is labelled with its flow in {r.FlowUnit} in {Tag(design, k)}, positive from its 'from' node to its 'to' node{(r.Detail == "full" ? "" : " (only the pipes the answer lists carry a flow)")}. Squares are reservoirs, dashed lines pumps, grey lines closed links; the junction of lowest pressure head is marked in the accent colour."));
     }
 
     /// <summary>The three convergence measures per iteration on a log scale for the slowest load case, the head

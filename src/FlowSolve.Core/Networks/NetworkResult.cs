@@ -5,9 +5,11 @@ namespace FlowSolve.Core.Networks;
 
 /// <summary>Tolerances and limits of <see cref="NetworkSolver"/>.</summary>
 /// <param name="HeadTolerance">Converged when every open link's energy imbalance |H_from - H_to - h(Q)| is at most this,
-/// in m (default 1e-10 m)...</param>
+/// in m (default 1e-10 m), or, where that is finer than a double can hold at the link's heads, at most 8 units in the
+/// last place of the heads, head loss and |Q| dh/dQ summed (about 1.8e-14 m at heads of 10 m)...</param>
 /// <param name="FlowTolerance">...and every junction's continuity error |inflow - outflow - demand| is at most this, in
-/// m3/s (default 1e-10 m3/s). The final linear solves are driven to a tenth of it.</param>
+/// m3/s (default 1e-10 m3/s), or 8 units in the last place of |demand| plus the |Q| of its links where that is larger.
+/// The final linear solves are driven to a tenth of it.</param>
 /// <param name="MaxIterations">Cap on Newton iterations over all status passes together (default 100).</param>
 /// <param name="MaxStatusPasses">Cap on passes of the status check (check valves, pumps) after which the statuses must
 /// have settled (default 10).</param>
@@ -170,6 +172,7 @@ public static class NetworkStatusExtensions
         NetworkWarningCode.NegativePressure => "negative-pressure",
         NetworkWarningCode.PumpCannotLift => "pump-cannot-lift",
         NetworkWarningCode.PumpOutsideCurveRange => "pump-outside-curve-range",
+        NetworkWarningCode.TransitionalFlow => "transitional-flow",
         _ => "unknown",
     };
 }
@@ -191,6 +194,12 @@ public enum NetworkWarningCode
 
     /// <summary>A running pump's flow (at rated speed) is beyond its curve's data range (value: rated-speed flow in m3/s).</summary>
     PumpOutsideCurveRange,
+
+    /// <summary>A Darcy-Weisbach pipe's Reynolds number lies in the transition zone, from the laminar to the turbulent
+    /// limit (2000 to 4000 by default), where the friction factor is Churchill's (1977) interpolation, as for a single
+    /// pipe, joined continuously to the neighbouring laws within 5 % of each limit (<see cref="Friction.TransitionalFriction"/>;
+    /// value: the Reynolds number).</summary>
+    TransitionalFlow,
 }
 
 /// <summary>A warning on one element; cheap to hold (no message until <see cref="Describe"/> is called).</summary>
@@ -221,6 +230,10 @@ public readonly record struct NetworkWarning(string ElementId, NetworkWarningCod
             NetworkWarningCode.PumpOutsideCurveRange => string.Format(c,
                 "Pump '{0}': the flow {1:G4} m3/s (at rated speed) lies outside its curve's data range; the head is extrapolated.",
                 ElementId, Value),
+            NetworkWarningCode.TransitionalFlow => string.Format(c,
+                "Pipe '{0}': Reynolds number {1:G6} lies in the transition zone ({2:G4} to {3:G4}), where flow may be laminar or " +
+                "turbulent and no relation is reliable; the friction factor is Churchill's (1977) interpolation, as for a single pipe (joined smoothly to the neighbouring law within 5 % of each limit). Design for the worse case.",
+                ElementId, Value, o.Friction.LaminarLimit, o.Friction.TurbulentLimit),
             _ => ElementId,
         };
         return new CalculationWarning(Code.Code(), message);

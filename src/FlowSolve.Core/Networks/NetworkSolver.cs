@@ -10,13 +10,19 @@ namespace FlowSolve.Core.Networks;
 /// </summary>
 /// <remarks>
 /// <para>Equations. For each open link l from node i to node j, energy: H_i - H_j = h_l(Q_l), with h the Darcy-Weisbach
-/// (exact Colebrook-White, <see cref="PipeHeadLoss.WithDerivative"/>) or Hazen-Williams loss, or minus a pump's head
+/// loss of the single-pipe routes (<see cref="PipeHeadLoss.WithDerivative"/>: 64/Re below Re 2000, exact Colebrook-White
+/// from 4000; in the transition zone Churchill (1977), joined continuously to both within 5 % of each limit by
+/// <see cref="TransitionalFriction"/>, with a <see cref="NetworkWarningCode.TransitionalFlow"/> warning) or
+/// the Hazen-Williams loss, or minus a pump's head
 /// s^2 H(Q/s). For each junction n, continuity: sum of inflows - sum of outflows = demand_n. Linearising the energy
 /// equation at the current flows with g_l = dh/dQ gives Q'_l = y_l + (H'_i - H'_j)/g_l, y_l = Q_l - h_l/g_l; putting
 /// that into continuity leaves the Schur complement A21 D^-1 A12 H' = b in the junction heads alone, a weighted graph
 /// Laplacian (weights 1/g_l) plus the links to reservoirs on its diagonal: sparse, symmetric and positive definite
-/// when every part of the network reaches a reservoir. New flows follow link by link, and meet continuity exactly
-/// (to the linear solve's residual) after every iteration.</para>
+/// when every part of the network reaches a reservoir. It is solved for the head corrections, so that the flows keep
+/// full precision however large the heads; new flows follow link by link, and meet continuity exactly (to the linear
+/// solve's residual) after every iteration. The iteration stops when every imbalance is within its tolerance, or within
+/// what a double resolves at that link's or junction's scale where the tolerance is finer (see
+/// <see cref="NetworkOptions.HeadTolerance"/>).</para>
 /// <para>Quadratic convergence needs the true derivative: for Darcy-Weisbach g includes the friction factor's
 /// dependence on the flow through df/dRe (Simpson and Elhay 2011, J. Hydraul. Eng. 137(6)). Near Q = 0 the laminar law
 /// keeps g positive; Hazen-Williams (whose g vanishes at 0) is replaced below <see cref="NetworkOptions.RegularisationVelocity"/>
@@ -66,13 +72,15 @@ public sealed class NetworkSolver
     private readonly PumpCurve[] _curve;
     private readonly double[] _speed, _pumpSlopeFloor, _reverseCurvature;
     private readonly double[] _stepLimit;     // m3/s: the largest flow change of one Newton step before it is shortened
-    private readonly double[] _turbulentFriction, _turbulentSlope; // Colebrook-White f and df/dRe at the turbulent limit
+    private readonly TransitionalFriction[] _transition; // Darcy pipes: the transition zone's joined relation
     private readonly double[] _baseDemand, _demand, _elevation;
 
     private readonly LinkStatus[] _status;
     private readonly double[] _flow, _headLoss, _slope, _y, _conductance;
     private readonly double[] _head;       // all nodes; reservoirs hold their fixed head
-    private readonly double[] _rhs, _x, _continuity, _residual, _previousHead;
+    private readonly double[] _rhs, _x, _continuity, _residual;
+    private readonly double[] _imbalance;  // per link: H_from - H_to - h(Q) at the current iterate (closed: H_from - H_to)
+    private readonly double[] _nodeScale;  // per junction: |demand| + sum of |Q| of its links, for the continuity floor
     private bool _outOfRange; // an iterate's Reynolds number left the friction relations' range
 
     private readonly SymmetricSparseSolver? _iterative;  // NetworkLinearSolver.ConjugateGradient
@@ -137,11 +145,10 @@ public sealed class NetworkSolver
         _reverseCurvature = new double[_links];
         _stepLimit = new double[_links];
         _status = new LinkStatus[_links];
-        _turbulentFriction = new double[_links];
-        _turbulentSlope = new double[_links];
+        _transition = new TransitionalFriction[_pipes];
+        var joins = new Dictionary<double, TransitionalFriction>();
         var linkIndex = new Dictionary<string, int>(_links, StringComparer.Ordinal);
         double g = Physical.StandardGravity;
-        var turbulentLimit = new Dictionary<double, (double, double)>();
         for (int l = 0; l < _pipes; l++)
         {
             var p = model.Pipes[l];
@@ -163,14 +170,11 @@ public sealed class NetworkSolver
             {
                 _kind[l] = Kind.Darcy;
                 _geometry[l] = new PipeGeometry(p.Length, p.Diameter, p.Roughness, p.MinorLossCoefficient);
-                // Pipes of one size and material share a relative roughness: solve Colebrook-White once for each.
+                // Pipes of one size and material share a relative roughness: prepare the transition zone once for each.
                 double relative = p.Roughness / p.Diameter;
-                if (!turbulentLimit.TryGetValue(relative, out var limit))
-                {
-                    var cw = ColebrookWhite.Solve(_options.Friction.TurbulentLimit, relative);
-                    turbulentLimit[relative] = limit = (cw.FrictionFactor, cw.DerivativeReynolds);
-                }
-                (_turbulentFriction[l], _turbulentSlope[l]) = limit;
+                if (!joins.TryGetValue(relative, out var join))
+                    joins[relative] = join = new TransitionalFriction(relative, _options.Friction);
+                _transition[l] = join;
             }
         }
         for (int k = 0; k < model.Pumps.Count; k++)
@@ -202,6 +206,8 @@ public sealed class NetworkSolver
         _rhs = new double[_junctions];
         _x = new double[_junctions];
         _continuity = new double[_junctions];
+        _imbalance = new double[_links];
+        _nodeScale = new double[_junctions];
 
         var (rowStart, columns) = BuildPattern();
         if (_options.LinearSolver == NetworkLinearSolver.ConjugateGradient)
@@ -209,7 +215,6 @@ public sealed class NetworkSolver
         else
             _direct = new SparseCholesky(rowStart, columns);
         _residual = _direct is null ? [] : new double[_junctions];
-        _previousHead = new double[_junctions];
         (_diagFrom, _diagTo, _offFromTo, _offToFrom) = EntryPositions(rowStart, columns);
         _unsupplied = FindUnsupplied();
         Reset();
@@ -318,11 +323,11 @@ public sealed class NetworkSolver
         {
             _outOfRange = false;
             EvaluateLinks();
-            var (imbalance, continuity) = Measure();
+            var (imbalance, continuity, met) = Measure();
             if (stepped) record.Add(new NetworkIteration(record.Count + 1, pass, maxChange, imbalance, continuity, linear));
             if (_outOfRange) return NetworkStatus.FlowsOutOfRange;
             if (!double.IsFinite(imbalance) || !double.IsFinite(continuity)) return NetworkStatus.LinearSolveFailed;
-            if (imbalance <= o.HeadTolerance && continuity <= o.FlowTolerance) return NetworkStatus.Solved;
+            if (met) return NetworkStatus.Solved;
             if (record.Count >= o.MaxIterations) return NetworkStatus.IterationCapReached;
             // Inexact Newton: the head solve need only be accurate to about the error the quadratic model leaves after the
             // step (of order the last flow change squared); the final steps run at a tenth of the flow tolerance.
@@ -367,11 +372,11 @@ public sealed class NetworkSolver
         }
     }
 
-    /// <summary>Darcy-Weisbach h and dh/dQ: <see cref="PipeHeadLoss.WithDerivative"/> in laminar and turbulent flow; in
-    /// the transition zone a cubic Hermite interpolation in Re of f between the laminar law at the laminar limit and
-    /// Colebrook-White at the turbulent limit, values and slopes matched (the usual treatment in network solvers, after
-    /// Dunlop 1991), so that h(Q) is continuous with a continuous derivative. The single-pipe relations use Churchill
-    /// there, which meets neither end exactly; a Newton iteration on a whole network cycles across such jumps.</summary>
+    /// <summary>Darcy-Weisbach h and dh/dQ: <see cref="PipeHeadLoss.WithDerivative"/>, the single-pipe relations, in
+    /// laminar and turbulent flow; in the transition zone <see cref="TransitionalFriction"/>, which is the single pipe's
+    /// Churchill (1977) except within 5 % of each regime limit, where a cubic joins it to the neighbouring law so that
+    /// h(Q) has no jump for Newton to cycle across. One pipe at the same heads carries the same flow in a network as
+    /// alone, except near the limits, where the single-pipe relation itself has no answer or two.</summary>
     private (double HeadLoss, double Slope) DarcyLoss(int l, double q, double nu, in FrictionOptions friction)
     {
         ref readonly var pipe = ref _geometry[l];
@@ -383,25 +388,15 @@ public sealed class NetworkSolver
             _outOfRange = true;
             return (double.NaN, double.NaN);
         }
-        if (!(re > friction.LaminarLimit && re < friction.TurbulentLimit))
+        if (!(re >= friction.LaminarLimit && re < friction.TurbulentLimit))
             return PipeHeadLoss.WithDerivative(pipe, nu, q, friction);
-        var (f, dfdRe) = TransitionFriction(l, re, friction);
+        var (f, dfdRe) = _transition[l].Evaluate(re);
         double v = aq / _area[l];
         double velocityHead = v * v / (2 * Physical.StandardGravity);
         double lOverD = pipe.Length / pipe.Diameter;
         double h = (f * lOverD + pipe.MinorLossCoefficient) * velocityHead;
         double slope = (2 * h + lOverD * velocityHead * re * dfdRe) / aq;
         return (Math.CopySign(h, q), slope);
-    }
-
-    private (double F, double DfDRe) TransitionFriction(int l, double re, in FrictionOptions friction)
-    {
-        double lo = friction.LaminarLimit, w = friction.TurbulentLimit - lo, t = (re - lo) / w;
-        double fL = 64 / lo, dL = -64 / (lo * lo) * w, fT = _turbulentFriction[l], dT = _turbulentSlope[l] * w;
-        double t2 = t * t, t3 = t2 * t;
-        double f = (2 * t3 - 3 * t2 + 1) * fL + (t3 - 2 * t2 + t) * dL + (-2 * t3 + 3 * t2) * fT + (t3 - t2) * dT;
-        double df = (6 * t2 - 6 * t) * fL + (3 * t2 - 4 * t + 1) * dL + (-6 * t2 + 6 * t) * fT + (3 * t2 - 2 * t) * dT;
-        return (f, df / w);
     }
 
     /// <summary>Hazen-Williams h = r |Q|^0.852 Q + m |Q| Q, regularised below the regularisation velocity by
@@ -424,22 +419,41 @@ public sealed class NetworkSolver
         return (a * q + b * q * q * q, a + 3 * b * q * q);
     }
 
-    /// <summary>Largest energy imbalance over the open links and largest continuity error over the junctions.</summary>
-    private (double Imbalance, double Continuity) Measure()
+    /// <summary>What a double resolves, relative to the size of the numbers: 8 units in the last place (2^-52 each).
+    /// A head of 10 m is held to 1.8e-15 m, so a link whose head loss is smaller than that, or a junction whose flows
+    /// are so large that 1e-10 m3/s is below their rounding, can meet the absolute tolerances only by chance.</summary>
+    private const double Resolution = 8 * 2.220446049250313e-16;
+
+    /// <summary>Largest energy imbalance over the open links and largest continuity error over the junctions, and whether
+    /// every one is within its tolerance. Each link's imbalance is kept for the next step.</summary>
+    /// <remarks>The stopping rule: a link's imbalance |H_from - H_to - h(Q)| must be at most the head tolerance or, when
+    /// that is finer than the arithmetic can hold, <see cref="Resolution"/> times (|H_from| + |H_to| + |h| + |Q| dh/dQ);
+    /// a junction's continuity error at most the flow tolerance or <see cref="Resolution"/> times (|demand| + the sum of
+    /// |Q| over its links). Ordinary networks never reach the second bounds (they are 1e-13 m and 1e-15 m3/s at heads
+    /// of 100 m and flows of 1 m3/s); without them a network with a very short or very wide pipe iterates to the cap.</remarks>
+    private (double Imbalance, double Continuity, bool Met) Measure()
     {
+        var o = _options;
+        bool met = true;
         double imbalance = 0;
         var c = _continuity;
-        for (int j = 0; j < _junctions; j++) c[j] = -_demand[j];
+        var scale = _nodeScale;
+        for (int j = 0; j < _junctions; j++) { c[j] = -_demand[j]; scale[j] = Math.Abs(_demand[j]); }
         for (int l = 0; l < _links; l++)
         {
             int f = _from[l], t = _to[l];
-            double q = _flow[l];
-            if (f < _junctions) c[f] -= q;
-            if (t < _junctions) c[t] += q;
+            double q = _flow[l], aq = Math.Abs(q);
+            if (f < _junctions) { c[f] -= q; scale[f] += aq; }
+            if (t < _junctions) { c[t] += q; scale[t] += aq; }
+            double hf = _head[f], ht = _head[t];
+            double e = hf - ht - _headLoss[l];
+            _imbalance[l] = e;
             if (_status[l] == LinkStatus.Open)
             {
-                double e = Math.Abs(_head[f] - _head[t] - _headLoss[l]);
-                if (!(e <= imbalance)) imbalance = e; // NaN propagates
+                double a = Math.Abs(e);
+                if (!(a <= imbalance)) imbalance = a; // NaN propagates
+                double floor = Resolution * (Math.Abs(hf) + Math.Abs(ht) + Math.Abs(_headLoss[l]) + aq * _slope[l]);
+                if (!(a <= Math.Max(o.HeadTolerance, floor))) met = false;
             }
         }
         double continuity = 0;
@@ -447,66 +461,62 @@ public sealed class NetworkSolver
         {
             double e = Math.Abs(c[j]);
             if (!(e <= continuity)) continuity = e;
+            if (!(e <= Math.Max(o.FlowTolerance, Resolution * scale[j]))) met = false;
         }
-        return (imbalance, continuity);
+        return (imbalance, continuity, met);
     }
 
     /// <summary>One Newton step: assemble and solve the head equations, then update every flow.</summary>
+    /// <remarks>The step is solved for the head corrections dH rather than the new heads: A dH = R + A21 C E, with R each
+    /// junction's continuity error and E each link's energy imbalance (both from <see cref="Measure"/>), and the flows
+    /// follow as Q' = Q + c (E + dH_from - dH_to). Algebraically this is the same Newton step as solving for the heads,
+    /// but the numbers it works with shrink as it converges, so the flows keep their full precision: solving for heads of
+    /// 10 m holds them to 1.8e-15 m, and a pipe of conductance c = 1/(dh/dQ) = 2.5e5 m2/s (1 m wide, 1 m long, laminar)
+    /// would turn that rounding into 4e-10 m3/s of flow, above the tolerance at every iteration.</remarks>
     private bool Step(double linearTolerance, out double maxChange, out int linearIterations)
     {
         maxChange = 0;
         linearIterations = 0;
         var values = _direct is null ? _iterative!.Values : _direct.Values;
         values.Clear();
-        for (int j = 0; j < _junctions; j++) _rhs[j] = -_demand[j];
+        for (int j = 0; j < _junctions; j++) _rhs[j] = _continuity[j];
         for (int l = 0; l < _links; l++)
         {
-            double c, y;
-            if (_status[l] == LinkStatus.Open)
-            {
-                c = 1.0 / _slope[l];
-                y = _flow[l] - _headLoss[l] * c;
-            }
-            else
-            {
-                c = ClosedConductance;
-                y = 0;
-            }
+            // A closed link keeps a vanishing conductance (its imbalance is the head across it), so that a junction it
+            // isolates still has a defined head; its flow stays exactly zero.
+            double c = _status[l] == LinkStatus.Open ? 1.0 / _slope[l] : ClosedConductance;
             _conductance[l] = c;
-            _y[l] = y;
+            double ce = c * _imbalance[l];
             int f = _from[l], t = _to[l];
             bool fj = f < _junctions, tj = t < _junctions;
-            if (fj) { _rhs[f] -= y; values[_diagFrom[l]] += c; if (!tj) _rhs[f] += c * _head[t]; }
-            if (tj) { _rhs[t] += y; values[_diagTo[l]] += c; if (!fj) _rhs[t] += c * _head[f]; }
+            if (fj) { _rhs[f] -= ce; values[_diagFrom[l]] += c; }
+            if (tj) { _rhs[t] += ce; values[_diagTo[l]] += c; }
             if (fj && tj) { values[_offFromTo[l]] -= c; values[_offToFrom[l]] -= c; }
         }
         if (_direct is null)
         {
             if (!_iterative!.Factorise()) return false;
-            _head.AsSpan(0, _junctions).CopyTo(_x);
+            Array.Clear(_x);
             var (iterations, residual) = _iterative.Solve(_rhs, _x, linearTolerance, _options.MaxLinearIterations);
             linearIterations = iterations;
             if (!double.IsFinite(residual)) return false;
         }
         else if (!SolveDirect(linearTolerance, out linearIterations)) return false;
-        _head.AsSpan(0, _junctions).CopyTo(_previousHead);
-        _x.AsSpan().CopyTo(_head.AsSpan(0, _junctions));
         // The Newton flows into _y, and the step length: a step that would move a link's flow by more than its limit is
         // shortened, flows and heads alike, so that no iterate runs away (a pump near shut-off, whose slope is floored,
         // can ask for enormous flows). Continuity then holds to the shortened fraction; full steps restore it.
         double scale = 1;
         for (int l = 0; l < _links; l++)
         {
-            double q = _status[l] == LinkStatus.Open ? _y[l] + _conductance[l] * (_head[_from[l]] - _head[_to[l]]) : 0.0;
+            int f = _from[l], t = _to[l];
+            double df = f < _junctions ? _x[f] : 0.0, dt = t < _junctions ? _x[t] : 0.0;
+            double q = _status[l] == LinkStatus.Open ? _flow[l] + _conductance[l] * (_imbalance[l] + (df - dt)) : 0.0;
             _y[l] = q;
             double change = Math.Abs(q - _flow[l]), limit = Math.Max(_stepLimit[l], 2 * Math.Abs(_flow[l]));
             if (change > limit && limit < scale * change) scale = limit / change;
         }
         if (!double.IsFinite(scale)) return false;
-        if (scale < 1)
-        {
-            for (int j = 0; j < _junctions; j++) _head[j] = _previousHead[j] + scale * (_head[j] - _previousHead[j]);
-        }
+        for (int j = 0; j < _junctions; j++) _head[j] += scale * _x[j];
         for (int l = 0; l < _links; l++)
         {
             double q = scale < 1 ? _flow[l] + scale * (_y[l] - _flow[l]) : _y[l];
@@ -609,8 +619,11 @@ public sealed class NetworkSolver
                 double re = Math.Abs(q) * _geometry[l].Diameter / (_area[l] * nu);
                 if (_kind[l] == Kind.Darcy && !(re <= DarcyFriction.MaximumReynolds))
                     f = double.NaN; // FlowsOutOfRange: no friction factor exists there
-                else if (_kind[l] == Kind.Darcy && re > o.Friction.LaminarLimit && re < o.Friction.TurbulentLimit)
-                    f = TransitionFriction(l, re, o.Friction).F;
+                else if (_kind[l] == Kind.Darcy && re >= o.Friction.LaminarLimit && re < o.Friction.TurbulentLimit)
+                {
+                    f = _transition[l].Evaluate(re).F;
+                    warnings.Add(new NetworkWarning(id, NetworkWarningCode.TransitionalFlow, re));
+                }
                 else if (_kind[l] == Kind.Darcy)
                     f = PipeHeadLoss.Evaluate(_geometry[l], nu, Math.Abs(q), o.Friction).FrictionFactor;
                 else

@@ -592,7 +592,7 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
     public async Task Solve_SampleWarnings_HaveStableCodesAndNameTheirElements()
     {
         var r = await Post(Sample());
-        var codes = new HashSet<string> { "velocity-below-design-range", "velocity-above-design-range", "negative-pressure", "pump-cannot-lift", "pump-outside-curve-range", "not-converged" };
+        var codes = new HashSet<string> { "velocity-below-design-range", "velocity-above-design-range", "negative-pressure", "pump-cannot-lift", "pump-outside-curve-range", "transitional-flow", "not-converged" };
         var ids = Sample()["pipes"]!.AsArray().Select(p => p!["id"]!.GetValue<string>()).ToHashSet();
         foreach (var c in r.Body.GetProperty("cases").EnumerateArray())
             foreach (var w in c.GetProperty("warnings").EnumerateArray())
@@ -605,6 +605,13 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
                     Assert.Contains(id, ids);
                     var pipe = c.GetProperty("pipes").EnumerateArray().Single(p => p.GetProperty("id").GetString() == id);
                     Assert.True(Math.Abs(pipe.GetProperty("velocity").GetDouble()) < 0.6);
+                }
+                // A transitional-flow warning is about a pipe whose reported Reynolds number lies in 2000 to 4000.
+                if (w.GetProperty("code").GetString() == "transitional-flow")
+                {
+                    string id = w.GetProperty("element").GetString()!;
+                    var pipe = c.GetProperty("pipes").EnumerateArray().Single(p => p.GetProperty("id").GetString() == id);
+                    Assert.InRange(pipe.GetProperty("reynolds").GetDouble(), 2000, 4000);
                 }
             }
     }

@@ -65,14 +65,11 @@ internal static class NetworkChecks
         double h;
         if (p.HazenWilliamsC is double c)
             h = HazenWilliams.HeadLoss(geometry, new FluidProperties(nu), Math.Abs(flow), c).HeadLoss;
-        else if (re > 2000 && re < 4000)
+        else if (re >= 2000 && re < 4000)
         {
-            // The network's documented transition-zone rule: f interpolated by a cubic Hermite in Re between the laminar
-            // law 64/Re at 2000 and Colebrook-White at 4000, values and slopes matched (after Dunlop 1991).
-            var cw = ColebrookWhite.Solve(4000, p.Roughness / p.Diameter);
-            double t = (re - 2000) / 2000;
-            double f = (2 * t * t * t - 3 * t * t + 1) * (64.0 / 2000) + (t * t * t - 2 * t * t + t) * 2000 * (-64.0 / (2000.0 * 2000))
-                + (-2 * t * t * t + 3 * t * t) * cw.FrictionFactor + (t * t * t - t * t) * 2000 * cw.DerivativeReynolds;
+            // The network's transition zone: Churchill (1977), joined to 64/Re and Colebrook-White by a cubic within 5 %
+            // of each limit (TransitionalFriction, itself checked against Churchill and Brent in NetworkEdgeCaseTests).
+            double f = new TransitionalFriction(p.Roughness / p.Diameter, FrictionOptions.Default).Evaluate(re).F;
             h = (f * p.Length / p.Diameter + p.MinorLossCoefficient) * v * v / (2 * Physical.StandardGravity);
         }
         else

@@ -60,6 +60,10 @@ echo "engine $engine $($engine --version | grep -o '[0-9][0-9.]*' | head -n 1), 
 stage=""
 work="$(mktemp -d /var/tmp/flowsolve-image.XXXXXX)"
 trap 'rm -rf "$work"' EXIT
+trap 'exit 130' INT TERM
+# The engine's own temporary files (an interrupted podman build leaves its buildah* folder) go with ours.
+mkdir -p "$work/tmp"
+export TMPDIR="$work/tmp"
 
 # add PATH...: copies host files into $stage at their canonical location (a symlinked directory such as /lib64 ->
 # usr/lib64 resolved), symlinks kept as symlinks and followed, so that the target of every link comes too.

@@ -34,12 +34,13 @@ pass() { echo "ok:   $*"; }
 now_ms() { date +%s%3N; }
 
 cleanup() {
+  if [ -n "${build_pid:-}" ]; then kill -TERM "$build_pid" 2>/dev/null; wait "$build_pid" 2>/dev/null; fi
+  if [ -n "${upload_pid:-}" ]; then kill "$upload_pid" 2>/dev/null; fi
   podman rm -f "$id" >/dev/null 2>&1 || true
   local img
   for img in "$image" $(podman images --format '{{.Repository}}:{{.Tag}}' 2>/dev/null | grep -- "-$id\$"); do
     podman rmi -f "$img" >/dev/null 2>&1 || true
   done
-  [ -n "${upload_pid:-}" ] && kill "$upload_pid" 2>/dev/null
   rm -rf "$work"
 }
 trap cleanup EXIT
@@ -57,9 +58,15 @@ fi
 
 # --- build -----------------------------------------------------------------------------------------------------------
 build_started=$(now_ms)
-if ! timeout 1800 bash deploy/build-image.sh "$image" >"$work/build.log" 2>&1; then
+# In the background, so that a TERM from CI's own time limit reaches the trap at once; timeout passes it on to the
+# whole build (its process group).
+timeout 1800 bash deploy/build-image.sh "$image" >"$work/build.log" 2>&1 &
+build_pid=$!
+if ! wait "$build_pid"; then
+  build_pid=""
   cat "$work/build.log"; echo "container smoke: the image did not build"; exit 1
 fi
+build_pid=""
 build_ms=$(( $(now_ms) - build_started ))
 grep -E '^(engine|assembled|built|image|runtime stage|  /)' "$work/build.log"
 pass "built $image in $((build_ms / 1000)) s without pulling (--pull=never)"

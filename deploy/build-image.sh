@@ -65,10 +65,12 @@ trap 'exit 130' INT TERM
 mkdir -p "$work/tmp"
 export TMPDIR="$work/tmp"
 
-# add PATH...: copies host files into $stage at their canonical location (a symlinked directory such as /lib64 ->
-# usr/lib64 resolved), symlinks kept as symlinks and followed, so that the target of every link comes too.
+# add PATH...: queues host files for $stage at their canonical location (a symlinked directory such as /lib64 ->
+# usr/lib64 resolved), symlinks kept as symlinks and followed, so that the target of every link comes too; flush
+# copies the queue, one cp per folder (a per-file copy costs minutes on a busy machine).
 # A missing path fails, unless lenient=1 (a package's file list names files a slimmed system may have dropped).
 lenient=0
+declare -A canonical=() queued=() batch=()
 add() {
   local src dir dest target
   for src in "$@"; do
@@ -77,17 +79,28 @@ add() {
       echo "missing on this machine: $src" >&2; return 1
     fi
     [ -d "$src" ] && [ ! -L "$src" ] && continue   # directories come with their files
-    dir="$(readlink -f "$(dirname "$src")")"
-    dest="$stage$dir/$(basename "$src")"
-    if [ -e "$dest" ] || [ -L "$dest" ]; then continue; fi
-    mkdir -p "$stage$dir"
-    cp -a "$src" "$dest"
+    dir="${src%/*}"; dir="${dir:-/}"
+    [ -n "${canonical[$dir]:-}" ] || canonical[$dir]="$(readlink -f "$dir")"
+    dir="${canonical[$dir]}"
+    dest="$dir/${src##*/}"
+    [ -z "${queued[$dest]:-}" ] || continue
+    queued[$dest]=1
+    batch[$dir]+="$src"$'\n'
     if [ -L "$src" ]; then
       target="$(readlink "$src")"
       case "$target" in /*) ;; *) target="$dir/$target" ;; esac
       add "$target"
     fi
   done
+}
+flush() {
+  local dir sources
+  for dir in "${!batch[@]}"; do
+    mkdir -p "$stage$dir"
+    mapfile -t sources < <(printf '%s' "${batch[$dir]}")
+    cp -a "${sources[@]}" "$stage$dir/"
+  done
+  canonical=(); queued=(); batch=()
 }
 
 # new_stage NAME: an empty root with the host's merged-/usr links (bin -> usr/bin ...), /tmp, and /etc/passwd, /etc/group.
@@ -162,7 +175,8 @@ else
     lenient=1 add "${files[@]}"
   done
   add /bin/sh /etc/ssl/certs/ca-certificates.crt
-  [ -e /usr/lib/ssl/openssl.cnf ] && add /usr/lib/ssl/openssl.cnf /usr/lib/ssl/cert.pem
+  if [ -e /usr/lib/ssl/openssl.cnf ]; then add /usr/lib/ssl/openssl.cnf /usr/lib/ssl/cert.pem; fi
+  flush
   mkdir -p "$stage/usr/share/dotnet"
   for part in dotnet host shared packs sdk-manifests LICENSE.txt ThirdPartyNotices.txt; do
     [ -e "$dotnet_root/$part" ] && cp -a "$dotnet_root/$part" "$stage/usr/share/dotnet/"
@@ -203,6 +217,7 @@ else
   done
   mapfile -t libs < <(shared_libraries "${elves[@]}" "${openssl[@]}" | grep -v "^$dn/")
   add "${libs[@]}" "${openssl[@]}"
+  flush
   import "$runtime_image" "$path_env" "ENV APP_UID=1654" "ENV ASPNETCORE_HTTP_PORTS=8080" \
     "ENV DOTNET_RUNNING_IN_CONTAINER=true" "ENV DOTNET_SYSTEM_GLOBALIZATION_INVARIANT=true" \
     "ENV DOTNET_VERSION=$runtime_version" "ENV ASPNET_VERSION=$runtime_version" "WORKDIR /"

@@ -14,6 +14,7 @@
 #
 # Usage: bash deploy/build-image.sh TAG
 #   Installs podman and runc from Debian (apt-get, as root) when neither podman nor buildah is present.
+#   FLOWSOLVE_ENGINE=buildah builds with buildah even when podman is present (installing it when missing).
 #   FLOWSOLVE_BASE_TAG  suffix of the base images' tags (default "local"); existing base images with the same tag are
 #                       reused, so a second build only rebuilds the application.
 #   FLOWSOLVE_IMAGE_FILES  if set, the runtime image's file list (size, path) is written to this file.
@@ -34,8 +35,9 @@ apt_install() {
 }
 if ! command -v podman >/dev/null && ! command -v buildah >/dev/null; then apt_install podman runc; fi
 command -v runc >/dev/null || apt_install runc
-engine=podman
+engine="${FLOWSOLVE_ENGINE:-podman}"
 command -v podman >/dev/null || engine=buildah
+command -v "$engine" >/dev/null || apt_install "$engine"
 export CONTAINERS_CONF="${CONTAINERS_CONF:-$root/deploy/containers-ci.conf}"
 image_exists() { if [ "$engine" = podman ]; then podman image exists "$1"; else buildah inspect --type image "$1" >/dev/null 2>&1; fi; }
 
@@ -239,12 +241,13 @@ echo "built $tag from the recipe in $((SECONDS - t)) s"
 # --- what was built --------------------------------------------------------------------------------------------------
 if [ "$engine" = podman ]; then
   size="$(podman image inspect --format '{{.Size}}' "$tag")"
+  size_text="$(awk -v b="$size" 'BEGIN { printf "%.1f MB (%d bytes)", b / 1e6, b }')"
   ctr="$(podman create "$tag")"
   podman export "$ctr" >"$work/rootfs.tar"
   podman rm "$ctr" >/dev/null
 else
-  size="$(buildah inspect --type image --format '{{.Size}}' "$tag" 2>/dev/null || echo 0)"
-  ctr="$(buildah from --pull-never "$tag")"
+  size_text="$(buildah images --format '{{.Size}}' "$tag" | head -n 1)"
+  ctr="$(buildah from --pull=never "$tag")"
   mnt="$(buildah mount "$ctr")"
   tar -C "$mnt" -cf "$work/rootfs.tar" .
   buildah umount "$ctr" >/dev/null; buildah rm "$ctr" >/dev/null
@@ -252,7 +255,7 @@ fi
 tar -tvf "$work/rootfs.tar" | awk '{ name = $6; for (i = 7; i <= NF; i++) name = name " " $i; print $3 "\t" name }' \
   | sed -E 's:\t(\./|/)?:\t/:' | sort -t"$(printf '\t')" -k2 >"$work/files.txt"
 [ -n "${FLOWSOLVE_IMAGE_FILES:-}" ] && cp "$work/files.txt" "$FLOWSOLVE_IMAGE_FILES"
-echo "image $tag: $(awk -v b="$size" 'BEGIN { printf "%.1f MB (%d bytes)", b / 1e6, b }'), built in $((SECONDS - started)) s"
+echo "image $tag: $size_text, built in $((SECONDS - started)) s"
 echo "runtime stage: $(grep -c . "$work/files.txt") entries; bytes by top-level folder:"
 awk -F'\t' '{ sub(/ -> .*/, "", $2); split($2, p, "/"); top = "/" p[2]; if (p[3] != "" && (p[2] == "usr" || p[2] == "etc")) top = top "/" p[3]; s[top] += $1; n[top]++ }
   END { for (t in s) printf "  %-28s %6d files %10.1f MB\n", t, n[t], s[t] / 1e6 }' "$work/files.txt" | sort

@@ -7,7 +7,9 @@ namespace FlowSolve.Api.Tests.Deploy;
 
 /// <summary>
 /// Checks that deploy/Dockerfile and the manifests in deploy/kubernetes agree with each other and with the service:
-/// one port everywhere, probes on paths the service answers, selectors that select the pods, a hardened pod.
+/// one port everywhere, probes on paths the service answers, selectors that select the pods, a hardened pod; and that
+/// the offline image build (deploy/build-image.sh), the container smoke test (deploy/container-smoke.sh) and
+/// docs/container.md agree with them. The image itself is built and run by the smoke test in CI.
 /// </summary>
 public sealed class ManifestTests(ApiFixture api)
 {
@@ -79,6 +81,10 @@ public sealed class ManifestTests(ApiFixture api)
         var line = Assert.Single(RuntimeStage(), l => l.StartsWith($"ENV {key}=", StringComparison.Ordinal));
         return line[$"ENV {key}=".Length..].Trim().Trim('"');
     }
+
+    private static string DeployFile(string name) => File.ReadAllText(Path.Combine(Root, "deploy", name));
+
+    private static int Int(string text) => int.Parse(text, System.Globalization.CultureInfo.InvariantCulture);
 
     /// <summary>The port of a Kestrel address such as <c>http://+:8080</c>, parsed as Kestrel parses it.</summary>
     private static int UrlPort(string url) => BindingAddress.Parse(url).Port;
@@ -221,6 +227,76 @@ public sealed class ManifestTests(ApiFixture api)
         var listed = Seq(Manifest("kustomization.yaml"), "resources").Children.Cast<YamlScalarNode>().Select(s => s.Value!).Order();
         var files = Directory.GetFiles(KubernetesDir, "*.yaml").Select(Path.GetFileName).Where(f => f != "kustomization.yaml").Order();
         Assert.Equal(files, listed);
+    }
+
+    [Fact]
+    public void Dockerfile_BaseImagesAreBuildArguments_DefaultingToTheOfficialImagesOfTheTargetFramework()
+    {
+        var lines = File.ReadAllLines(Path.Combine(Root, "deploy", "Dockerfile"));
+        int firstFrom = Array.FindIndex(lines, l => l.StartsWith("FROM ", StringComparison.Ordinal));
+        var args = lines[..firstFrom].Where(l => l.StartsWith("ARG ", StringComparison.Ordinal))
+            .Select(l => l["ARG ".Length..].Split('=', 2)).ToDictionary(a => a[0], a => a[1]);
+        var froms = lines.Where(l => l.StartsWith("FROM ", StringComparison.Ordinal)).ToArray();
+        Assert.Equal(2, froms.Length);
+        Assert.Matches(@"^FROM (--platform=\$BUILDPLATFORM )?\$\{SDK_IMAGE\} AS build$", froms[0]);
+        Assert.Matches(@"^FROM \$\{RUNTIME_IMAGE\} AS runtime$", froms[1]);
+
+        // The production defaults: the official images of the .NET version the projects target.
+        string target = Regex.Match(File.ReadAllText(Path.Combine(Root, "Directory.Build.props")), @"<TargetFramework>net(\d+\.\d+)</TargetFramework>").Groups[1].Value;
+        Assert.NotEmpty(target);
+        Assert.Equal($"mcr.microsoft.com/dotnet/sdk:{target}", args["SDK_IMAGE"]);
+        Assert.StartsWith($"mcr.microsoft.com/dotnet/aspnet:{target}-", args["RUNTIME_IMAGE"]);
+    }
+
+    [Fact]
+    public void LocalRuntimeBase_DefinesTheUserTheDeploymentRunsAs()
+    {
+        // The Dockerfile's USER $APP_UID takes the number from the runtime base image: the official images set 1654;
+        // deploy/build-image.sh's own runtime base must set the same, with that user in /etc/passwd and /etc/group.
+        string script = DeployFile("build-image.sh");
+        var pod = Map(Map(Map(Map(Deployment, "spec"), "template"), "spec"), "securityContext");
+        string uid = Scalar(pod, "runAsUser"), gid = Scalar(pod, "runAsGroup");
+        Assert.Equal(uid, Regex.Match(script, @"""ENV APP_UID=(\d+)""").Groups[1].Value);
+        Assert.Matches($@"app:x:{uid}:{gid}:", script);
+        Assert.Matches($@"app:x:{gid}:", script);
+        Assert.Single(RuntimeStage(), l => l.Trim() == "USER $APP_UID");
+    }
+
+    [Fact]
+    public void SmokeTestGracePeriod_EqualsTheDeploymentsTerminationGracePeriod()
+    {
+        var podSpec = Map(Map(Map(Deployment, "spec"), "template"), "spec");
+        var grace = Regex.Match(DeployFile("container-smoke.sh"), @"^grace=(\d+)$", RegexOptions.Multiline);
+        Assert.True(grace.Success, "container-smoke.sh sets no grace period");
+        Assert.Equal(Int(Scalar(podSpec, "terminationGracePeriodSeconds")), Int(grace.Groups[1].Value));
+    }
+
+    [Fact]
+    public void ContainerDoc_RunLineIsTheSmokeTestsOwn()
+    {
+        // The smoke test's run=(...) array, without the words it fills in at run time (names, key, grace period).
+        string script = DeployFile("container-smoke.sh");
+        var array = Regex.Match(script, @"^run=\((podman run .*?)\)$", RegexOptions.Multiline | RegexOptions.Singleline);
+        Assert.True(array.Success, "container-smoke.sh has no run=(podman run ...) array");
+        var smoke = array.Groups[1].Value.Split((char[])[' ', '\n'], StringSplitOptions.RemoveEmptyEntries).ToArray();
+        var fixedWords = smoke.Where(w => !w.Contains('$')).ToArray();
+
+        // The documented podman command: the first code line that starts with "podman run", with its continuations.
+        var doc = File.ReadAllLines(Path.Combine(Root, "docs", "container.md"));
+        int start = Array.FindIndex(doc, l => l.StartsWith("podman run ", StringComparison.Ordinal));
+        Assert.True(start >= 0, "docs/container.md shows no podman run command");
+        var command = new List<string>();
+        for (int i = start; i < doc.Length; i++)
+        {
+            command.Add(doc[i].TrimEnd('\\', ' '));
+            if (!doc[i].TrimEnd().EndsWith('\\')) break;
+        }
+        var documented = string.Join(' ', command).Split(' ', StringSplitOptions.RemoveEmptyEntries);
+
+        foreach (string word in fixedWords) Assert.Contains(word, documented);
+        // Every option in the documented line is one the smoke test passes, and the other way round.
+        Assert.Equal(smoke.Where(w => w.StartsWith('-')).Select(w => w.Split('=')[0]).Order(),
+            documented.Where(w => w.StartsWith('-')).Select(w => w.Split('=')[0]).Order());
     }
 
     /// <summary>A selector selects a pod when every one of its labels is on the pod with the same value.</summary>

@@ -116,7 +116,7 @@ public sealed class CommittedDocumentClientTests(ApiFixture api)
         double f = Convert.ToDouble(response.GetType().GetProperty("FrictionFactor")!.GetValue(response), System.Globalization.CultureInfo.InvariantCulture);
 
         // Reference: F. M. White, Fluid Mechanics, Moody-type table at e/D = 0.005: Re 75 000 -> f = 0.0316 (three
-        // significant figures, so half a unit in the third figure), the same check as deploy/publish-smoke.sh.
+        // significant figures, so half a unit in the third figure), the same check as deploy/container-smoke.sh.
         Assert.Equal(0.0316, f, 0.00005);
     }
 }

@@ -26,7 +26,7 @@ Heading("Water at 12 C (IAPWS-IF97, IAPWS 2008)");
 Console.WriteLine($"  density {water.Density:F3} kg/m3, kinematic viscosity {water.KinematicViscosity:0.0000E+00} m2/s, " +
                   $"vapour pressure {water.VapourPressure:F0} Pa");
 
-// --- the pumping main: intake wet well (42.0 m) to Orlecrag reservoir (TWL 118.5 m) ----------------------------------
+// --- the pumping main: intake wet well (42.0 m) to Orvex reservoir (TWL 118.5 m) ----------------------------------
 const double mainFlow = 0.12, lift = 118.5 - 42.0;
 double k = MinorLossTable.Sum([
     new FittingCount("elbow-90-flanged-long-radius", 8), new FittingCount("gate-valve-open", 2),
@@ -56,7 +56,7 @@ if (duty.Converged)
 }
 Report(duty.Converged, duty.Iterations, duty.Status.Code(), duty.DescribeWarnings());
 
-// --- the gravity line: Orlecrag (TWL 118.5 m) to Skelvane village tank (TWL 96.0 m), 4800 m of PE --------------------
+// --- the gravity line: Orvex (TWL 118.5 m) to Tazmerin village tank (TWL 96.0 m), 4800 m of PE --------------------
 const double villageFlow = 0.045, levels = 118.5 - 96.0, gravityLength = 4800;
 double pe = RoughnessTable.Roughness("drawn-plastic-tubing");
 var size = PipeDiameter.SelectSize("iso-4427-pe-sdr-11", gravityLength, pe, 0, fluid, villageFlow, levels);
@@ -77,11 +77,11 @@ else
     Report(false, size.Minimum.Iterations, size.Status.Code(), size.Minimum.DescribeWarnings());
 }
 
-// --- the Harnoway lined canal and the Pegwhistle Lane culvert, 1.8 m3/s -----------------------------------------------
+// --- the Brevix lined canal and the Pegwhistle Lane culvert, 1.8 m3/s -----------------------------------------------
 const double canalFlow = 1.8;
 var canal = new TrapezoidalSection(bottomWidth: 1.2, sideSlope: 1.5);
 var canalDepth = ManningSolver.NormalDepth(canal, canalFlow, slope: 0.0005, manningN: 0.015);
-Heading("Harnoway canal: trapezoid 1.2 m, 1.5 : 1, n 0.015, S 0.0005");
+Heading("Brevix canal: trapezoid 1.2 m, 1.5 : 1, n 0.015, S 0.0005");
 Console.WriteLine($"  normal depth {canalDepth.NormalDepth:F3} m, V {canalDepth.Velocity:F3} m/s, Fr {canalDepth.FroudeNumber:F3} " +
                   $"({canalDepth.Regime.ToString().ToLowerInvariant()}), critical depth {canalDepth.CriticalDepth:F3} m");
 Report(canalDepth.Converged, canalDepth.Iterations, canalDepth.Status.Code(), ChannelWarnings(canalDepth.Warnings));
@@ -99,8 +99,8 @@ Report(culvert.Converged, culvert.Iterations, culvert.Status.Code(), ChannelWarn
 // --- a caller's own Newton iteration with the head loss and its derivative ------------------------------------------
 // A network tool that embeds FlowSolve runs its own Newton iteration; PipeHeadLoss.WithDerivative gives each pipe's
 // loss with dh/dQ including the friction factor's own dependence on flow (Simpson and Elhay 2011, J. Hydraul. Eng.
-// 137(6): dropping that term slows convergence to linear). Here: the flow the 22.5 m fall between Orlecrag and
-// Skelvane drives through the gravity line, solved by plain Newton on h(Q) - 22.5 = 0 with the exact derivative.
+// 137(6): dropping that term slows convergence to linear). Here: the flow the 22.5 m fall between Orvex and
+// Tazmerin drives through the gravity line, solved by plain Newton on h(Q) - 22.5 = 0 with the exact derivative.
 {
     var line = new PipeGeometry(Length: 4800, Diameter: 0.2292, Roughness: 1.5e-6, MinorLossCoefficient: 6.0);
     const double fall = 118.5 - 96.0;

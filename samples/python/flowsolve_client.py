@@ -143,9 +143,9 @@ MAIN_FITTINGS = [
     {"name": "exit", "count": 1},
 ]
 MAIN = {"diameter": 0.35, "length": 2350, "material": "commercial-steel", "temperature": TEMPERATURE}
-LIFT = 76.5  # Orlecrag reservoir top water level 118.5 m less the intake wet well's 42.0 m
+LIFT = 76.5  # Orvex reservoir top water level 118.5 m less the intake wet well's 42.0 m
 GRAVITY = {"length": 4800, "material": "drawn-plastic-tubing", "temperature": TEMPERATURE}
-LEVELS = 118.5 - 96.0  # Orlecrag reservoir to Skelvane village tank, both at top water level
+LEVELS = 118.5 - 96.0  # Orvex reservoir to Tazmerin village tank, both at top water level
 CANAL = {"section": {"shape": "trapezoidal", "bottomWidth": 1.2, "sideSlope": 1.5}, "manningN": 0.015, "flow": 1.8}
 CULVERT = {"section": {"shape": "circular", "diameter": 1.5}, "manningN": 0.013, "slope": 0.002, "flow": 1.8}
 STUDY = Path(__file__).resolve().parent.parent / "scenario" / "pipe-sizing-study.csv"

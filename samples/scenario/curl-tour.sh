@@ -37,7 +37,7 @@ cell "density, kg/m3" "/v1/fluids/water?temperature=12&format=text&select=densit
 cell "kinematic viscosity, m2/s" "/v1/fluids/water?temperature=12&format=text&select=kinematicViscosity"
 
 echo
-echo "== Pumping main: intake to Orlecrag reservoir, 2350 m of 350 mm steel, 0.12 m3/s"
+echo "== Pumping main: intake to Orvex reservoir, 2350 m of 350 mm steel, 0.12 m3/s"
 main="flow=0.12&diameter=0.35&length=2350&material=commercial-steel&temperature=12&elevationChange=76.5"
 main="$main&fittings=elbow-90-flanged-long-radius:8,gate-valve-open:2,swing-check-valve-forward:1,exit:1"
 cell "friction factor (Re 353569, e/D 1.314e-4)" "/v1/friction-factor?reynolds=353569&relativeRoughness=0.0001314&format=text"
@@ -54,14 +54,14 @@ request "the same as a JSON body (full answer, first 300 bytes)" -X POST "$base/
        {"name": "gate-valve-open", "count": 2}, {"name": "swing-check-valve-forward", "count": 1}, {"name": "exit", "count": 1}]}'
 
 echo
-echo "== Gravity line: Orlecrag reservoir (TWL 118.5 m) to Skelvane village tank (TWL 96.0 m), 4800 m of PE"
+echo "== Gravity line: Orvex reservoir (TWL 118.5 m) to Tazmerin village tank (TWL 96.0 m), 4800 m of PE"
 gravity="headLoss=22.5&length=4800&material=drawn-plastic-tubing&temperature=12"
 cell "minimum bore for 0.045 m3/s, m" "/v1/pipes/diameter?flow=0.045&$gravity&sizeTable=iso-4427-pe-sdr-11&format=text"
 cell "smallest ISO 4427 SDR 11 size" "/v1/pipes/diameter?flow=0.045&$gravity&sizeTable=iso-4427-pe-sdr-11&format=text&select=selectedSize.name"
 cell "flow through DN 280 (bore 229.2 mm), m3/s" "/v1/pipes/flow?diameter=0.2292&$gravity&format=text"
 
 echo
-echo "== Harnoway lined canal and Pegwhistle Lane culvert, 1.8 m3/s"
+echo "== Brevix lined canal and Pegwhistle Lane culvert, 1.8 m3/s"
 canal="shape=trapezoidal&bottomWidth=1.2&sideSlope=1.5&manningN=0.015&flow=1.8"
 cell "canal normal depth, m" "/v1/channels/normal-depth?$canal&slope=0.0005&format=text"
 cell "canal Froude number" "/v1/channels/normal-depth?$canal&slope=0.0005&format=text&select=froudeNumber"
@@ -84,7 +84,7 @@ request "duty point" -X POST "$base/v1/pumps/duty-point" -H 'Content-Type: appli
 request "pump and system curves" -X POST "$base/v1/pumps/curves" -H 'Content-Type: application/json' -d "$pump"
 
 echo
-echo "== Nettlewick village network: fed from Orlecrag reservoir, three loops, a booster pump and two check valves"
+echo "== Quellix village network: fed from Orvex reservoir, three loops, a booster pump and two check valves"
 echo "   (load cases: night 0.4, average day 1.0 and peak hour 1.8 times the demands)"
 request "network solve (JSON answer, first 300 bytes)" -X POST "$base/v1/networks/solve" \
   -H 'Content-Type: application/json' --data-binary "@$here/vandrel-network.json"

@@ -303,9 +303,9 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
         { """{"op": "length", "index": 5}""", "pipes[5].length", "p5", "greater than 0" },
         { """{"op": "diameter", "index": 6}""", "pipes[6].diameter", "p6", "greater than 0" },
         { """{"op": "no-roughness", "index": 7}""", "pipes[7].roughness", "p7", "required" },
-        { """{"op": "pump-unknown-node", "index": 0}""", "pumps[0].from", "tarrowhin-booster", "unknown node" },
-        { """{"op": "pump-curve", "index": 0}""", "pumps[0].curve.coefficients[0]", "tarrowhin-booster", "shut-off head" },
-        { """{"op": "pump-speed", "index": 0}""", "pumps[0].speedRatio", "tarrowhin-booster", "at most 1.5" },
+        { """{"op": "pump-unknown-node", "index": 0}""", "pumps[0].from", "zemmit-booster", "unknown node" },
+        { """{"op": "pump-curve", "index": 0}""", "pumps[0].curve.coefficients[0]", "zemmit-booster", "shut-off head" },
+        { """{"op": "pump-speed", "index": 0}""", "pumps[0].speedRatio", "zemmit-booster", "at most 1.5" },
         { """{"op": "elevation", "index": 2}""", "junctions[2].elevation", "brook-end", "required" },
     };
 

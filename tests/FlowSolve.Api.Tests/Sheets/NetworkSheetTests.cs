@@ -37,7 +37,7 @@ public sealed class NetworkSheetTests(ApiFixture api)
         for (int c = 1; c <= cases; c++)
             foreach (var t in new[] { "pipes", "junctions", "pumps", "reservoirs", "convergence" })
                 Assert.NotNull(page.Document.GetElementById($"table-{t}-{c}"));
-        Assert.Contains("Nettlewick village network", page.Document.QuerySelector("h1")!.TextContent);
+        Assert.Contains("Quellix village network", page.Document.QuerySelector("h1")!.TextContent);
         string method = page.Document.GetElementById("method")!.TextContent;
         Assert.Contains("Todini", method);
         Assert.Contains("Colebrook", method);

@@ -1,4 +1,4 @@
-// FlowSolve.Core embedded in-process: the Fernbrook Vale water scheme solved without a service.
+// FlowSolve.Core embedded in-process: the Vandrel Vale water scheme solved without a service.
 // The scheme and all its data are invented for the demo (no real place, firm or person). Every result is an
 // engineering estimate to be checked by a qualified engineer; local codes, standards and licensed practice govern.
 //
@@ -15,7 +15,7 @@ using FlowSolve.Core.Pumps;
 CultureInfo.CurrentCulture = CultureInfo.InvariantCulture;
 int failures = 0;
 
-Console.WriteLine("Fernbrook Vale water scheme (invented for the demo), solved in-process with FlowSolve.Core");
+Console.WriteLine("Vandrel Vale water scheme (invented for the demo), solved in-process with FlowSolve.Core");
 Console.WriteLine("Engineering estimates: to be checked by a qualified engineer; local codes govern.");
 
 // --- the fluid: river water at 12 degrees C --------------------------------------------------------------------------
@@ -26,7 +26,7 @@ Heading("Water at 12 C (IAPWS-IF97, IAPWS 2008)");
 Console.WriteLine($"  density {water.Density:F3} kg/m3, kinematic viscosity {water.KinematicViscosity:0.0000E+00} m2/s, " +
                   $"vapour pressure {water.VapourPressure:F0} Pa");
 
-// --- the pumping main: intake wet well (42.0 m) to Quarrytop reservoir (TWL 118.5 m) ----------------------------------
+// --- the pumping main: intake wet well (42.0 m) to Orvex reservoir (TWL 118.5 m) ----------------------------------
 const double mainFlow = 0.12, lift = 118.5 - 42.0;
 double k = MinorLossTable.Sum([
     new FittingCount("elbow-90-flanged-long-radius", 8), new FittingCount("gate-valve-open", 2),
@@ -56,7 +56,7 @@ if (duty.Converged)
 }
 Report(duty.Converged, duty.Iterations, duty.Status.Code(), duty.DescribeWarnings());
 
-// --- the gravity line: Quarrytop (TWL 118.5 m) to Wrenfold village tank (TWL 96.0 m), 4800 m of PE --------------------
+// --- the gravity line: Orvex (TWL 118.5 m) to Tazmerin village tank (TWL 96.0 m), 4800 m of PE --------------------
 const double villageFlow = 0.045, levels = 118.5 - 96.0, gravityLength = 4800;
 double pe = RoughnessTable.Roughness("drawn-plastic-tubing");
 var size = PipeDiameter.SelectSize("iso-4427-pe-sdr-11", gravityLength, pe, 0, fluid, villageFlow, levels);
@@ -77,11 +77,11 @@ else
     Report(false, size.Minimum.Iterations, size.Status.Code(), size.Minimum.DescribeWarnings());
 }
 
-// --- the Brackenlea lined canal and the Tinker's Lane culvert, 1.8 m3/s -----------------------------------------------
+// --- the Brevix lined canal and the Pegwhistle Lane culvert, 1.8 m3/s -----------------------------------------------
 const double canalFlow = 1.8;
 var canal = new TrapezoidalSection(bottomWidth: 1.2, sideSlope: 1.5);
 var canalDepth = ManningSolver.NormalDepth(canal, canalFlow, slope: 0.0005, manningN: 0.015);
-Heading("Brackenlea canal: trapezoid 1.2 m, 1.5 : 1, n 0.015, S 0.0005");
+Heading("Brevix canal: trapezoid 1.2 m, 1.5 : 1, n 0.015, S 0.0005");
 Console.WriteLine($"  normal depth {canalDepth.NormalDepth:F3} m, V {canalDepth.Velocity:F3} m/s, Fr {canalDepth.FroudeNumber:F3} " +
                   $"({canalDepth.Regime.ToString().ToLowerInvariant()}), critical depth {canalDepth.CriticalDepth:F3} m");
 Report(canalDepth.Converged, canalDepth.Iterations, canalDepth.Status.Code(), ChannelWarnings(canalDepth.Warnings));
@@ -91,7 +91,7 @@ Console.WriteLine($"  critical depth on its own: {critical.CriticalDepth:F3} m, 
 Report(critical.Converged, critical.Iterations, critical.Status.Code(), ChannelWarnings(critical.Warnings));
 
 var culvert = ManningSolver.NormalDepth(new CircularSection(1.5), canalFlow, slope: 0.002, manningN: 0.013);
-Heading("Tinker's Lane culvert: 1.5 m pipe, n 0.013, S 0.002, part full");
+Heading("Pegwhistle Lane culvert: 1.5 m pipe, n 0.013, S 0.002, part full");
 Console.WriteLine($"  normal depth {culvert.NormalDepth:F3} m ({culvert.NormalDepth / 1.5:P1} of the diameter), " +
                   $"V {culvert.Velocity:F3} m/s, Fr {culvert.FroudeNumber:F3}; full-pipe flow {culvert.Capacity?.FullFlow:F3} m3/s");
 Report(culvert.Converged, culvert.Iterations, culvert.Status.Code(), ChannelWarnings(culvert.Warnings));
@@ -99,8 +99,8 @@ Report(culvert.Converged, culvert.Iterations, culvert.Status.Code(), ChannelWarn
 // --- a caller's own Newton iteration with the head loss and its derivative ------------------------------------------
 // A network tool that embeds FlowSolve runs its own Newton iteration; PipeHeadLoss.WithDerivative gives each pipe's
 // loss with dh/dQ including the friction factor's own dependence on flow (Simpson and Elhay 2011, J. Hydraul. Eng.
-// 137(6): dropping that term slows convergence to linear). Here: the flow the 22.5 m fall between Quarrytop and
-// Wrenfold drives through the gravity line, solved by plain Newton on h(Q) - 22.5 = 0 with the exact derivative.
+// 137(6): dropping that term slows convergence to linear). Here: the flow the 22.5 m fall between Orvex and
+// Tazmerin drives through the gravity line, solved by plain Newton on h(Q) - 22.5 = 0 with the exact derivative.
 {
     var line = new PipeGeometry(Length: 4800, Diameter: 0.2292, Roughness: 1.5e-6, MinorLossCoefficient: 6.0);
     const double fall = 118.5 - 96.0;

@@ -1,15 +1,14 @@
 #!/usr/bin/env python3
-"""A FlowSolve client on Python's standard library alone (urllib, json, csv), and the Fernbrook Vale demo.
+"""A FlowSolve client on Python's standard library alone (urllib, json, csv), and the Vandrel Vale demo.
 
-The Fernbrook Vale water scheme and all its data are invented for the demo: no real place, firm or person.
+The Vandrel Vale water scheme and all its data are invented for the demo: no real place, firm or person.
 Every FlowSolve result is an engineering estimate to be checked by a qualified engineer; local codes, standards and
 licensed practice govern.
 
 Usage:
     FLOWSOLVE_URL=http://localhost:5080 python3 samples/python/flowsolve_client.py
 
-Exits 0 when every call of the scenario answered as expected, 1 otherwise. The pump calls are skipped with a note
-while the service answers them 404 (the pump endpoints are being added).
+Exits 0 when every call of the scenario answered as expected, 1 otherwise.
 """
 
 from __future__ import annotations
@@ -135,7 +134,7 @@ def _wire(value: Any) -> str:
     return str(value)
 
 
-# --- the Fernbrook Vale scenario (invented for the demo) ---------------------------------------------------------------
+# --- the Vandrel Vale scenario (invented for the demo) ---------------------------------------------------------------
 TEMPERATURE = 12.0  # river water at the intake, degrees C
 MAIN_FITTINGS = [
     {"name": "elbow-90-flanged-long-radius", "count": 8},
@@ -144,13 +143,13 @@ MAIN_FITTINGS = [
     {"name": "exit", "count": 1},
 ]
 MAIN = {"diameter": 0.35, "length": 2350, "material": "commercial-steel", "temperature": TEMPERATURE}
-LIFT = 76.5  # Quarrytop reservoir top water level 118.5 m less the intake wet well's 42.0 m
+LIFT = 76.5  # Orvex reservoir top water level 118.5 m less the intake wet well's 42.0 m
 GRAVITY = {"length": 4800, "material": "drawn-plastic-tubing", "temperature": TEMPERATURE}
-LEVELS = 118.5 - 96.0  # Quarrytop reservoir to Wrenfold village tank, both at top water level
+LEVELS = 118.5 - 96.0  # Orvex reservoir to Tazmerin village tank, both at top water level
 CANAL = {"section": {"shape": "trapezoidal", "bottomWidth": 1.2, "sideSlope": 1.5}, "manningN": 0.015, "flow": 1.8}
 CULVERT = {"section": {"shape": "circular", "diameter": 1.5}, "manningN": 0.013, "slope": 0.002, "flow": 1.8}
 STUDY = Path(__file__).resolve().parent.parent / "scenario" / "pipe-sizing-study.csv"
-NETWORK = Path(__file__).resolve().parent.parent / "scenario" / "fernbrook-network.json"
+NETWORK = Path(__file__).resolve().parent.parent / "scenario" / "vandrel-network.json"
 
 
 def _warnings(result: dict[str, Any]) -> str:
@@ -174,7 +173,7 @@ def run_scenario(client: FlowSolveClient, out=sys.stdout) -> list[str]:
             check(label, False, str(e))
             return None
 
-    print(f"FlowSolve at {client.base_url}: the Fernbrook Vale water scheme (invented for the demo)", file=out)
+    print(f"FlowSolve at {client.base_url}: the Vandrel Vale water scheme (invented for the demo)", file=out)
 
     water = step("water", lambda: client.water(TEMPERATURE))
     if water:
@@ -243,12 +242,7 @@ def run_scenario(client: FlowSolveClient, out=sys.stdout) -> list[str]:
         duty = client.duty_point(**pump)
         check("duty point", duty.get("converged") is True and duty.get("flow") is not None,
               f"{duty.get('flow')} m3/s at {duty.get('head')} m ({duty.get('flowPerPump')} m3/s per pump)")
-    except FlowSolveError as e:
-        if e.status == 404:
-            print("note  duty point: /v1/pumps/duty-point answered 404: no pump endpoints on this service yet; skipped", file=out)
-        else:
-            check("duty point", False, str(e))
-    except (urllib.error.URLError, OSError) as e:
+    except (FlowSolveError, urllib.error.URLError, OSError) as e:
         check("duty point", False, str(e))
 
     network = json.loads(NETWORK.read_text(encoding="utf-8"))

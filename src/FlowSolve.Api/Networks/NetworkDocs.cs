@@ -50,49 +50,49 @@ public static class NetworkDocs
         "sheet with a schematic drawn from the coordinates. Steady state only: water hammer and surge are out of scope.\n\n" +
         OpenApiSetup.Cautions;
 
-    /// <summary>The Fernbrook Vale demo network (invented data, no real place; samples/scenario/fernbrook-network.json holds
-    /// the same document, and a test keeps the two equal): Millbeck village, fed from Quarrytop reservoir by a trunk main,
-    /// three loops, a back-feed from the Wrenfold tank through a check valve, and a booster pump to the Hollins Rise zone.</summary>
+    /// <summary>The Vandrel Vale demo network (invented data, no real place; samples/scenario/vandrel-network.json holds
+    /// the same document, and a test keeps the two equal): Quellix village, fed from Orvex reservoir by a trunk main,
+    /// three loops, a back-feed from the Tazmerin tank through a check valve, and a booster pump to the Zemmit Rise zone.</summary>
     public static NetworkSolveRequest Example { get; } = new(
         Junctions:
         [
             new("trunk-end", 74, 0, 600, 600),
-            new("mill-lane", 70, 0.004, 1000, 600),
+            new("dovrix-lane", 70, 0.004, 1000, 600),
             new("brook-end", 66, 0.005, 1400, 600),
             new("green", 69, 0.006, 600, 200),
-            new("church-row", 67, 0.005, 1000, 200),
-            new("ferry-row", 64, 0.004, 1400, 200),
+            new("tazzle-row", 67, 0.005, 1000, 200),
+            new("ombrix-row", 64, 0.004, 1400, 200),
             new("school", 71, 0.003, 600, -200),
             new("booster-out", 71, 0, 300, -200),
-            new("hollins-rise", 104, 0.003, 0, -200),
-            new("hollins-top", 110, 0.002, 0, -500),
+            new("zemmit-rise", 104, 0.003, 0, -200),
+            new("zemmit-top", 110, 0.002, 0, -500),
         ],
         Reservoirs:
         [
-            new("quarrytop", 118.5, 0, 600),
-            new("wrenfold-tank", 96.0, 1800, 200),
+            new("orvex", 118.5, 0, 600),
+            new("tazmerin-tank", 96.0, 1800, 200),
         ],
         Pipes:
         [
-            new("trunk", "quarrytop", "trunk-end", 1800, 0.25, Roughness: 0.0001, MinorLossCoefficient: 2),
-            new("p1", "trunk-end", "mill-lane", 400, 0.2, Roughness: 0.0001),
-            new("p2", "mill-lane", "brook-end", 400, 0.15, Roughness: 0.0001),
+            new("trunk", "orvex", "trunk-end", 1800, 0.25, Roughness: 0.0001, MinorLossCoefficient: 2),
+            new("p1", "trunk-end", "dovrix-lane", 400, 0.2, Roughness: 0.0001),
+            new("p2", "dovrix-lane", "brook-end", 400, 0.15, Roughness: 0.0001),
             new("p3", "trunk-end", "green", 400, 0.2, Roughness: 0.0001),
-            new("p4", "mill-lane", "church-row", 400, 0.1, HazenWilliamsC: 100),
-            new("p5", "brook-end", "ferry-row", 400, 0.1, HazenWilliamsC: 100),
-            new("p6", "green", "church-row", 400, 0.15, Roughness: 0.0001),
-            new("p7", "church-row", "ferry-row", 400, 0.1, Roughness: 0.0001),
+            new("p4", "dovrix-lane", "tazzle-row", 400, 0.1, HazenWilliamsC: 100),
+            new("p5", "brook-end", "ombrix-row", 400, 0.1, HazenWilliamsC: 100),
+            new("p6", "green", "tazzle-row", 400, 0.15, Roughness: 0.0001),
+            new("p7", "tazzle-row", "ombrix-row", 400, 0.1, Roughness: 0.0001),
             new("p8", "green", "school", 400, 0.15, Roughness: 0.0001),
-            new("p9", "school", "church-row", 560, 0.1, Roughness: 0.0001),
-            new("rise-main", "booster-out", "hollins-rise", 300, 0.1, Roughness: 0.00001, MinorLossCoefficient: 3, CheckValve: true),
-            new("hollins-spur", "hollins-rise", "hollins-top", 300, 0.08, Roughness: 0.00001),
-            new("tank-feed", "wrenfold-tank", "ferry-row", 900, 0.15, Roughness: 0.0001, MinorLossCoefficient: 3, CheckValve: true),
+            new("p9", "school", "tazzle-row", 560, 0.1, Roughness: 0.0001),
+            new("rise-main", "booster-out", "zemmit-rise", 300, 0.1, Roughness: 0.00001, MinorLossCoefficient: 3, CheckValve: true),
+            new("zemmit-spur", "zemmit-rise", "zemmit-top", 300, 0.08, Roughness: 0.00001),
+            new("tank-feed", "tazmerin-tank", "ombrix-row", 900, 0.15, Roughness: 0.0001, MinorLossCoefficient: 3, CheckValve: true),
         ],
         Pumps:
         [
-            new("hollins-booster", "school", "booster-out", new PumpInput(Coefficients: [48, 0, -300000], MaximumFlow: 0.01)),
+            new("zemmit-booster", "school", "booster-out", new PumpInput(Coefficients: [48, 0, -300000], MaximumFlow: 0.01)),
         ],
         DemandMultipliers: [0.4, 1.0, 1.8],
         Temperature: 12,
-        Title: "Millbeck village network, Fernbrook Vale (invented for the demo: no real place, firm or person)");
+        Title: "Quellix village network, Vandrel Vale (invented for the demo: no real place, firm or person)");
 }

@@ -21,7 +21,7 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
     private const double G = 9.80665;          // standard gravity, m/s2 (3rd CGPM, 1901)
     private const double Water = 1.004e-6;     // m2/s, water at 20 degrees C (from memory)
 
-    private static string SamplePath => Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "fernbrook-network.json");
+    private static string SamplePath => Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "vandrel-network.json");
 
     private static JsonObject Sample() => JsonNode.Parse(File.ReadAllText(SamplePath))!.AsObject();
 
@@ -107,7 +107,7 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
     }
 
     [Fact]
-    public async Task Solve_FernbrookSample_ContinuityAtEveryJunctionAndEnergyOnEveryLinkAndLoop()
+    public async Task Solve_VandrelSample_ContinuityAtEveryJunctionAndEnergyOnEveryLinkAndLoop()
     {
         var request = Sample();
         var r = await Post(request);
@@ -303,9 +303,9 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
         { """{"op": "length", "index": 5}""", "pipes[5].length", "p5", "greater than 0" },
         { """{"op": "diameter", "index": 6}""", "pipes[6].diameter", "p6", "greater than 0" },
         { """{"op": "no-roughness", "index": 7}""", "pipes[7].roughness", "p7", "required" },
-        { """{"op": "pump-unknown-node", "index": 0}""", "pumps[0].from", "hollins-booster", "unknown node" },
-        { """{"op": "pump-curve", "index": 0}""", "pumps[0].curve.coefficients[0]", "hollins-booster", "shut-off head" },
-        { """{"op": "pump-speed", "index": 0}""", "pumps[0].speedRatio", "hollins-booster", "at most 1.5" },
+        { """{"op": "pump-unknown-node", "index": 0}""", "pumps[0].from", "zemmit-booster", "unknown node" },
+        { """{"op": "pump-curve", "index": 0}""", "pumps[0].curve.coefficients[0]", "zemmit-booster", "shut-off head" },
+        { """{"op": "pump-speed", "index": 0}""", "pumps[0].speedRatio", "zemmit-booster", "at most 1.5" },
         { """{"op": "elevation", "index": 2}""", "junctions[2].elevation", "brook-end", "required" },
     };
 
@@ -582,7 +582,7 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
     {
         // The committed sample and the documented example are one document (property: equal JSON trees).
         var example = JsonSerializer.SerializeToNode(NetworkDocs.Example, JsonSetup.Options);
-        Assert.True(JsonNode.DeepEquals(example, Sample()), "samples/scenario/fernbrook-network.json differs from NetworkDocs.Example");
+        Assert.True(JsonNode.DeepEquals(example, Sample()), "samples/scenario/vandrel-network.json differs from NetworkDocs.Example");
         var doc = JsonNode.Parse(await api.Client.GetStringAsync("/openapi/v1.json", TestContext.Current.CancellationToken))!;
         var documented = doc["paths"]![Route]!["post"]!["requestBody"]!["content"]!["application/json"]!["example"];
         Assert.True(JsonNode.DeepEquals(documented, Sample()));

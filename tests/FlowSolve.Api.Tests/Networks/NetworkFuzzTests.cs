@@ -8,7 +8,7 @@ namespace FlowSolve.Api.Tests.Networks;
 
 /// <summary>
 /// The generic fuzz test (Reliability/) replaces top-level fields; this one reaches into the network document: random
-/// elements of the Fernbrook sample get hostile numbers, ids and ends, and every answer must still be a 2xx with finite
+/// elements of the Vandrel sample get hostile numbers, ids and ends, and every answer must still be a 2xx with finite
 /// numbers and bounded iterations, or a problem that names the field (never a 5xx).
 /// </summary>
 public sealed class NetworkFuzzTests(ApiFixture api)
@@ -26,7 +26,7 @@ public sealed class NetworkFuzzTests(ApiFixture api)
     [Fact]
     public async Task Solve_HostileElementValues_NeverBreakTheService()
     {
-        string sample = File.ReadAllText(Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "fernbrook-network.json"));
+        string sample = File.ReadAllText(Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "vandrel-network.json"));
         var gen = Gen.Select(Gen.Int[0, Numbers.Length - 1], Gen.Int[0, 12], Gen.OneOf(Gen.OneOf(Hostile), Gen.Double), Gen.Int[0, 5])
             .Select((which, index, value, twist) =>
             {

@@ -14,7 +14,7 @@ public sealed class NetworkSheetTests(ApiFixture api)
     private const string Route = "/v1/networks/solve";
 
     private static JsonObject Sample() => JsonNode.Parse(File.ReadAllText(
-        Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "fernbrook-network.json")))!.AsObject();
+        Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "vandrel-network.json")))!.AsObject();
 
     private async Task<(SheetPage Page, JsonElement Json)> Both(JsonObject body)
     {
@@ -37,7 +37,7 @@ public sealed class NetworkSheetTests(ApiFixture api)
         for (int c = 1; c <= cases; c++)
             foreach (var t in new[] { "pipes", "junctions", "pumps", "reservoirs", "convergence" })
                 Assert.NotNull(page.Document.GetElementById($"table-{t}-{c}"));
-        Assert.Contains("Millbeck village network", page.Document.QuerySelector("h1")!.TextContent);
+        Assert.Contains("Quellix village network", page.Document.QuerySelector("h1")!.TextContent);
         string method = page.Document.GetElementById("method")!.TextContent;
         Assert.Contains("Todini", method);
         Assert.Contains("Colebrook", method);

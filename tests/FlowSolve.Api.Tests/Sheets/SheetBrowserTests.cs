@@ -60,8 +60,8 @@ public sealed class SheetBrowserTests
 
             if (url.StartsWith("/v1/networks/", StringComparison.Ordinal))
             {
-                // A network is POST only: the navigation itself carries the Fernbrook sample as its body.
-                string body = File.ReadAllText(Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "fernbrook-network.json"));
+                // A network is POST only: the navigation itself carries the Vandrel sample as its body.
+                string body = File.ReadAllText(Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "vandrel-network.json"));
                 await page.RouteAsync("**/v1/networks/**", route => route.ContinueAsync(new RouteContinueOptions
                 {
                     Method = "POST",

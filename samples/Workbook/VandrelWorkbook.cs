@@ -5,16 +5,16 @@ using ClosedXML.Excel;
 namespace FlowSolve.Samples.Workbook;
 
 /// <summary>
-/// The Fernbrook Vale demo workbook: a sheet of inputs (invented for the demo) and result cells that ask a FlowSolve
+/// The Vandrel Vale demo workbook: a sheet of inputs (invented for the demo) and result cells that ask a FlowSolve
 /// service for each value with <c>=VALUE(WEBSERVICE(url built from the input cells))</c> and <c>format=text</c>.
 /// </summary>
-public static class FernbrookWorkbook
+public static class VandrelWorkbook
 {
     /// <summary>Where the service runs by default.</summary>
     public const string DefaultServiceUrl = "http://localhost:5080";
 
     /// <summary>The sheet's name.</summary>
-    public const string SheetName = "Fernbrook Vale";
+    public const string SheetName = "Vandrel Vale";
 
     /// <summary>The cell holding the service's base URL; every formula starts from it.</summary>
     public const string ServiceCell = "B8";
@@ -33,24 +33,24 @@ public static class FernbrookWorkbook
         new("temperature", "Water temperature (river water at the intake)", 12.0, "degrees C"),
         new("mainFlow", "Pumping main: design flow", 0.12, "m3/s"),
         new("mainDiameter", "Pumping main: inside diameter", 0.35, "m", "welded steel"),
-        new("mainLength", "Pumping main: length, intake to Quarrytop reservoir", 2350.0, "m"),
+        new("mainLength", "Pumping main: length, intake to Orvex reservoir", 2350.0, "m"),
         new("mainMaterial", "Pumping main: material", "commercial-steel", "", "a name from /v1/pipes/materials"),
         new("mainFittings", "Pumping main: fittings", "elbow-90-flanged-long-radius:8,gate-valve-open:2,swing-check-valve-forward:1,exit:1", "",
             "name:count, names from /v1/pipes/fittings"),
         new("lift", "Static lift: reservoir TWL 118.5 m less wet well 42.0 m", 76.5, "m"),
-        new("villageFlow", "Gravity line: Wrenfold village demand", 0.045, "m3/s"),
-        new("gravityLength", "Gravity line: length, Quarrytop to Wrenfold tank", 4800.0, "m"),
+        new("villageFlow", "Gravity line: Tazmerin village demand", 0.045, "m3/s"),
+        new("gravityLength", "Gravity line: length, Orvex to Tazmerin tank", 4800.0, "m"),
         new("levels", "Gravity line: head between tank levels (118.5 - 96.0)", 22.5, "m"),
         new("gravityMaterial", "Gravity line: material", "drawn-plastic-tubing", "", "PE"),
         new("sizeTable", "Gravity line: size table", "iso-4427-pe-sdr-11", "", "a name from /v1/pipes/sizes"),
-        new("canalFlow", "Brackenlea canal: design flow", 1.8, "m3/s"),
-        new("canalWidth", "Brackenlea canal: bottom width", 1.2, "m", "concrete-lined trapezoid"),
-        new("canalSideSlope", "Brackenlea canal: side slope", 1.5, "horizontal per vertical"),
-        new("canalN", "Brackenlea canal: Manning n", 0.015, "s/m^(1/3)"),
-        new("canalSlope", "Brackenlea canal: bed slope", 0.0005, "m/m"),
-        new("culvertDiameter", "Tinker's Lane culvert: diameter", 1.5, "m", "concrete pipe, part full"),
-        new("culvertN", "Tinker's Lane culvert: Manning n", 0.013, "s/m^(1/3)"),
-        new("culvertSlope", "Tinker's Lane culvert: slope", 0.002, "m/m"),
+        new("canalFlow", "Brevix canal: design flow", 1.8, "m3/s"),
+        new("canalWidth", "Brevix canal: bottom width", 1.2, "m", "concrete-lined trapezoid"),
+        new("canalSideSlope", "Brevix canal: side slope", 1.5, "horizontal per vertical"),
+        new("canalN", "Brevix canal: Manning n", 0.015, "s/m^(1/3)"),
+        new("canalSlope", "Brevix canal: bed slope", 0.0005, "m/m"),
+        new("culvertDiameter", "Pegwhistle Lane culvert: diameter", 1.5, "m", "concrete pipe, part full"),
+        new("culvertN", "Pegwhistle Lane culvert: Manning n", 0.013, "s/m^(1/3)"),
+        new("culvertSlope", "Pegwhistle Lane culvert: slope", 0.002, "m/m"),
     ];
 
     private static readonly (string, string)[] Main =
@@ -94,11 +94,11 @@ public static class FernbrookWorkbook
         new("gravityFlow", "Gravity line: what that bore carries between the levels", "/v1/pipes/flow",
             [("headLoss", "levels"), ("diameter", "sizeBore"), ("length", "gravityLength"), ("material", "gravityMaterial"),
              ("temperature", "temperature")], null, "m3/s"),
-        new("canalDepth", "Brackenlea canal: normal depth", "/v1/channels/normal-depth", [.. Canal, ("slope", "canalSlope")], null, "m"),
-        new("canalFroude", "Brackenlea canal: Froude number", "/v1/channels/normal-depth", [.. Canal, ("slope", "canalSlope")], "froudeNumber", "-"),
-        new("canalCritical", "Brackenlea canal: critical depth", "/v1/channels/critical-depth", Canal, null, "m"),
-        new("culvertDepth", "Tinker's Lane culvert: normal depth", "/v1/channels/normal-depth", Culvert, null, "m"),
-        new("culvertFull", "Tinker's Lane culvert: full-pipe flow", "/v1/channels/normal-depth", Culvert, "capacity.fullFlow", "m3/s"),
+        new("canalDepth", "Brevix canal: normal depth", "/v1/channels/normal-depth", [.. Canal, ("slope", "canalSlope")], null, "m"),
+        new("canalFroude", "Brevix canal: Froude number", "/v1/channels/normal-depth", [.. Canal, ("slope", "canalSlope")], "froudeNumber", "-"),
+        new("canalCritical", "Brevix canal: critical depth", "/v1/channels/critical-depth", Canal, null, "m"),
+        new("culvertDepth", "Pegwhistle Lane culvert: normal depth", "/v1/channels/normal-depth", Culvert, null, "m"),
+        new("culvertFull", "Pegwhistle Lane culvert: full-pipe flow", "/v1/channels/normal-depth", Culvert, "capacity.fullFlow", "m3/s"),
     ];
 
     /// <summary>First row of the inputs table.</summary>
@@ -146,7 +146,7 @@ public static class FernbrookWorkbook
     {
         var workbook = new XLWorkbook();
         var sheet = workbook.Worksheets.Add(SheetName);
-        sheet.Cell("A1").Value = "Fernbrook Vale water scheme: hydraulic estimates from FlowSolve";
+        sheet.Cell("A1").Value = "Vandrel Vale water scheme: hydraulic estimates from FlowSolve";
         sheet.Cell("A1").Style.Font.SetBold().Font.SetFontSize(14);
         string[] notes =
         [

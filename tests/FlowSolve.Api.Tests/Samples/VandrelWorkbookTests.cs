@@ -11,7 +11,7 @@ namespace FlowSolve.Api.Tests.Samples;
 /// spreadsheet application would (strings joined with &amp;, numbers as up to 15 significant digits, ENCODEURL) and its
 /// URL sent to a real FlowSolve process; the cells must answer, and agree with the same question asked as JSON.
 /// </summary>
-public sealed class FernbrookWorkbookTests(LiveService service) : IClassFixture<LiveService>
+public sealed class VandrelWorkbookTests(LiveService service) : IClassFixture<LiveService>
 {
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
@@ -84,11 +84,11 @@ public sealed class FernbrookWorkbookTests(LiveService service) : IClassFixture<
 
     private async Task<(Evaluator Evaluator, IXLWorksheet Sheet, XLWorkbook Book)> SavedWorkbook()
     {
-        string path = Path.Combine(Path.GetTempPath(), $"fernbrook-vale-{Guid.NewGuid():N}.xlsx");
-        using (var built = FernbrookWorkbook.Build(service.BaseUrl)) built.SaveAs(path);
+        string path = Path.Combine(Path.GetTempPath(), $"vandrel-vale-{Guid.NewGuid():N}.xlsx");
+        using (var built = VandrelWorkbook.Build(service.BaseUrl)) built.SaveAs(path);
         var book = new XLWorkbook(path);
         File.Delete(path);
-        var sheet = book.Worksheet(FernbrookWorkbook.SheetName);
+        var sheet = book.Worksheet(VandrelWorkbook.SheetName);
         return (new Evaluator(sheet, service.Client), sheet, await Task.FromResult(book));
     }
 
@@ -97,10 +97,10 @@ public sealed class FernbrookWorkbookTests(LiveService service) : IClassFixture<
     {
         var (evaluator, sheet, book) = await SavedWorkbook();
         using var _ = book;
-        Assert.Equal(service.BaseUrl, sheet.Cell(FernbrookWorkbook.ServiceCell).GetString());
-        foreach (var result in FernbrookWorkbook.Results)
+        Assert.Equal(service.BaseUrl, sheet.Cell(VandrelWorkbook.ServiceCell).GetString());
+        foreach (var result in VandrelWorkbook.Results)
         {
-            var cell = sheet.Cell(FernbrookWorkbook.Address(result.Name));
+            var cell = sheet.Cell(VandrelWorkbook.Address(result.Name));
             Assert.True(cell.HasFormula, $"{result.Name} has no formula");
             Assert.Contains("_xlfn.WEBSERVICE(", cell.FormulaA1);
             Assert.Contains("format=text", cell.FormulaA1);
@@ -119,7 +119,7 @@ public sealed class FernbrookWorkbookTests(LiveService service) : IClassFixture<
     {
         var (evaluator, _, book) = await SavedWorkbook();
         using var __ = book;
-        async Task<double> Cell(string name) => double.Parse(await evaluator.Text(FernbrookWorkbook.Address(name)), C);
+        async Task<double> Cell(string name) => double.Parse(await evaluator.Text(VandrelWorkbook.Address(name)), C);
         async Task<JsonElement> Post(string path, object body)
         {
             using var response = await service.Client.PostAsJsonAsync(service.BaseUrl + path, body);
@@ -150,7 +150,7 @@ public sealed class FernbrookWorkbookTests(LiveService service) : IClassFixture<
             flow = 0.045, headLoss = 22.5, length = 4800, material = "drawn-plastic-tubing", sizeTable = "iso-4427-pe-sdr-11", temperature = 12,
         });
         Assert.Equal(size.GetProperty("diameter").GetDouble(), await Cell("minimumBore"), 1e-12);
-        Assert.Equal(size.GetProperty("selectedSize").GetProperty("name").GetString(), await evaluator.Text(FernbrookWorkbook.Address("sizeName")));
+        Assert.Equal(size.GetProperty("selectedSize").GetProperty("name").GetString(), await evaluator.Text(VandrelWorkbook.Address("sizeName")));
 
         var canal = await Post("/v1/channels/normal-depth", new
         {

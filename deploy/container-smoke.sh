@@ -144,8 +144,8 @@ else fail "GET /v1/pipes/diameter: status $s, diameter '$d': $check"; fi
 # Network: the sample scenario. Properties checked against the request document itself: every load case converged;
 # the reservoirs together supply the demands given times the load case's multiplier (continuity); along every open
 # pipe the head drop between its end nodes equals its head loss (energy), to 1 mm.
-s="$(status "${key[@]}" -X POST -H 'Content-Type: application/json' --data-binary @samples/scenario/fernbrook-network.json "$base/v1/networks/solve")"
-if [ "$s" = 200 ] && out="$(python3 - samples/scenario/fernbrook-network.json "$work/body" <<'EOF'
+s="$(status "${key[@]}" -X POST -H 'Content-Type: application/json' --data-binary @samples/scenario/vandrel-network.json "$base/v1/networks/solve")"
+if [ "$s" = 200 ] && out="$(python3 - samples/scenario/vandrel-network.json "$work/body" <<'EOF'
 import json, math, sys
 request, answer = json.load(open(sys.argv[1])), json.load(open(sys.argv[2]))
 problems = []

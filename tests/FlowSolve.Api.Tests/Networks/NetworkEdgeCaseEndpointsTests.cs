@@ -21,7 +21,7 @@ public sealed class NetworkEdgeCaseEndpointsTests(ApiFixture api)
         await api.PostRaw(Route, body.ToJsonString(), "application/json");
 
     private static JsonObject Sample() => JsonNode.Parse(File.ReadAllText(
-        Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "fernbrook-network.json")))!.AsObject();
+        Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "vandrel-network.json")))!.AsObject();
 
     /// <summary>Darcy friction factor: 64/Re; Churchill (1977) from 2000; Colebrook-White (1939) by Brent from 4000.</summary>
     private static double Friction(double re, double r)
@@ -201,7 +201,7 @@ public sealed class NetworkEdgeCaseEndpointsTests(ApiFixture api)
     {
         var full = await Post(Sample());
         var body = Sample();
-        body["output"] = new JsonObject { ["elements"] = new JsonArray("p4", "school", "quarrytop", "hollins-booster") };
+        body["output"] = new JsonObject { ["elements"] = new JsonArray("p4", "school", "orvex", "zemmit-booster") };
         var chosen = await Post(body);
         Assert.Equal(200, full.Status);
         Assert.Equal(200, chosen.Status);
@@ -211,7 +211,7 @@ public sealed class NetworkEdgeCaseEndpointsTests(ApiFixture api)
         Assert.Equal(fullCases.Length, chosenCases.Length);
         for (int i = 0; i < fullCases.Length; i++)
         {
-            foreach (var (table, id) in new[] { ("pipes", "p4"), ("junctions", "school"), ("reservoirs", "quarrytop"), ("pumps", "hollins-booster") })
+            foreach (var (table, id) in new[] { ("pipes", "p4"), ("junctions", "school"), ("reservoirs", "orvex"), ("pumps", "zemmit-booster") })
             {
                 var row = Assert.Single(chosenCases[i].GetProperty(table).EnumerateArray());
                 var expected = fullCases[i].GetProperty(table).EnumerateArray().Single(x => x.GetProperty("id").GetString() == id);

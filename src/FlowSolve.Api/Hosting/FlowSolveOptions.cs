@@ -31,6 +31,14 @@ public sealed class FlowSolveOptions
         /// <summary>Time budget of one request in seconds (default 30); a request over it answers 503, a batch is cut off with a final error row.</summary>
         public double RequestTimeoutSeconds { get; set; } = 30;
 
+        /// <summary>Seconds a client may take to send a request's headers before the connection is dropped (Kestrel's
+        /// RequestHeadersTimeout; a header sent one byte a second would otherwise hold a connection for half a minute).</summary>
+        public double RequestHeadersTimeoutSeconds { get; set; } = 10;
+
+        /// <summary>Most connections served at once (Kestrel's MaxConcurrentConnections); further ones wait in the
+        /// operating system's queue. 0 means no limit.</summary>
+        public long MaxConcurrentConnections { get; set; } = 1000;
+
         /// <summary>Most links (pipes and pumps together), and most nodes (junctions and reservoirs together), in one
         /// network solve (default 10 000; a grid of that size solves in about a quarter of a second); more answers 413.</summary>
         public int NetworkMaxPipes { get; set; } = 10_000;

@@ -24,6 +24,10 @@ public static class Protection
         services.Configure<Microsoft.AspNetCore.Server.Kestrel.Core.KestrelServerOptions>(k =>
         {
             k.Limits.MaxRequestBodySize = settings.Limits.MaxRequestBodyBytes;
+            k.Limits.RequestHeadersTimeout = TimeSpan.FromSeconds(settings.Limits.RequestHeadersTimeoutSeconds);
+            // Idle keep-alive connections are dropped as soon as a slow header would be.
+            k.Limits.KeepAliveTimeout = TimeSpan.FromSeconds(Math.Max(settings.Limits.RequestHeadersTimeoutSeconds, 5));
+            k.Limits.MaxConcurrentConnections = settings.Limits.MaxConcurrentConnections > 0 ? settings.Limits.MaxConcurrentConnections : null;
             k.AddServerHeader = false;
         });
 

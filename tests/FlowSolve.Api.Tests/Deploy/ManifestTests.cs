@@ -123,7 +123,7 @@ public sealed class ManifestTests(ApiFixture api)
     [Theory]
     [InlineData("livenessProbe", "/health/live")]
     [InlineData("readinessProbe", "/health/ready")]
-    [InlineData("startupProbe", "/health/live")]
+    [InlineData("startupProbe", "/health/ready")] // the path docs/operations.md names for start-up
     public async Task Probe_UsesHealthPathOnNamedPort_AndThePathAnswers200(string probe, string expectedPath)
     {
         var get = Map(Map(Container, probe), "httpGet");

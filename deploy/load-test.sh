@@ -10,7 +10,8 @@
 #   LOAD_DURATION seconds (10 by default) per scenario, the scenarios taking turns within each round, with LOAD_THREADS
 #   threads (2) and LOAD_CONNECTIONS connections (32); each scenario's rate is the median of its rounds and its share of
 #   the ceiling the median of the per-round ratios, so a slow minute on a shared machine moves every row, not one;
-#   scenarios: GET /health/live (ceiling), GET /v1/friction-factor, the same GET with different inputs on every
+#   scenarios: GET /health/live (ceiling), GET /v1/friction-factor, the same as a spreadsheet cell's format=text,
+#   the same GET with different inputs on every
 #   request, POST /v1/pipes/flow (skipped on a 404);
 # - then a 60-second run of the friction GET while sampling VmRSS from /proc/PID/status every 5 s;
 # - prints a table, and exits non-zero when any scenario saw a non-2xx answer or a socket error.
@@ -107,8 +108,8 @@ to_ms() { awk '{v = $1; if (v ~ /us$/) print v / 1000; else if (v ~ /ms$/) print
 median() { tr ' ' '\n' | sed '/^$/d' | sort -g | awk '{a[NR] = $1} END {if (NR % 2) print a[(NR + 1) / 2]; else print (a[NR / 2] + a[NR / 2 + 1]) / 2}'; }
 
 pipe_status="$(curl -s -o /dev/null -w '%{http_code}' -X POST -H 'Content-Type: application/json' -d "$pipe_body" "$base/v1/pipes/flow" || true)"
-names=("GET /health/live (ceiling)" "GET /v1/friction-factor" "GET friction, varied inputs")
-args=("$base/health/live" "$friction" "-s $work/vary.lua $base")
+names=("GET /health/live (ceiling)" "GET /v1/friction-factor" "GET friction, format=text" "GET friction, varied inputs")
+args=("$base/health/live" "$friction" "$friction&format=text" "-s $work/vary.lua $base")
 pipe_note=""
 errors=0
 if [ "$pipe_status" = 404 ]; then

@@ -218,17 +218,8 @@ internal static class CellWriter
 
     public static void AppendPlain(System.Text.StringBuilder cell, string? value) => cell.Append(value);
 
-    public static void AppendWarningsPlain(System.Text.StringBuilder cell, IEnumerable<Contracts.WarningDto>? warnings)
-    {
-        if (warnings is null) return;
-        bool first = true;
-        foreach (var w in warnings)
-        {
-            if (!first) cell.Append(',');
-            cell.Append(w.Code);
-            first = false;
-        }
-    }
+    /// <summary>Warning codes for a plain-text answer: separated by commas (a CSV cell separates them by spaces).</summary>
+    public static void AppendWarningsPlain(System.Text.StringBuilder cell, IEnumerable<Contracts.WarningDto>? warnings) => AppendCodes(cell, warnings, ',');
 
     public static void Append(System.Text.StringBuilder cell, double value) => cell.Append(Invariant, $"{value:R}");
 
@@ -251,13 +242,15 @@ internal static class CellWriter
         if (value is not null) cell.Append(Batch.Csv.Escape(value));
     }
 
-    public static void AppendWarnings(System.Text.StringBuilder cell, IEnumerable<Contracts.WarningDto>? warnings)
+    public static void AppendWarnings(System.Text.StringBuilder cell, IEnumerable<Contracts.WarningDto>? warnings) => AppendCodes(cell, warnings, ' ');
+
+    private static void AppendCodes(System.Text.StringBuilder cell, IEnumerable<Contracts.WarningDto>? warnings, char separator)
     {
         if (warnings is null) return;
         bool first = true;
         foreach (var w in warnings)
         {
-            if (!first) cell.Append(' ');
+            if (!first) cell.Append(separator);
             cell.Append(w.Code);
             first = false;
         }

@@ -135,7 +135,6 @@ public static class CalculationGuard
         {
             if (t == typeof(double) || t == typeof(double?) || t == typeof(float) || t == typeof(object)) return true;
             if (t.IsPrimitive || t == typeof(string) || t.IsEnum || depth > 6) return false;
-            if (t == typeof(WarningDto) || t == typeof(AssumptionDto)) return false;
             if (t.IsArray) return MayHoldNumbers(t.GetElementType()!, depth + 1);
             if (t.IsGenericType && typeof(IEnumerable).IsAssignableFrom(t)) return t.GetGenericArguments().Any(a => MayHoldNumbers(a, depth + 1));
             if (t.IsGenericType && t.GetGenericTypeDefinition() == typeof(KeyValuePair<,>)) return MayHoldNumbers(t.GetGenericArguments()[1], depth + 1);

@@ -106,29 +106,30 @@ public static class NetworkEndpoints
         if (links > max || nodes > max)
         {
             bool l = links > max;
-            return TypedResults.Problem(statusCode: StatusCodes.Status413PayloadTooLarge, title: "The network is too large for this service.",
-                detail: string.Create(CultureInfo.InvariantCulture,
-                    $"The network has {(l ? links : nodes)} {(l ? "links (pipes and pumps)" : "nodes (junctions and reservoirs)")}; this service solves at most {max} (FlowSolve:Limits:NetworkMaxPipes). Split the network or ask the operator to raise the limit."),
-                type: "https://flowsolve.example/problems/limit-exceeded",
-                extensions: new Dictionary<string, object?> { ["limit"] = "networkMaxPipes", ["maximum"] = max, ["given"] = l ? links : nodes, ["field"] = l ? "pipes" : "junctions" });
+            return LimitExceeded("The network is too large for this service.",
+                $"The network has {(l ? links : nodes)} {(l ? "links (pipes and pumps)" : "nodes (junctions and reservoirs)")}; this service solves at most {max} (FlowSolve:Limits:NetworkMaxPipes). Split the network or ask the operator to raise the limit.",
+                "networkMaxPipes", max, l ? links : nodes, l ? "pipes" : "junctions");
         }
         int maxCases = limits.NetworkMaxDemandMultipliers;
         if (cases > maxCases)
-            return TypedResults.Problem(statusCode: StatusCodes.Status413PayloadTooLarge, title: "Too many load cases.",
-                detail: string.Create(CultureInfo.InvariantCulture,
-                    $"demandMultipliers holds {cases} load cases; this service solves at most {maxCases} in one request (FlowSolve:Limits:NetworkMaxDemandMultipliers). Send the rest in further requests."),
-                type: "https://flowsolve.example/problems/limit-exceeded",
-                extensions: new Dictionary<string, object?> { ["limit"] = "networkMaxDemandMultipliers", ["maximum"] = maxCases, ["given"] = cases, ["field"] = "demandMultipliers" });
+            return LimitExceeded("Too many load cases.",
+                $"demandMultipliers holds {cases} load cases; this service solves at most {maxCases} in one request (FlowSolve:Limits:NetworkMaxDemandMultipliers). Send the rest in further requests.",
+                "networkMaxDemandMultipliers", maxCases, cases, "demandMultipliers");
         long rows = NetworkInput.ListedElements(r) * Math.Max(cases, 1);
         long maxRows = limits.NetworkMaxElementCases;
         if (rows > maxRows)
-            return TypedResults.Problem(statusCode: StatusCodes.Status413PayloadTooLarge, title: "The answer would be too large.",
-                detail: string.Create(CultureInfo.InvariantCulture,
-                    $"Listing {NetworkInput.ListedElements(r)} elements (pipes, pumps, junctions and reservoirs) in each of {Math.Max(cases, 1)} load cases makes {rows} rows; this service answers at most {maxRows} (FlowSolve:Limits:NetworkMaxElementCases). Ask for output.detail \"summary\" (totals and extremes per load case), or output.elements with the ids you need, or fewer load cases per request."),
-                type: "https://flowsolve.example/problems/limit-exceeded",
-                extensions: new Dictionary<string, object?> { ["limit"] = "networkMaxElementCases", ["maximum"] = maxRows, ["given"] = rows, ["field"] = "output" });
+            return LimitExceeded("The answer would be too large.",
+                $"Listing {NetworkInput.ListedElements(r)} elements (pipes, pumps, junctions and reservoirs) in each of {Math.Max(cases, 1)} load cases makes {rows} rows; this service answers at most {maxRows} (FlowSolve:Limits:NetworkMaxElementCases). Ask for output.detail \"summary\" (totals and extremes per load case), or output.elements with the ids you need, or fewer load cases per request.",
+                "networkMaxElementCases", maxRows, rows, "output");
         return null;
     }
+
+    /// <summary>413 for a configured network limit: which limit, its maximum, what the request asked for, and the field.</summary>
+    private static ProblemHttpResult LimitExceeded(string title, FormattableString detail, string limit, long maximum, long given, string field) =>
+        TypedResults.Problem(statusCode: StatusCodes.Status413PayloadTooLarge, title: title,
+            detail: FormattableString.Invariant(detail),
+            type: "https://flowsolve.example/problems/limit-exceeded",
+            extensions: new Dictionary<string, object?> { ["limit"] = limit, ["maximum"] = maximum, ["given"] = given, ["field"] = field });
 
     /// <summary>The load cases without a physical answer, gathered while solving (small: ids and figures only).</summary>
     private sealed class Trouble

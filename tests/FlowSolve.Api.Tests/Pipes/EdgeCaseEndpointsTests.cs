@@ -99,31 +99,13 @@ public sealed class EdgeCaseEndpointsTests(ApiFixture api)
         return f * length / d * v * v / (2 * G);
     }
 
-    /// <summary>Sign changes on a fine log grid refined by Brent; a change at the friction factor's jump is no root.</summary>
-    private static List<double> Roots(Func<double, double> g, double a, double b, double scale, int n = 4000)
-    {
-        var roots = new List<double>();
-        double x0 = a, g0 = g(a);
-        for (int i = 1; i <= n; i++)
-        {
-            double x1 = a * Math.Pow(b / a, (double)i / n), g1 = g(x1);
-            if (Math.Sign(g0) != Math.Sign(g1))
-            {
-                double x = Brent.FindRoot(g, x0, x1, 1e-15 * x1, 200);
-                if (Math.Abs(g(x)) < 1e-9 * scale) roots.Add(x);
-            }
-            (x0, g0) = (x1, g1);
-        }
-        return roots;
-    }
-
     [Fact]
     public async Task Flow_HeadNearRe4000_ReportsTheAlternateFlow()
     {
         double d = 0.1, length = 100, e = 1e-4, q4 = 4000 * Nu * Math.PI * d / 4;
         double top = HeadLoss(length, d, e, q4 * (1 - 1e-9)), bottom = HeadLoss(length, d, e, q4 * (1 + 1e-9));
         double head = bottom + 0.5 * (top - bottom);
-        var reference = Roots(q => HeadLoss(length, d, e, q) - head, 0.5 * q4, 2 * q4, head);
+        var reference = FlowSolve.Core.Tests.Pipes.RootScan.All(q => HeadLoss(length, d, e, q) - head, 0.5 * q4, 2 * q4, head);
         Assert.Equal(2, reference.Count);
         Assert.True(reference[1] / reference[0] - 1 > 0.005, "the two flows are apart by about 1 percent");
 
@@ -149,7 +131,7 @@ public sealed class EdgeCaseEndpointsTests(ApiFixture api)
         double flow = 0.00142, length = 1000, d4 = 4 * flow / (Math.PI * Nu * 4000);
         double turbulent = HeadLoss(length, d4 * (1 - 1e-9), 0, flow), transitional = HeadLoss(length, d4 * (1 + 1e-9), 0, flow);
         double allowed = turbulent + 0.9 * (transitional - turbulent);
-        var reference = Roots(dd => HeadLoss(length, dd, 0, flow) - allowed, 0.5 * d4, 2 * d4, allowed);
+        var reference = FlowSolve.Core.Tests.Pipes.RootScan.All(dd => HeadLoss(length, dd, 0, flow) - allowed, 0.5 * d4, 2 * d4, allowed);
         Assert.Equal(2, reference.Count);
 
         var r = await api.GetJson(FormattableString.Invariant(

@@ -35,26 +35,6 @@ public sealed class TurbulentLimitTwoRootsTests
         return (Friction(re, e / d) * length / d + k) * v * v / (2 * G);
     }
 
-    /// <summary>Every root of g on [a, b]: a scan of n log-spaced intervals for sign changes, Brent in each, and only
-    /// the points where g really vanishes (relative to <paramref name="scale"/>) kept. The intervals (0.035 percent
-    /// wide) are far narrower than the gap between a root and the jump, so a root and the jump never share one.</summary>
-    private static List<double> Roots(Func<double, double> g, double a, double b, double scale, int n = 4000)
-    {
-        var roots = new List<double>();
-        double x0 = a, g0 = g(a);
-        for (int i = 1; i <= n; i++)
-        {
-            double x1 = a * Math.Pow(b / a, (double)i / n), g1 = g(x1);
-            if (Math.Sign(g0) != Math.Sign(g1))
-            {
-                double x = Brent.FindRoot(g, x0, x1, 1e-15 * x1, 200);
-                if (Math.Abs(g(x)) < 1e-9 * scale) roots.Add(x);
-            }
-            (x0, g0) = (x1, g1);
-        }
-        return roots;
-    }
-
     [Theory]
     [InlineData(0.0, 0.0, 0.5)]
     [InlineData(0.0, 2.0, 0.3)]
@@ -69,7 +49,7 @@ public sealed class TurbulentLimitTwoRootsTests
         Assert.True(top > bottom, "Churchill just below Re 4000 lies above Colebrook-White just above it");
         double head = bottom + within * (top - bottom);
 
-        var reference = Roots(q => HeadLoss(length, d, roughness, k, q) - head, 0.5 * q4, 2 * q4, head);
+        var reference = RootScan.All(q => HeadLoss(length, d, roughness, k, q) - head, 0.5 * q4, 2 * q4, head);
         Assert.Equal(2, reference.Count);
 
         var trace = new FlowSolve.Core.Numerics.SolverTrace();
@@ -93,7 +73,7 @@ public sealed class TurbulentLimitTwoRootsTests
         var pipe = new PipeGeometry(length, d, 0);
         double q4 = 4000 * Nu * (Math.PI * d * d / 4) / d;
         double head = factor * HeadLoss(length, d, 0, 0, q4 * (1 + 1e-9));
-        var reference = Roots(q => HeadLoss(length, d, 0, 0, q) - head, 0.2 * q4, 5 * q4, head);
+        var reference = RootScan.All(q => HeadLoss(length, d, 0, 0, q) - head, 0.2 * q4, 5 * q4, head);
         var r = PipeFlow.Solve(pipe, new FluidProperties(Nu), head);
         Assert.Equal(Assert.Single(reference), r.Flow, reference[0] * 1e-9);
         Assert.Null(r.AlternateFlow);
@@ -113,7 +93,7 @@ public sealed class TurbulentLimitTwoRootsTests
         Assert.True(transitional > turbulent, "the loss jumps up as the diameter grows through Re 4000");
         double allowed = turbulent + within * (transitional - turbulent);
 
-        var reference = Roots(dd => HeadLoss(length, dd, roughness, 0, flow) - allowed, 0.5 * d4, 2 * d4, allowed);
+        var reference = RootScan.All(dd => HeadLoss(length, dd, roughness, 0, flow) - allowed, 0.5 * d4, 2 * d4, allowed);
         Assert.Equal(2, reference.Count);
 
         var trace = new FlowSolve.Core.Numerics.SolverTrace();
@@ -133,7 +113,7 @@ public sealed class TurbulentLimitTwoRootsTests
         double flow = 0.00142, length = 1000, d4 = 4 * flow / (Math.PI * Nu * 4000);
         double allowed = 1.5 * HeadLoss(length, d4, 0, 0, flow);
         var r = PipeDiameter.Solve(length, 0, 0, new FluidProperties(Nu), flow, allowed);
-        var reference = Roots(dd => HeadLoss(length, dd, 0, 0, flow) - allowed, 0.2 * d4, 5 * d4, allowed);
+        var reference = RootScan.All(dd => HeadLoss(length, dd, 0, 0, flow) - allowed, 0.2 * d4, 5 * d4, allowed);
         Assert.Equal(Assert.Single(reference), r.Diameter, reference[0] * 1e-9);
         Assert.Null(r.AlternateDiameter);
     }

@@ -2,7 +2,7 @@ using FlowSolve.Api.Batch;
 using FlowSolve.Api.Channels;
 using FlowSolve.Api.Check;
 using FlowSolve.Api.Fluids;
-using FlowSolve.Api.Friction;
+using FlowSolve.Api;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Networks;
 using FlowSolve.Api.Pipes;
@@ -24,7 +24,7 @@ try
 
     var app = builder.Build();
     app.UseFlowSolvePipeline();
-    app.MapFrictionEndpoints();
+    app.MapCatalogue();
     app.MapFluidEndpoints();
     app.MapPumpEndpoints();
     app.MapBatchEndpoints();

@@ -29,13 +29,13 @@ public class AnswerBenchmarks
     [GlobalSetup]
     public void Setup()
     {
+        JsonSetup.UseGenerated(FlowSolve.Api.ApiJsonContext.Default);
         _withEncoder = JsonSetup.Configure(new JsonSerializerOptions(JsonSerializerDefaults.Web) { Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping });
         _withEncoder.MakeReadOnly();
         _withoutEncoder = new JsonSerializerOptions(_withEncoder) { Encoder = null };
         _withoutEncoder.MakeReadOnly();
         _writer = new Utf8JsonWriter(_buffer, new JsonWriterOptions { Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping, SkipValidation = true });
-        _friction = ((Ok<FrictionFactorResponse>)FrictionEndpoints.Calculate(
-            new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005)).Result).Value!;
+        _friction = new FrictionFactorCalculation().Solve(new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005), CalculationContext.Plain).Answer!;
         _pipeFlow = ((Ok<PipeFlowResponse>)PipeEndpoints.Flow(new PipeFlowRequest(8, 0.3, 1200, Roughness: 0.00026, Temperature: 15),
             Microsoft.Extensions.Logging.Abstractions.NullLoggerFactory.Instance).Result).Value!;
         if (!Write(_friction, _withEncoder).SequenceEqual(Write(_friction, _withoutEncoder)) ||
@@ -96,7 +96,9 @@ public class AnswerBenchmarks
 
     /// <summary>The handlers that build those answers (validation, solve, validity, warnings, assumptions), for scale.</summary>
     [Benchmark]
-    public object FrictionHandler() => FrictionEndpoints.Calculate(new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005));
+    public object FrictionHandler() => Friction.Solve(new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005), CalculationContext.Plain).Answer!;
+
+    private static readonly FrictionFactorCalculation Friction = new();
 
     [Benchmark]
     public object PipeFlowHandler() => PipeEndpoints.Flow(new PipeFlowRequest(8, 0.3, 1200, Roughness: 0.00026, Temperature: 15),

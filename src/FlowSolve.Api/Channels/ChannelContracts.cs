@@ -142,7 +142,7 @@ public sealed record NormalDepthResponse(
     double? CriticalDepth, double? CriticalSlope, ChannelCapacityDto? Capacity,
     string Shape, string Units,
     int Iterations, bool Converged, double Residual, string Status, string Method,
-    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : FlowSolve.Api.Hosting.ISolveSummary
+    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
@@ -170,7 +170,7 @@ public sealed record CriticalDepthResponse(
     double CriticalDepth, IReadOnlyList<double>? AlternateCriticalDepths, double Area, double TopWidth, double Velocity,
     double SpecificEnergy, double? CriticalSlope, string Shape, string Units,
     int Iterations, bool Converged, double Residual, string Status, string Method,
-    IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : FlowSolve.Api.Hosting.ISolveSummary
+    IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }

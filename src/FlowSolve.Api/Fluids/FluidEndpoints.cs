@@ -31,7 +31,7 @@ public sealed record WaterRequest(
 public sealed record WaterResponse(
     double Temperature, double Density, double DynamicViscosity, double KinematicViscosity, double VapourPressure,
     double Pressure, string Units, string Method,
-    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : IWarned
+    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : IWarned, ISensitive
 {
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }

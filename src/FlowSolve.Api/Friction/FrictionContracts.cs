@@ -21,7 +21,7 @@ public sealed record FrictionFactorRequest(
     [property: Description("Reynolds number below which flow is laminar (dimensionless); default 2000 (common practice), 1000 to 4000.")]
     [FromQuery(Name = "laminarLimit")] double? LaminarLimit = null,
     [property: Description("When true, include the solver's per-iteration record in the response.")]
-    [FromQuery(Name = "trace")] bool? Trace = null);
+    [FromQuery(Name = "trace")] bool? Trace = null) : FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>One explicit approximation evaluated beside the exact value.</summary>
 /// <param name="Method">The approximation.</param>
@@ -53,7 +53,7 @@ public sealed record FrictionFactorResponse(
     double Reynolds, double RelativeRoughness,
     int Iterations, bool Converged, double Residual, string Status, string SolveVariable,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<ApproximationDto> Approximations, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
+    IReadOnlyList<ApproximationDto> Approximations, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }

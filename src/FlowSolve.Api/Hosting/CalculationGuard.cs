@@ -23,6 +23,13 @@ public static class CalculationGuard
     {
         var (status, value) = result.Unwrap();
         if (status is < 200 or >= 300 || value is null) return result;
+        return Review(calculation, value, strict) ?? result;
+    }
+
+    /// <summary>The problem that stands instead of an answer (a non-finite number, or warnings with
+    /// <paramref name="strict"/>), or null when the answer may be sent.</summary>
+    public static IResult? Review(string calculation, object value, bool strict)
+    {
         if (Finite.FirstNonFinite(value) is { } field)
         {
             return ProblemResults.NoAnswer("The answer is not representable.",
@@ -40,7 +47,7 @@ public static class CalculationGuard
                     new Dictionary<string, object?> { ["warnings"] = codes });
             }
         }
-        return result;
+        return null;
     }
 
     /// <summary>A 422 for an exception the Core raises on arguments it cannot evaluate (a guard clause, an overflow),

@@ -9,7 +9,12 @@ namespace FlowSolve.Api.Hosting;
 /// <param name="PrimaryOutput">The response field returned by <c>format=text</c> when no <c>select</c> is given.</param>
 /// <param name="Text">False for a calculation whose answer is tables rather than one value per row (a network):
 /// <c>format=text</c> then answers 400 naming <c>format</c>.</param>
-public sealed record CalculationMetadata(string Name, string PrimaryOutput, bool Text = true);
+public sealed record CalculationMetadata(string Name, string PrimaryOutput, bool Text = true)
+{
+    /// <summary>The calculation's own output options in the query (sensitivities, ...): the strict-query rules and the
+    /// OpenAPI document read them.</summary>
+    public IReadOnlyList<QueryOption> Options { get; init; } = [];
+}
 
 /// <summary>One calculation as the batch and text machinery see it: a request type, a response type, and a handler.</summary>
 public sealed class CalculationDescriptor(string name, string primaryOutput, Type requestType, Type responseType, Func<object, IResult> invoke)
@@ -53,6 +58,8 @@ public sealed class CalculationCatalog
     public IEnumerable<CalculationDescriptor> All => _byName.Values;
 
     public bool TryGet(string name, out CalculationDescriptor descriptor) => _byName.TryGetValue(name.Trim('/'), out descriptor!);
+
+    public void Add(CalculationDescriptor descriptor) => _byName[descriptor.Name] = descriptor;
 
     public void Add<TRequest, TResponse>(string name, string primaryOutput, Func<TRequest, IResult> calculate) where TRequest : class =>
         _byName[name] = new CalculationDescriptor(name, primaryOutput, typeof(TRequest), typeof(TResponse), r => calculate((TRequest)r));

@@ -53,7 +53,7 @@ public sealed class JsonAnswer(object value, int statusCode) : IResult, IStatusC
     /// What one host's JSON options (the HTTP pipeline's, which <c>Ok&lt;T&gt;</c> uses, with another encoder than
     /// <see cref="JsonSetup.Options"/>) give an answer: a writer with their encoder, since a writer's own options decide
     /// the escaping, and for the serializer the same options without an encoder. System.Text.Json uses the generated
-    /// serialisation code of <see cref="ApiJsonContext"/> (straight-line writes, no per-property metadata walk) only when
+    /// serialisation code of the catalogue's generated JSON context (straight-line writes, no per-property metadata walk) only when
     /// the options carry no encoder; ASP.NET Core's carry the relaxed one. The bytes do not change (a test compares them
     /// with <c>Ok&lt;T&gt;</c>'s, strings that the two encoders escape differently included).
     /// </summary>

@@ -108,6 +108,17 @@ public static class OpenApiSetup
             if (context.ApiDescription.ActionDescriptor.EndpointMetadata.OfType<CalculationMetadata>().FirstOrDefault() is { } calc)
             {
                 operation.Parameters ??= [];
+                foreach (var option in calc.Options)
+                {
+                    if (operation.Parameters.Any(p => p.Name == option.Name)) continue;
+                    operation.Parameters.Add(new OpenApiParameter
+                    {
+                        Name = option.Name, In = ParameterLocation.Query, Description = option.Description,
+                        Schema = option.Kind == QueryOptionKind.Boolean
+                            ? new OpenApiSchema { Type = JsonSchemaType.Boolean, Description = option.Description }
+                            : new OpenApiSchema { Type = JsonSchemaType.Integer, Format = "int32", Description = option.Description },
+                    });
+                }
                 operation.Parameters.Add(new OpenApiParameter
                 {
                     Name = "format", In = ParameterLocation.Query,
@@ -136,7 +147,7 @@ public static class OpenApiSetup
                     Schema = new OpenApiSchema { Type = JsonSchemaType.Boolean },
                 });
                 if (context.ApiDescription.HttpMethod == "POST" && operation.RequestBody is not null
-                    && context.ApiDescription.ParameterDescriptions.Any(d => d.Source.Id == "Body" && d.Type.GetProperty("Trace", typeof(bool?)) is not null))
+                    && context.ApiDescription.ParameterDescriptions.Any(d => d.Source.Id == "Body" && typeof(ITraceable).IsAssignableFrom(d.Type)))
                     operation.Parameters.Add(new OpenApiParameter
                     {
                         Name = "trace", In = ParameterLocation.Query,

@@ -148,13 +148,15 @@ public sealed class QueryContract
         var contract = new QueryContract();
         var method = endpoint.Metadata.GetMetadata<MethodInfo>();
         var routeNames = (endpoint as RouteEndpoint)?.RoutePattern.Parameters.Select(p => p.Name).ToHashSet(StringComparer.OrdinalIgnoreCase) ?? [];
-        bool calculation = endpoint.Metadata.GetMetadata<CalculationMetadata>() is not null;
+        var calculation = endpoint.Metadata.GetMetadata<CalculationMetadata>();
         if (method is not null)
         {
             foreach (var p in method.GetParameters()) contract.AddParameter(p, routeNames);
         }
-        if (calculation)
+        if (calculation is not null)
         {
+            foreach (var option in calculation.Options)
+                contract._query.TryAdd(option.Name, option.Kind == QueryOptionKind.Boolean ? Kind.Boolean : Kind.Number);
             contract._query.TryAdd("format", Kind.Text);
             contract._query.TryAdd("select", Kind.Text);
             contract._query.TryAdd("strict", Kind.Boolean);

@@ -71,7 +71,7 @@ public sealed class TextFormatFilter : IEndpointFilter
     }
 
     /// <summary>Reads a (dotted) scalar field of a JSON answer as cell text: numbers as the JSON writer wrote them.</summary>
-    private static bool TryRead(JsonElement json, string path, out string text)
+    internal static bool TryRead(JsonElement json, string path, out string text)
     {
         var e = json;
         text = "";

@@ -91,7 +91,7 @@ public sealed record PipeFlowRequest(
     [property: Description(PipeFields.Units)] [FromQuery(Name = "units")] string? Units = null,
     [property: Description(PipeFields.FlowUnit)] [FromQuery(Name = "flowUnit")] string? FlowUnit = null,
     [property: Description(PipeFields.Trace)] [FromQuery(Name = "trace")] bool? Trace = null,
-    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null) : IPipeRequest;
+    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null) : IPipeRequest, FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>Inputs of the diameter calculation (query parameters for GET, a JSON body for POST).</summary>
 public sealed record PipeDiameterRequest(
@@ -115,7 +115,7 @@ public sealed record PipeDiameterRequest(
     [property: Description(PipeFields.Units)] [FromQuery(Name = "units")] string? Units = null,
     [property: Description(PipeFields.FlowUnit)] [FromQuery(Name = "flowUnit")] string? FlowUnit = null,
     [property: Description(PipeFields.Trace)] [FromQuery(Name = "trace")] bool? Trace = null,
-    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null) : IPipeRequest;
+    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null) : IPipeRequest, FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>A number of identical fittings.</summary>
 /// <param name="Name">Fitting name from GET /v1/pipes/fittings, for example <c>gate-valve-open</c>.</param>
@@ -233,7 +233,7 @@ public sealed record PipeHeadLossResponse(
     double Length, double Roughness, double MinorLossCoefficient, double KinematicViscosity, double? Density,
     int Iterations, bool Converged, double Residual, string Status, string Method, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    DarcyWeisbachComparisonDto? DarcyWeisbach) : FlowSolve.Api.Hosting.ISolveSummary
+    DarcyWeisbachComparisonDto? DarcyWeisbach) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }

@@ -83,7 +83,7 @@ public sealed record DutyPointRequest(
     [property: Description(FlowUnit.Description)]
     string? FlowUnit = null,
     [property: Description("When true, include the solver's per-iteration record in the response (solve variable: the set flow in m3/s).")]
-    bool? Trace = null);
+    bool? Trace = null) : FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>The compact GET form for a spreadsheet cell: a polynomial pump curve and one pipe or a lumped resistance.</summary>
 public sealed record DutyPointQuery(
@@ -134,7 +134,7 @@ public sealed record DutyPointQuery(
     [property: Description(FlowUnit.Description)]
     [FromQuery(Name = "flowUnit")] string? FlowUnit = null,
     [property: Description("When true, include the solver's per-iteration record.")]
-    [FromQuery(Name = "trace")] bool? Trace = null);
+    [FromQuery(Name = "trace")] bool? Trace = null) : FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>A flow range.</summary>
 /// <param name="MinimumFlow">Smallest flow, in the flow unit.</param>
@@ -202,7 +202,7 @@ public sealed record DutyPointResponse(
     double? BestEfficiencyFlow, double? BestEfficiencyRatio,
     double? NpshAvailable, double? SuctionLoss, double? NpshRequired, double? NpshMargin, double? NpshRatio,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary
+    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary, ISensitive
 {
     /// <summary>With efficiency points: root-mean-square deviation of the fitted efficiency curve from the points (fraction), as rmsDeviation is for the head curve.</summary>
     public double? EfficiencyRmsDeviation { get; init; }

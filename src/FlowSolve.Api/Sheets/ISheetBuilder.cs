@@ -29,7 +29,6 @@ public static class SheetBuilders
 {
     private static readonly Dictionary<string, ISheetBuilder> ByName = new ISheetBuilder[]
     {
-        new FrictionSheet(),
         new PipeHeadLossSheet(),
         new PipeFlowSheet(),
         new PipeDiameterSheet(),

@@ -1,3 +1,4 @@
+using FlowSolve.Api.Friction;
 using System.Globalization;
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Problems;

@@ -13,6 +13,9 @@ namespace FlowSolve.Api.Sheets;
 /// </summary>
 public static class SheetHtml
 {
+    /// <summary>The media type of a calculation sheet.</summary>
+    public const string ContentType = "text/html";
+
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
     /// <summary>The FlowSolve version: the API assembly's informational version (as built, with any source revision).</summary>

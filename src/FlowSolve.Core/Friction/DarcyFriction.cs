@@ -59,6 +59,31 @@ public readonly struct FrictionResult
     /// <summary>True when the relation's value is trustworthy as a solve (always true for explicit relations).</summary>
     public bool Converged => Status.IsConverged();
 
+    /// <summary>The Colebrook-White residual in 1/sqrt(f) at the returned factor itself, as a reviewer checks it;
+    /// 0 for the laminar law and the explicit relations. (<see cref="Residual"/> is the solver's, at the last evaluated
+    /// iterate, one predicted Newton step earlier: reading it costs nothing on the hot path, this costs a logarithm.)</summary>
+    public double ResidualAtAnswer => Relation == FrictionMethodInfo.ColebrookWhite.Code
+        ? ColebrookWhite.Residual(FrictionFactor, _reynolds, _relativeRoughness)
+        : 0.0;
+
+    /// <summary>The published range of the relation used beside the inputs (allocates): the laminar law's limit; the
+    /// all-regime range of Churchill (or the transition zone's); otherwise the method's Reynolds and relative-roughness
+    /// ranges with their provenance.</summary>
+    /// <param name="options">The regime limits the factor was computed with.</param>
+    public IReadOnlyList<ValidityCheck> Validity(FrictionOptions options)
+    {
+        if (Relation == DarcyFriction.LaminarRelation)
+            return [new ValidityCheck("laminar", "Hagen-Poiseuille law; laminar limit as configured (common practice)",
+                "reynolds", 0, options.LaminarLimit, _reynolds)];
+        FrictionMethodInfo.TryParse(Relation, out var info);
+        string source = info.Source + "; range: " + info.RangeProvenance;
+        var reynolds = Regime == FlowRegime.Transitional || (info.Method == FrictionMethod.Churchill && Regime != FlowRegime.Turbulent)
+            ? new ValidityCheck(info.Code, source + " (all regimes)", "reynolds", 0, double.PositiveInfinity, _reynolds)
+            : new ValidityCheck(info.Code, source, "reynolds", info.ReynoldsMinimum, info.ReynoldsMaximum, _reynolds);
+        return [reynolds, new ValidityCheck(info.Code, source, "relativeRoughness",
+            info.RelativeRoughnessMinimum, info.RelativeRoughnessMaximum, _relativeRoughness)];
+    }
+
     /// <summary>df/dRe of the relation used: analytic for the laminar law and Colebrook-White (implicit
     /// differentiation), a central difference (about 1e-10 relative) for the explicit formulas.</summary>
     public double DerivativeReynolds

@@ -32,6 +32,12 @@ public readonly record struct PipeState(
     /// <summary>Velocity head V^2/(2g) in m.</summary>
     public double VelocityHead => Velocity * Velocity / (2 * Physical.StandardGravity);
 
+    /// <summary>The Colebrook-White residual in 1/sqrt(f) at the friction factor returned (0 for the laminar law and
+    /// the transition zone's explicit relation), as a reviewer checks it.</summary>
+    public double FrictionResidualAtAnswer => Relation == FrictionMethodInfo.ColebrookWhite.Code
+        ? ColebrookWhite.Residual(FrictionFactor, Reynolds, RelativeRoughness)
+        : 0.0;
+
     /// <summary>Velocity warnings against the design range of <paramref name="options"/>.</summary>
     /// <param name="options">The design velocity range.</param>
     public PipeWarnings VelocityWarnings(in PipeOptions options) =>

@@ -37,13 +37,12 @@ public class JsonAnswerTests(ApiFixture api)
     {
         object value = kind switch
         {
-            "friction" => ((Ok<FrictionFactorResponse>)FrictionEndpoints.Calculate(new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005)).Result).Value!,
+            "friction" => new FrictionFactorCalculation().Solve(new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005), CalculationContext.Plain).Answer!,
             // Text the two encoders treat differently (the relaxed one leaves < > & ' + and non-ASCII as they are; the
             // default one escapes them), since the serializer runs without the pipeline's encoder and the writer keeps it.
-            "escaping" => ((Ok<FrictionFactorResponse>)FrictionEndpoints.Calculate(new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005)).Result).Value!
+            "escaping" => new FrictionFactorCalculation().Solve(new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005), CalculationContext.Plain).Answer!
                 with { Warnings = [new("probe", "Re < 4000 & 'x' + 5 \u00b0C \u2264 \u00e9\t\"q\" \\ end")] },
-            "friction-sensitivities" => ((Ok<FrictionFactorResponse>)FrictionEndpoints.Calculate(
-                new FrictionFactorRequest(Reynolds: 2.5e5, Roughness: 0.00026, Diameter: 0.3, Method: "haaland")).Result).Value!,
+            "friction-sensitivities" => new FrictionFactorCalculation().Solve(new FrictionFactorRequest(Reynolds: 2.5e5, Roughness: 0.00026, Diameter: 0.3, Method: "haaland"), CalculationContext.Plain).Answer!,
             _ => ((Ok<PipeHeadLossResponse>)PipeEndpoints.HeadLoss(new PipeHeadLossRequest(0.12, 0.35, 2350, Roughness: 0.00026,
                 MinorLossCoefficient: 4.5, KinematicViscosity: 1.2e-6, Density: 999.5),
                 Microsoft.Extensions.Logging.Abstractions.NullLoggerFactory.Instance).Result).Value!,

@@ -2,6 +2,7 @@ using System.Globalization;
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Core;
 using FlowSolve.Core.Friction;
 using FlowSolve.Core.Numerics;
@@ -11,36 +12,19 @@ using Microsoft.AspNetCore.Mvc;
 
 namespace FlowSolve.Api.Friction;
 
-/// <summary>The Darcy friction-factor calculation: <c>GET</c> and <c>POST /v1/friction-factor</c>.</summary>
-public static class FrictionEndpoints
+/// <summary>The Darcy friction factor: <c>GET</c> and <c>POST /v1/friction-factor</c>.</summary>
+public sealed class FrictionFactorCalculation : Calculation<FrictionFactorRequest, FrictionFactorResponse>
 {
-    public static IEndpointRouteBuilder MapFrictionEndpoints(this IEndpointRouteBuilder routes)
-    {
-        var group = routes.MapGroup("/v1/friction-factor").WithTags("Friction factor");
+    public override CalculationInfo Info { get; } = new("friction-factor", "Friction factor", "FrictionFactor", "frictionFactor",
+        "Darcy friction factor", FrictionDocs.Description);
 
-        group.MapGet("/", ([AsParameters] FrictionFactorRequest request,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Calculate(request, sensitivities == true))
-            .WithName("GetFrictionFactor")
-            .WithSummary("Darcy friction factor (query parameters)")
-            .WithDescription(Description)
-            .WithQueryExample(("reynolds", "75000"), ("relativeRoughness", "0.005"))
-            .AsCalculation("friction-factor", "frictionFactor");
+    public override IReadOnlyList<(string Name, string Value)> QueryExample { get; } = [("reynolds", "75000"), ("relativeRoughness", "0.005")];
 
-        group.MapPost("/", (FrictionFactorRequest request,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Calculate(request, sensitivities == true))
-            .WithName("PostFrictionFactor")
-            .WithSummary("Darcy friction factor (JSON body)")
-            .WithDescription(Description)
-            .WithBodyExample(new FrictionFactorRequest(Reynolds: 250000, Roughness: 0.00026, Diameter: 0.3, Method: "haaland"))
-            .AsCalculation("friction-factor", "frictionFactor");
+    public override FrictionFactorRequest BodyExample { get; } = new(Reynolds: 250000, Roughness: 0.00026, Diameter: 0.3, Method: "haaland");
 
-        routes.AddCalculation<FrictionFactorRequest, FrictionFactorResponse>("friction-factor", "frictionFactor", r => Calculate(r));
-        return routes;
-    }
+    public override Sheet Sheet(FrictionFactorRequest request, FrictionFactorResponse answer) => FrictionSheet.Build(request, answer);
 
-    private static string Description => FrictionDocs.Description;
-
-    public static Results<Ok<FrictionFactorResponse>, ValidationProblem> Calculate(FrictionFactorRequest request, bool sensitivities = false)
+    public override Outcome<FrictionFactorResponse> Solve(FrictionFactorRequest request, in CalculationContext context)
     {
         var errors = new FieldErrors();
         double reynolds = errors.Required("reynolds", request.Reynolds, DarcyFriction.MinimumReynolds, DarcyFriction.MaximumReynolds);
@@ -83,7 +67,7 @@ public static class FrictionEndpoints
         if (request.LaminarLimit is null)
             assumptions.Add(new("laminarLimit", "2000", "laminar below Re 2000 and turbulent from Re 4000 (common practice)"));
         var options = new FrictionOptions(laminarLimit, Math.Max(laminarLimit, FrictionOptions.Default.TurbulentLimit));
-        SolverTrace? trace = request.Trace == true ? new SolverTrace() : null;
+        SolverTrace? trace = context.Trace ? new SolverTrace() : null;
 
         var exact = DarcyFriction.Compute(reynolds, relativeRoughness, FrictionMethod.ColebrookWhite, options, trace);
         var chosen = method.Method == FrictionMethod.ColebrookWhite
@@ -106,12 +90,12 @@ public static class FrictionEndpoints
         var response = new FrictionFactorResponse(
             chosen.FrictionFactor, chosen.Relation, RegimeCode(chosen.Regime), exact.FrictionFactor,
             reynolds, relativeRoughness,
-            exact.Iterations, exact.Converged && chosen.Converged, ReportedResidual(exact, reynolds, relativeRoughness),
+            exact.Iterations, exact.Converged && chosen.Converged, exact.ResidualAtAnswer,
             exact.Status.Code(), "1/sqrt(f)",
-            Validity(chosen, reynolds, relativeRoughness, options), warnings, assumptions, approximations,
+            chosen.Validity(options).Select(ValidityDto.From).ToArray(), warnings, assumptions, approximations,
             TraceStepDto.From(trace));
-        if (sensitivities) response = response with { Sensitivities = Sensitivities(chosen, reynolds, relativeRoughness, request) };
-        return TypedResults.Ok(response);
+        if (context.Sensitivities) response = response with { Sensitivities = Sensitivities(chosen, reynolds, relativeRoughness, request) };
+        return response;
     }
 
     /// <summary>df/dRe and df/d(e/D) of the relation used (analytic; <see cref="FrictionSensitivity"/>), and through
@@ -137,41 +121,10 @@ public static class FrictionEndpoints
         return b.Build();
     }
 
-    /// <summary>The Colebrook-White residual at the returned factor itself. The Core reports it at the last evaluated
-    /// iterate, one predicted Newton step earlier, to save a logarithm on the hot path; a reviewer wants it at the answer.</summary>
-    private static double ReportedResidual(FrictionResult exact, double reynolds, double relativeRoughness) =>
-        exact.Relation == FrictionMethodInfo.ColebrookWhite.Code
-            ? ColebrookWhite.Residual(exact.FrictionFactor, reynolds, relativeRoughness)
-            : 0.0;
-
     private static string RegimeCode(FlowRegime regime) => regime switch
     {
         FlowRegime.Laminar => "laminar",
         FlowRegime.Transitional => "transitional",
         _ => "turbulent",
     };
-
-    private static IReadOnlyList<ValidityDto> Validity(FrictionResult result, double reynolds, double relativeRoughness, FrictionOptions options)
-    {
-        var list = new List<ValidityDto>();
-        if (result.Relation == DarcyFriction.LaminarRelation)
-        {
-            list.Add(ValidityDto.From(new ValidityCheck("laminar", "Hagen-Poiseuille law; laminar limit as configured (common practice)",
-                "reynolds", 0, options.LaminarLimit, reynolds)));
-            return list;
-        }
-        FrictionMethodInfo.TryParse(result.Relation, out var info);
-        string source = info.Source + "; range: " + info.RangeProvenance;
-        if (result.Regime == FlowRegime.Transitional || (info.Method == FrictionMethod.Churchill && result.Regime != FlowRegime.Turbulent))
-        {
-            list.Add(ValidityDto.From(new ValidityCheck(info.Code, source + " (all regimes)", "reynolds", 0, double.PositiveInfinity, reynolds)));
-        }
-        else
-        {
-            list.Add(ValidityDto.From(new ValidityCheck(info.Code, source, "reynolds", info.ReynoldsMinimum, info.ReynoldsMaximum, reynolds)));
-        }
-        list.Add(ValidityDto.From(new ValidityCheck(info.Code, source, "relativeRoughness",
-            info.RelativeRoughnessMinimum, info.RelativeRoughnessMaximum, relativeRoughness)));
-        return list;
-    }
 }

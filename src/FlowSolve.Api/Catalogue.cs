@@ -7,8 +7,30 @@ using FlowSolve.Api.Networks;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Pipes;
 using FlowSolve.Api.Pumps;
+using FlowSolve.Api.Hosting;
 
-namespace FlowSolve.Api.Hosting;
+namespace FlowSolve.Api;
+
+/// <summary>
+/// Every calculation FlowSolve offers, declared once. The hosting layer derives from this list the GET and POST routes,
+/// batch rows, checks, the text and HTML formats, the OpenAPI metadata and the metrics labels; the tests derive their
+/// coverage from it (a calculation without docs, examples or tests fails <c>CatalogueTests</c>). A new calculation adds
+/// one line here and its request and answer types to <see cref="ApiJsonContext"/> below; see DEVELOPERS.md.
+/// </summary>
+public static class Catalogue
+{
+    public static IReadOnlyList<ICalculation> All { get; } =
+    [
+        new FrictionFactorCalculation(),
+    ];
+
+    /// <summary>Maps every calculation (after the generated JSON metadata is registered, so answers use it from the first).</summary>
+    public static IEndpointRouteBuilder MapCatalogue(this IEndpointRouteBuilder routes)
+    {
+        JsonSetup.UseGenerated(ApiJsonContext.Default);
+        return routes.MapCalculations(All);
+    }
+}
 
 /// <summary>
 /// Compile-time JSON metadata for the calculations' requests and responses (System.Text.Json source generation), with

@@ -1,26 +1,23 @@
 using System.Globalization;
 using FlowSolve.Api.Contracts;
-using FlowSolve.Api.Friction;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Core.Friction;
 
-namespace FlowSolve.Api.Sheets;
+namespace FlowSolve.Api.Friction;
 
 /// <summary>The friction-factor sheet: inputs, relations, the factor and its approximations, and a friction chart.</summary>
-public sealed class FrictionSheet : ISheetBuilder
+public static class FrictionSheet
 {
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
     /// <summary>Relative roughnesses drawn on the friction chart besides the case's own.</summary>
     public static IReadOnlyList<double> ChartRoughnesses { get; } = [0, 1e-5, 1e-4, 5e-4, 1e-3, 5e-3, 0.01, 0.02, 0.05];
 
-    public string Name => "friction-factor";
-
-    public Sheet Build(SheetContext context)
+    /// <summary>The sheet of an answer solved with the trace on (the iterations behind it are in <c>r.Trace</c>).</summary>
+    public static Sheet Build(FrictionFactorRequest request, FrictionFactorResponse r)
     {
-        var request = (FrictionFactorRequest)context.Request;
-        var r = (FrictionFactorResponse)context.Response;
-        var sheet = new Sheet { Title = "Darcy friction factor", Calculation = Name };
+        var sheet = new Sheet { Title = "Darcy friction factor", Calculation = "friction-factor" };
 
         sheet.Inputs.Add(new("Reynolds number Re", SheetHtml.Fmt(r.Reynolds), "-", "as given"));
         sheet.Inputs.Add(new("Relative roughness e/D", SheetHtml.Fmt(r.RelativeRoughness), "-",
@@ -43,15 +40,13 @@ public sealed class FrictionSheet : ISheetBuilder
                 + (a.InRange ? "; inside its range" : "; outside its range")
                 + string.Create(C, $"; at most {a.MaxDeviationPercentOverRange:0.####} % over its range")));
 
-        // The same calculation again with trace=true, for the iterations behind the response.
-        var traced = FrictionEndpoints.Calculate(request with { Trace = true }).Unwrap().Value as FrictionFactorResponse;
-        var steps = traced?.Trace ?? [];
+        var steps = r.Trace ?? [];
         sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual,
             "Colebrook-White in x = 1/sqrt(f): x + 2 log10(e/(3.7 D) + 2.51 x / Re), at the returned factor",
             r.Status, SheetParts.StopReason(r.Status), r.SolveVariable, steps,
             r.Iterations == 0
                 ? "The relation used is explicit: no iterations."
-                : "Iterations of the exact Colebrook-White solve (the same calculation with trace=true); residuals are at each iterate.");
+                : "Iterations of the exact Colebrook-White solve behind this answer; residuals are at each iterate.");
         sheet.Validity.AddRange(r.Validity);
         sheet.Warnings.AddRange(r.Warnings);
 

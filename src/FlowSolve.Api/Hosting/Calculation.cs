@@ -1,0 +1,345 @@
+using System.Text;
+using System.Text.Json;
+using FlowSolve.Api.Contracts;
+using FlowSolve.Api.Sheets;
+using Microsoft.AspNetCore.Http.HttpResults;
+using Microsoft.AspNetCore.Mvc;
+
+namespace FlowSolve.Api.Hosting;
+
+/// <summary>What a calculation declares about itself, once: everything else (routes, batch, check, formats, OpenAPI
+/// metadata, metrics labels) is derived from it by <see cref="CalculationRoutes"/>.</summary>
+/// <param name="Name">The route below /v1 and the calculation's name everywhere (batch, check, metrics): <c>pipes/head-loss</c>.</param>
+/// <param name="Tag">The OpenAPI tag (the area of the trade).</param>
+/// <param name="OperationName">PascalCase stem of the operation ids: <c>Get{OperationName}</c>, <c>Post{OperationName}</c>.</param>
+/// <param name="PrimaryOutput">The response field <c>format=text</c> answers when no <c>select</c> is given.</param>
+/// <param name="Summary">One line: what the calculation gives.</param>
+/// <param name="Description">The operation's description in the OpenAPI document (units, methods, sources, limits).</param>
+public sealed record CalculationInfo(string Name, string Tag, string OperationName, string PrimaryOutput, string Summary, string Description)
+{
+    /// <summary>False for an answer of tables rather than one value per row (a network): <c>format=text</c> answers 400.</summary>
+    public bool Text { get; init; } = true;
+
+    /// <summary>True for a calculation a batch row and a check can run (one request, one answer row).</summary>
+    public bool Rows { get; init; } = true;
+
+    /// <summary>The GET form's summary and description where they differ from the POST form's.</summary>
+    public string? GetSummary { get; init; }
+
+    /// <inheritdoc cref="GetSummary"/>
+    public string? GetDescription { get; init; }
+
+    /// <summary>Output options the calculation takes in the query on both forms, besides format, select, strict and trace.</summary>
+    public IReadOnlyList<QueryOption> Options { get; init; } = [QueryOption.Sensitivities];
+
+    /// <summary>Problem statuses the calculation can answer besides 400 (422 when the physics has no answer, 413, ...).</summary>
+    public IReadOnlyList<int> Problems { get; init; } = [StatusCodes.Status422UnprocessableEntity];
+}
+
+/// <summary>An output option in the query (not a calculation input): its name, kind and description.</summary>
+public sealed record QueryOption(string Name, QueryOptionKind Kind, string Description)
+{
+    /// <summary><c>sensitivities=true</c>: first-order sensitivities of the outputs to the inputs.</summary>
+    public static QueryOption Sensitivities { get; } = new("sensitivities", QueryOptionKind.Boolean, SensitivityDocs.Parameter);
+}
+
+/// <summary>The grammar of a <see cref="QueryOption"/>'s value.</summary>
+public enum QueryOptionKind { Boolean, Integer }
+
+/// <summary>How a calculation was asked for: the output options, and the request's services.</summary>
+/// <param name="Trace">Include the solver's per-iteration record (asked for, or needed by the calculation sheet).</param>
+/// <param name="Sensitivities">Include first-order sensitivities (<c>sensitivities=true</c>).</param>
+/// <param name="Services">The request's services (the application's for a batch row).</param>
+/// <param name="Query">The query of an HTTP call, for the calculation's own <see cref="CalculationInfo.Options"/>; null for a batch row.</param>
+/// <param name="Cancellation">Cancelled when the request is aborted or over its time budget.</param>
+public readonly record struct CalculationContext(bool Trace, bool Sensitivities, IServiceProvider? Services, IQueryCollection? Query,
+    CancellationToken Cancellation)
+{
+    /// <summary>No trace, no sensitivities, no services: a plain solve (batch rows, checks, library-style calls in tests).</summary>
+    public static CalculationContext Plain => default;
+
+    /// <summary>An integer option's value (the strict-query rules have checked its grammar), or null when absent.</summary>
+    public int? Integer(string name) =>
+        Query is { } q && q[name].FirstOrDefault() is { } text && int.TryParse(text, System.Globalization.NumberStyles.AllowLeadingSign,
+            System.Globalization.CultureInfo.InvariantCulture, out int value) ? value : null;
+
+    /// <summary>The raw text of an integer option that does not fit an <see cref="int"/> (so the calculation can name it), or null.</summary>
+    public string? Raw(string name) => Query?[name].FirstOrDefault();
+}
+
+/// <summary>What a calculation's solve gives: the answer, or the problem that stands instead of it (400 or 422).</summary>
+public readonly struct Outcome<TResponse> where TResponse : class
+{
+    private Outcome(TResponse? answer, IResult? problem) => (Answer, Problem) = (answer, problem);
+
+    /// <summary>The 200 answer, or null when <see cref="Problem"/> stands instead.</summary>
+    public TResponse? Answer { get; }
+
+    /// <summary>The problem answer (400, 413, 422), or null when there is an <see cref="Answer"/>.</summary>
+    public IResult? Problem { get; }
+
+    public static implicit operator Outcome<TResponse>(TResponse answer) => new(answer ?? throw new ArgumentNullException(nameof(answer)), null);
+
+    public static implicit operator Outcome<TResponse>(ValidationProblem problem) => new(null, problem);
+
+    public static implicit operator Outcome<TResponse>(ProblemHttpResult problem) => new(null, problem);
+
+    /// <summary>A problem given as any result (a guard's 422, a renamed 400).</summary>
+    public static Outcome<TResponse> Refused(IResult problem) => new(null, problem);
+
+    /// <summary>As an HTTP result: <c>Ok</c> with the answer, or the problem.</summary>
+    public IResult ToResult() => Problem ?? TypedResults.Ok(Answer!);
+}
+
+/// <summary>A request (GET query record or POST body) that can ask for the solver's trace itself.</summary>
+public interface ITraceable
+{
+    bool? Trace { get; }
+}
+
+/// <summary>An answer that can carry sensitivities (<c>sensitivities=true</c>): the calculation sheet shows them.</summary>
+public interface ISensitive
+{
+    IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; }
+}
+
+/// <summary>One calculation as the hosting layer sees it, whatever its types.</summary>
+public interface ICalculation
+{
+    CalculationInfo Info { get; }
+    Type QueryType { get; }
+    Type RequestType { get; }
+    Type ResponseType { get; }
+
+    /// <summary>The GET form's example query (null when the calculation has no GET form).</summary>
+    IReadOnlyList<(string Name, string Value)>? QueryExample { get; }
+
+    /// <summary>The POST form's example body (null when the calculation has no POST form).</summary>
+    object? BodyExample { get; }
+
+    /// <summary>Maps the calculation's GET and POST routes.</summary>
+    void Map(IEndpointRouteBuilder routes);
+
+    /// <summary>Runs the calculation on a bound request, reviewed by <see cref="CalculationGuard"/> as the routes are:
+    /// <c>Ok</c> with the answer, or a problem (for a batch row and a check).</summary>
+    IResult Run(object request, in CalculationContext context);
+}
+
+/// <summary>
+/// A calculation declared once: its <see cref="Info"/>, examples, the solve (validated input to Core result to answer),
+/// and optionally its calculation sheet. The GET form binds <typeparamref name="TQuery"/> from the query and turns it
+/// into the <typeparamref name="TRequest"/> the POST form takes as its JSON body.
+/// </summary>
+public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
+    where TQuery : class where TRequest : class where TResponse : class
+{
+    private IReadOnlyDictionary<string, ResponseColumn>? _columns;
+
+    public abstract CalculationInfo Info { get; }
+
+    /// <summary>The GET form's example query; null for a calculation without a GET form.</summary>
+    public virtual IReadOnlyList<(string Name, string Value)>? QueryExample => null;
+
+    /// <summary>The POST form's example body; null for a calculation without a POST form.</summary>
+    public virtual TRequest? BodyExample => null;
+
+    /// <summary>Validates the request, solves, and builds the answer (or the problem that stands instead).</summary>
+    public abstract Outcome<TResponse> Solve(TRequest request, in CalculationContext context);
+
+    /// <summary>The GET form's query as the body it stands for.</summary>
+    protected virtual TRequest FromQuery(TQuery query) => query as TRequest
+        ?? throw new InvalidOperationException($"{GetType().Name} must override FromQuery: {typeof(TQuery).Name} is not {typeof(TRequest).Name}.");
+
+    /// <summary>A GET form's problem as the query user should read it (field names of the body renamed to the query's).</summary>
+    protected virtual IResult QueryProblem(IResult problem) => problem;
+
+    /// <summary>The calculation sheet of an answer (solved with the trace on); null for a calculation without one.</summary>
+    public virtual Sheet? Sheet(TRequest request, TResponse answer) => null;
+
+    public Type QueryType => typeof(TQuery);
+    public Type RequestType => typeof(TRequest);
+    public Type ResponseType => typeof(TResponse);
+    IReadOnlyList<(string Name, string Value)>? ICalculation.QueryExample => QueryExample;
+    object? ICalculation.BodyExample => BodyExample;
+
+    /// <summary>The answer's scalar fields by wire name, for <c>format=text</c> (compiled once).</summary>
+    private IReadOnlyDictionary<string, ResponseColumn> Columns => _columns ??= ResponseColumns.ByName(typeof(TResponse));
+
+    public IResult Run(object request, in CalculationContext context)
+    {
+        var outcome = Guarded((TRequest)request, context);
+        return outcome.Problem ?? CalculationGuard.Review(Info.Name, outcome.Answer!, strict: false) ?? TypedResults.Ok(outcome.Answer!);
+    }
+
+    public void Map(IEndpointRouteBuilder routes)
+    {
+        var info = Info;
+        var metadata = new CalculationMetadata(info.Name, info.PrimaryOutput, info.Text) { Options = info.Options };
+        string pattern = "/v1/" + info.Name;
+        if (QueryExample is { } query)
+        {
+            var get = routes.MapGet(pattern, ([AsParameters] TQuery q, HttpContext http) => AnswerQuery(q, http))
+                .WithName("Get" + info.OperationName)
+                .WithSummary(info.GetSummary ?? (BodyExample is null ? info.Summary : info.Summary + " (query parameters)"))
+                .WithDescription(info.GetDescription ?? info.Description)
+                .WithMetadata(new RequestExample(query, null));
+            Describe(get, metadata, info);
+        }
+        if (BodyExample is { } body)
+        {
+            var post = routes.MapPost(pattern, (TRequest r, HttpContext http) => AnswerBody(r, http))
+                .WithName("Post" + info.OperationName)
+                .WithSummary(info.Summary + " (JSON body)")
+                .WithDescription(info.Description)
+                .WithMetadata(new RequestExample([], JsonSerializer.SerializeToNode(body, JsonSetup.Options)));
+            Describe(post, metadata, info);
+        }
+    }
+
+    private static void Describe(RouteHandlerBuilder route, CalculationMetadata metadata, CalculationInfo info)
+    {
+        route.WithTags(info.Tag).WithMetadata(metadata)
+            .Produces<TResponse>(StatusCodes.Status200OK, "application/json")
+            .ProducesValidationProblem();
+        foreach (int status in info.Problems) route.ProducesProblem(status);
+    }
+
+    private IResult AnswerQuery(TQuery query, HttpContext http)
+    {
+        if (Formats.Read(http, Info) is { Problem: { } refused }) return refused;
+        var request = FromQuery(query);
+        var result = Answer(request, http, (request as ITraceable)?.Trace == true);
+        var (status, _) = result.Unwrap();
+        return status == StatusCodes.Status400BadRequest ? QueryProblem(result) : result;
+    }
+
+    private IResult AnswerBody(TRequest request, HttpContext http)
+    {
+        if (Formats.Read(http, Info) is { Problem: { } refused }) return refused;
+        bool trace = (request as ITraceable)?.Trace == true || Formats.Flag(http, "trace");
+        return Answer(request, http, trace);
+    }
+
+    /// <summary>Solves once and projects the outcome into the format asked for: JSON, one text cell, or the sheet.</summary>
+    private IResult Answer(TRequest request, HttpContext http, bool trace)
+    {
+        var format = Formats.Read(http, Info).Format;
+        var context = new CalculationContext(trace || format == Format.Html, Formats.Flag(http, "sensitivities"), http.RequestServices,
+            http.Request.Query, http.RequestAborted);
+        var outcome = Guarded(request, context);
+        if (outcome.Problem is { } problem) return Formats.Problem(format, Info.Name, problem, http);
+        var answer = outcome.Answer!;
+        SolverMetrics.Record(Info.Name, answer);
+        if (CalculationGuard.Review(Info.Name, answer, Formats.Flag(http, "strict")) is { } refused)
+            return Formats.Problem(format, Info.Name, refused, http);
+        return format switch
+        {
+            Format.Text => Text(answer, http),
+            Format.Html => Html(request, answer, http),
+            _ => new JsonAnswer(answer, StatusCodes.Status200OK),
+        };
+    }
+
+    private Outcome<TResponse> Guarded(TRequest request, in CalculationContext context)
+    {
+        try
+        {
+            return Solve(request, context);
+        }
+        catch (Exception e) when (CalculationGuard.FromException(Info.Name, e) is { } problem)
+        {
+            return Outcome<TResponse>.Refused(problem);
+        }
+    }
+
+    /// <summary>One cell: the field asked for, read by its compiled column reader (the same digits as the JSON answer).</summary>
+    private IResult Text(TResponse answer, HttpContext http)
+    {
+        string field = http.Request.Query["select"].FirstOrDefault() ?? Info.PrimaryOutput;
+        if (field.Equals("warnings", StringComparison.OrdinalIgnoreCase))
+            return new TextAnswer(answer is IWarned w ? string.Join(",", w.WarningCodes()) : "", StatusCodes.Status200OK);
+        if (Columns.TryGetValue(field, out var column))
+        {
+            var cell = new StringBuilder(24);
+            column.WriteText(answer, cell);
+            return new TextAnswer(cell.ToString(), StatusCodes.Status200OK);
+        }
+        // Fields that are not columns (an entry of sensitivities, say) are read from the answer's JSON.
+        var json = JsonSerializer.SerializeToElement(answer, typeof(TResponse), JsonSetup.Options);
+        if (TextFormatFilter.TryRead(json, field, out string? text)) return new TextAnswer(text, StatusCodes.Status200OK);
+        string? near = StrictQuery.Closest(field, Columns.Keys);
+        return new TextAnswer($"error: select: no output field named '{field}'" + (near is null ? "" : $"; did you mean '{near}'?") +
+            $" (fields: {string.Join(", ", Columns.Keys)})", StatusCodes.Status400BadRequest);
+    }
+
+    private IResult Html(TRequest request, TResponse answer, HttpContext http)
+    {
+        var now = (http.RequestServices.GetService<TimeProvider>() ?? TimeProvider.System).GetUtcNow();
+        if (Sheet(request, answer) is not { } sheet)
+        {
+            var none = new ProblemDetails { Title = "No calculation sheet.", Detail = $"{Info.Name} has no calculation sheet; use format=json." };
+            return TypedResults.Text(SheetHtml.Problem(Info.Name, 400, none, now), SheetHtml.ContentType, Encoding.UTF8, 400);
+        }
+        // Every answer that carries sensitivities names them alike, so one table serves every sheet.
+        if (answer is ISensitive s) sheet.Sensitivities ??= s.Sensitivities;
+        return TypedResults.Text(SheetHtml.Render(sheet, now), SheetHtml.ContentType, Encoding.UTF8, 200);
+    }
+}
+
+/// <summary>A calculation whose GET query and POST body are the same record.</summary>
+public abstract class Calculation<TRequest, TResponse> : Calculation<TRequest, TRequest, TResponse>
+    where TRequest : class where TResponse : class;
+
+/// <summary>The formats a calculation answers in.</summary>
+internal enum Format { Json, Text, Html }
+
+/// <summary>Reads the output options every calculation shares, and writes problems in the format asked for.</summary>
+internal static class Formats
+{
+    /// <summary>The format asked for, or the 400 that refuses it (unknown, or text for an answer of tables).</summary>
+    public static (Format Format, IResult? Problem) Read(HttpContext http, CalculationInfo info)
+    {
+        string? format = http.Request.Query["format"].FirstOrDefault();
+        if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase)) return (Format.Json, null);
+        if (format.Equals("html", StringComparison.OrdinalIgnoreCase)) return (Format.Html, null);
+        if (!format.Equals("text", StringComparison.OrdinalIgnoreCase))
+            return (Format.Json, Problems.ProblemResults.BadInput("format", "must be json, text or html"));
+        if (!info.Text)
+            return (Format.Json, Problems.ProblemResults.BadInput("format",
+                $"must be json or html for {info.Name}: its answer is tables (one row per element and load case), not one value for a cell"));
+        return (Format.Text, null);
+    }
+
+    /// <summary>True for a boolean option given as true (the strict-query rules have refused other values).</summary>
+    public static bool Flag(HttpContext http, string name) =>
+        string.Equals(http.Request.Query[name].FirstOrDefault(), "true", StringComparison.OrdinalIgnoreCase);
+
+    /// <summary>A problem as the format asked for shows it: the problem body (JSON), one line (text), a small page (html).</summary>
+    public static IResult Problem(Format format, string calculation, IResult problem, HttpContext http)
+    {
+        if (format == Format.Json) return problem;
+        var (status, value) = problem.Unwrap();
+        if (format == Format.Text) return new TextAnswer(TextFormatFilter.ErrorLine(value), status);
+        var now = (http.RequestServices.GetService<TimeProvider>() ?? TimeProvider.System).GetUtcNow();
+        return TypedResults.Text(SheetHtml.Problem(calculation, status, value, now), SheetHtml.ContentType, Encoding.UTF8, status);
+    }
+}
+
+/// <summary>Maps every calculation of a catalogue and registers its rows for batches and checks.</summary>
+public static class CalculationRoutes
+{
+    public static IEndpointRouteBuilder MapCalculations(this IEndpointRouteBuilder routes, IEnumerable<ICalculation> calculations)
+    {
+        var catalog = routes.ServiceProvider.GetRequiredService<CalculationCatalog>();
+        var services = routes.ServiceProvider;
+        foreach (var calculation in calculations)
+        {
+            calculation.Map(routes);
+            if (!calculation.Info.Rows) continue;
+            var c = calculation;
+            catalog.Add(new CalculationDescriptor(c.Info.Name, c.Info.PrimaryOutput, c.RequestType, c.ResponseType,
+                request => c.Run(request, CalculationContext.Plain with { Services = services })));
+        }
+        return routes;
+    }
+}

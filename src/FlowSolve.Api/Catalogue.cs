@@ -22,6 +22,12 @@ public static class Catalogue
     public static IReadOnlyList<ICalculation> All { get; } =
     [
         new FrictionFactorCalculation(),
+        new WaterCalculation(),
+        new NormalDepthCalculation(),
+        new CriticalDepthCalculation(),
+        new DutyPointCalculation(),
+        new PumpCurvesCalculation(),
+        new NetworkSolveCalculation(),
     ];
 
     /// <summary>Maps every calculation (after the generated JSON metadata is registered, so answers use it from the first).</summary>

@@ -1,12 +1,8 @@
 using FlowSolve.Api.Batch;
-using FlowSolve.Api.Channels;
 using FlowSolve.Api.Check;
-using FlowSolve.Api.Fluids;
 using FlowSolve.Api;
 using FlowSolve.Api.Hosting;
-using FlowSolve.Api.Networks;
 using FlowSolve.Api.Pipes;
-using FlowSolve.Api.Pumps;
 using Serilog;
 
 // Two-stage Serilog start: a console logger until the configuration is read, so start-up failures are logged too.
@@ -25,12 +21,8 @@ try
     var app = builder.Build();
     app.UseFlowSolvePipeline();
     app.MapCatalogue();
-    app.MapFluidEndpoints();
-    app.MapPumpEndpoints();
     app.MapBatchEndpoints();
     app.MapPipeEndpoints();
-    app.MapChannelEndpoints();
-    app.MapNetworkEndpoints();
     app.MapCheckEndpoints(); // after every calculation: it registers a check for each
     app.Run();
 }

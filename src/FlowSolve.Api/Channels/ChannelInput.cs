@@ -46,6 +46,12 @@ internal static class ChannelInput
     public static double MaximumFlow(ChannelUnits u) => u.IsUs ? 3e9 : 1e8;
 
     /// <summary>Parses <c>points=station:elevation[:manningN],...</c> from a query string.</summary>
+    /// <summary>A query's top-level section fields as the body's section object (for the calculation sheet: the query
+    /// has been read without errors already).</summary>
+    public static SectionInput Section(string? shape, double? bottomWidth, double? sideSlope, double? leftSideSlope,
+        double? rightSideSlope, double? diameter, string? points) =>
+        new(shape, bottomWidth, sideSlope, leftSideSlope, rightSideSlope, diameter, ParsePoints(points, new FieldErrors()));
+
     public static IReadOnlyList<SurveyPointInput>? ParsePoints(string? text, FieldErrors errors)
     {
         if (text is null) return null;

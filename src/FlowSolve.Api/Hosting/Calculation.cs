@@ -146,12 +146,13 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
     /// <summary>Validates the request, solves, and builds the answer (or the problem that stands instead).</summary>
     public abstract Outcome<TResponse> Solve(TRequest request, in CalculationContext context);
 
-    /// <summary>The GET form's query as the body it stands for.</summary>
+    /// <summary>The GET form's query as the body it stands for (the calculation sheet reads the request in this form).</summary>
     protected virtual TRequest FromQuery(TQuery query) => query as TRequest
         ?? throw new InvalidOperationException($"{GetType().Name} must override FromQuery: {typeof(TQuery).Name} is not {typeof(TRequest).Name}.");
 
-    /// <summary>A GET form's problem as the query user should read it (field names of the body renamed to the query's).</summary>
-    protected virtual IResult QueryProblem(IResult problem) => problem;
+    /// <summary>Solves the GET form: by default <see cref="Solve"/> on <see cref="FromQuery"/>. A calculation whose query
+    /// names fields differently from its body overrides this so a problem names the parameter the user typed.</summary>
+    protected virtual Outcome<TResponse> SolveQuery(TQuery query, in CalculationContext context) => Solve(FromQuery(query), context);
 
     /// <summary>The calculation sheet of an answer (solved with the trace on); null for a calculation without one.</summary>
     public virtual Sheet? Sheet(TRequest request, TResponse answer) => null;
@@ -167,7 +168,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
 
     public IResult Run(object request, in CalculationContext context)
     {
-        var outcome = Guarded((TRequest)request, context);
+        var outcome = Guarded(static (self, r, c) => self.Solve(r, c), (TRequest)request, context);
         return outcome.Problem ?? CalculationGuard.Review(Info.Name, outcome.Answer!, strict: false) ?? TypedResults.Ok(outcome.Answer!);
     }
 
@@ -206,27 +207,30 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
 
     private IResult AnswerQuery(TQuery query, HttpContext http)
     {
-        if (Formats.Read(http, Info) is { Problem: { } refused }) return refused;
-        var request = FromQuery(query);
-        var result = Answer(request, http, (request as ITraceable)?.Trace == true);
-        var (status, _) = result.Unwrap();
-        return status == StatusCodes.Status400BadRequest ? QueryProblem(result) : result;
+        var (format, refused) = Formats.Read(http, Info);
+        if (refused is not null) return refused;
+        bool trace = (query as ITraceable)?.Trace == true;
+        var context = Context(http, format, trace);
+        var outcome = Guarded(static (self, q, c) => self.SolveQuery(q, c), query, context);
+        return Answer(outcome, format, http, () => FromQuery(query));
     }
 
     private IResult AnswerBody(TRequest request, HttpContext http)
     {
-        if (Formats.Read(http, Info) is { Problem: { } refused }) return refused;
+        var (format, refused) = Formats.Read(http, Info);
+        if (refused is not null) return refused;
         bool trace = (request as ITraceable)?.Trace == true || Formats.Flag(http, "trace");
-        return Answer(request, http, trace);
+        var context = Context(http, format, trace);
+        var outcome = Guarded(static (self, r, c) => self.Solve(r, c), request, context);
+        return Answer(outcome, format, http, () => request);
     }
 
-    /// <summary>Solves once and projects the outcome into the format asked for: JSON, one text cell, or the sheet.</summary>
-    private IResult Answer(TRequest request, HttpContext http, bool trace)
+    private static CalculationContext Context(HttpContext http, Format format, bool trace) =>
+        new(trace || format == Format.Html, Formats.Flag(http, "sensitivities"), http.RequestServices, http.Request.Query, http.RequestAborted);
+
+    /// <summary>Projects the one solve's outcome into the format asked for: JSON, one text cell, or the sheet.</summary>
+    private IResult Answer(in Outcome<TResponse> outcome, Format format, HttpContext http, Func<TRequest> request)
     {
-        var format = Formats.Read(http, Info).Format;
-        var context = new CalculationContext(trace || format == Format.Html, Formats.Flag(http, "sensitivities"), http.RequestServices,
-            http.Request.Query, http.RequestAborted);
-        var outcome = Guarded(request, context);
         if (outcome.Problem is { } problem) return Formats.Problem(format, Info.Name, problem, http);
         var answer = outcome.Answer!;
         SolverMetrics.Record(Info.Name, answer);
@@ -235,16 +239,17 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
         return format switch
         {
             Format.Text => Text(answer, http),
-            Format.Html => Html(request, answer, http),
+            Format.Html => Html(request(), answer, http),
             _ => new JsonAnswer(answer, StatusCodes.Status200OK),
         };
     }
 
-    private Outcome<TResponse> Guarded(TRequest request, in CalculationContext context)
+    private Outcome<TResponse> Guarded<TInput>(Func<Calculation<TQuery, TRequest, TResponse>, TInput, CalculationContext, Outcome<TResponse>> solve,
+        TInput input, in CalculationContext context)
     {
         try
         {
-            return Solve(request, context);
+            return solve(this, input, context);
         }
         catch (Exception e) when (CalculationGuard.FromException(Info.Name, e) is { } problem)
         {

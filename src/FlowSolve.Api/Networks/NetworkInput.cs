@@ -76,7 +76,7 @@ internal static class NetworkInput
         var method = new List<string>
         {
             "global gradient algorithm (Todini and Pilati 1988): Newton iteration on the energy and continuity equations of the whole network, "
-                + NetworkDocs.HeadSolverMethod(NetworkEndpoints.SolverOptions.LinearSolver)
+                + NetworkDocs.HeadSolverMethod(NetworkSolveCalculation.SolverOptions.LinearSolver)
                 + "; converged when every link's energy and every junction's continuity are within 1e-10 m and 1e-10 m3/s, or within what double precision resolves at that element's scale where that is finer",
         };
 

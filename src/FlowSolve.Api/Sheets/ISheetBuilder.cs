@@ -32,11 +32,6 @@ public static class SheetBuilders
         new PipeHeadLossSheet(),
         new PipeFlowSheet(),
         new PipeDiameterSheet(),
-        new NormalDepthSheet(),
-        new CriticalDepthSheet(),
-        new WaterSheet(),
-        new PumpDutySheet(),
-        new NetworkSheet(),
     }.ToDictionary(b => b.Name, StringComparer.OrdinalIgnoreCase);
 
     public static IEnumerable<string> Names => ByName.Keys;

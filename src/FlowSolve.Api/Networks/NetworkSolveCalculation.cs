@@ -2,6 +2,7 @@ using System.Globalization;
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Api.Pumps;
 using FlowSolve.Core.Friction;
 using FlowSolve.Core.Networks;
@@ -14,7 +15,7 @@ namespace FlowSolve.Api.Networks;
 /// <summary>Looped pipe networks: <c>POST /v1/networks/solve</c>.</summary>
 /// <remarks>Not a row calculation: there is no GET form, no batch and no check (a network answer is tables, not one
 /// value per row), and format=text answers 400 naming <c>format</c>; format=html gives the calculation sheet.</remarks>
-public static class NetworkEndpoints
+public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, NetworkSolveResponse>
 {
     public const string Calculation = "networks/solve";
 
@@ -22,23 +23,23 @@ public static class NetworkEndpoints
     /// answer's headSolver are read from them, so they name what ran.</summary>
     public static NetworkOptions SolverOptions { get; } = NetworkOptions.Default;
 
-    public static IEndpointRouteBuilder MapNetworkEndpoints(this IEndpointRouteBuilder routes)
+    public override CalculationInfo Info { get; } = new(Calculation, "Networks", "NetworkSolve", "converged",
+        "Steady flows and heads of a looped pipe network, for one or more load cases", NetworkDocs.Solve)
     {
-        var group = routes.MapGroup("/v1/networks").WithTags("Networks");
+        Text = false,
+        Rows = false,
+        Options = [],
+        Problems = [StatusCodes.Status413PayloadTooLarge, StatusCodes.Status422UnprocessableEntity],
+    };
 
-        group.MapPost("/solve", (NetworkSolveRequest request, IOptions<FlowSolveOptions> options, CancellationToken cancellation) =>
-                Solve(request, options.Value.Limits, cancellation))
-            .WithName("PostNetworkSolve")
-            .WithSummary("Steady flows and heads of a looped pipe network, for one or more load cases (JSON body)")
-            .WithDescription(NetworkDocs.Solve)
-            .WithBodyExample(NetworkDocs.Example)
-            .ProducesProblem(StatusCodes.Status413PayloadTooLarge)
-            .ProducesProblem(StatusCodes.Status422UnprocessableEntity)
-            .AsCalculation(Calculation, "converged", text: false);
-        return routes;
-    }
+    public override NetworkSolveRequest BodyExample => NetworkDocs.Example;
 
-    public static Results<Ok<NetworkSolveResponse>, ValidationProblem, ProblemHttpResult> Solve(
+    public override Outcome<NetworkSolveResponse> Solve(NetworkSolveRequest request, in CalculationContext context) =>
+        Solve(request, (context.Services?.GetService<IOptions<FlowSolveOptions>>()?.Value ?? new FlowSolveOptions()).Limits, context.Cancellation);
+
+    public override Sheet Sheet(NetworkSolveRequest request, NetworkSolveResponse answer) => NetworkSheet.Build(request, answer);
+
+    public static Outcome<NetworkSolveResponse> Solve(
         NetworkSolveRequest request, FlowSolveOptions.LimitSettings limits, CancellationToken cancellation = default)
     {
         if (TooLarge(request, limits) is { } tooLarge) return tooLarge;
@@ -94,7 +95,7 @@ public static class NetworkEndpoints
             validity.Report(input), input.Warnings, input.Assumptions,
             NetworkDocs.HeadSolverCode(SolverOptions.LinearSolver), input.Detail);
         if (!Finite(response)) return OutOfRange("The solve met values too large for double precision (the inputs are extreme in magnitude); rescale them.");
-        return TypedResults.Ok(response);
+        return response;
     }
 
     private static ProblemHttpResult? TooLarge(NetworkSolveRequest r, FlowSolveOptions.LimitSettings limits)

@@ -10,54 +10,11 @@ using Microsoft.AspNetCore.Mvc;
 
 namespace FlowSolve.Api.Channels;
 
-/// <summary>Open-channel flow: <c>GET</c> and <c>POST /v1/channels/normal-depth</c> and <c>/v1/channels/critical-depth</c>.</summary>
-public static class ChannelEndpoints
+/// <summary>Normal and critical depth from a body's section object or a query's top-level section fields (whose
+/// problems name the fields as typed: <c>section.bottomWidth</c> in a body, <c>bottomWidth</c> in a query).</summary>
+internal static class ChannelDepths
 {
-    public static IEndpointRouteBuilder MapChannelEndpoints(this IEndpointRouteBuilder routes)
-    {
-        var group = routes.MapGroup("/v1/channels").WithTags("Channels");
-
-        group.MapGet("/normal-depth", ([AsParameters] NormalDepthQuery request,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => NormalDepth(request, sensitivities == true))
-            .WithName("GetNormalDepth")
-            .WithSummary("Normal depth by Manning's equation (query parameters)")
-            .WithDescription(ChannelDocs.NormalDepth)
-            .WithQueryExample(("shape", "trapezoidal"), ("bottomWidth", "3"), ("sideSlope", "2"), ("manningN", "0.025"),
-                ("slope", "0.001"), ("flow", "10"))
-            .AsCalculation("channels/normal-depth", "normalDepth");
-
-        group.MapPost("/normal-depth", (NormalDepthRequest request,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => NormalDepth(request, sensitivities == true))
-            .WithName("PostNormalDepth")
-            .WithSummary("Normal depth by Manning's equation (JSON body)")
-            .WithDescription(ChannelDocs.NormalDepth)
-            .WithBodyExample(new NormalDepthRequest(new SectionInput("circular", Diameter: 1.2), ManningN: 0.013, Slope: 0.002, Flow: 1.1))
-            .AsCalculation("channels/normal-depth", "normalDepth");
-
-        group.MapGet("/critical-depth", ([AsParameters] CriticalDepthQuery request,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => CriticalDepth(request, sensitivities == true))
-            .WithName("GetCriticalDepth")
-            .WithSummary("Critical depth (query parameters)")
-            .WithDescription(ChannelDocs.CriticalDepth)
-            .WithQueryExample(("shape", "rectangular"), ("bottomWidth", "4"), ("flow", "12"), ("manningN", "0.015"))
-            .AsCalculation("channels/critical-depth", "criticalDepth");
-
-        group.MapPost("/critical-depth", (CriticalDepthRequest request,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => CriticalDepth(request, sensitivities == true))
-            .WithName("PostCriticalDepth")
-            .WithSummary("Critical depth (JSON body)")
-            .WithDescription(ChannelDocs.CriticalDepth)
-            .WithBodyExample(new CriticalDepthRequest(new SectionInput("surveyed", Points:
-                [new(0, 2.5, 0.035), new(3, 1.0, 0.035), new(5, 0), new(9, 0, 0.035), new(11, 1.0, 0.035), new(14, 2.2)]),
-                Flow: 8, ManningN: 0.02))
-            .AsCalculation("channels/critical-depth", "criticalDepth");
-
-        routes.AddCalculation<NormalDepthRequest, NormalDepthResponse>("channels/normal-depth", "normalDepth", r => NormalDepth(r));
-        routes.AddCalculation<CriticalDepthRequest, CriticalDepthResponse>("channels/critical-depth", "criticalDepth", r => CriticalDepth(r));
-        return routes;
-    }
-
-    public static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(NormalDepthRequest request, bool sensitivities = false)
+    public static Outcome<NormalDepthResponse> NormalDepth(NormalDepthRequest request, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         if (request.Section is null) errors.Add("section", "is required: an object with shape and its dimensions");
@@ -65,7 +22,7 @@ public static class ChannelEndpoints
             request.ManningN, request.Slope, request.Flow, request.Units, errors, sensitivities);
     }
 
-    public static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(NormalDepthQuery q, bool sensitivities = false)
+    public static Outcome<NormalDepthResponse> NormalDepth(NormalDepthQuery q, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var fields = new SectionFields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter,
@@ -73,7 +30,7 @@ public static class ChannelEndpoints
         return NormalDepth(fields, "", q.ManningN, q.Slope, q.Flow, q.Units, errors, sensitivities);
     }
 
-    public static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(CriticalDepthRequest request, bool sensitivities = false)
+    public static Outcome<CriticalDepthResponse> CriticalDepth(CriticalDepthRequest request, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         if (request.Section is null) errors.Add("section", "is required: an object with shape and its dimensions");
@@ -81,7 +38,7 @@ public static class ChannelEndpoints
             request.ManningN, request.Flow, request.Units, errors, sensitivities);
     }
 
-    public static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(CriticalDepthQuery q, bool sensitivities = false)
+    public static Outcome<CriticalDepthResponse> CriticalDepth(CriticalDepthQuery q, bool sensitivities = false)
     {
         var errors = new FieldErrors();
         var fields = new SectionFields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter,
@@ -89,7 +46,7 @@ public static class ChannelEndpoints
         return CriticalDepth(fields, "", q.ManningN, q.Flow, q.Units, errors, sensitivities);
     }
 
-    private static Results<Ok<NormalDepthResponse>, ValidationProblem, ProblemHttpResult> NormalDepth(
+    private static Outcome<NormalDepthResponse> NormalDepth(
         SectionFields? fields, string prefix, double? manningN, double? slope, double? flow, string? unitsText, FieldErrors errors,
         bool sensitivities)
     {
@@ -144,7 +101,7 @@ public static class ChannelEndpoints
             AddDimensions(fields!, prefix, section, d, Add);
             response = response with { Sensitivities = b.Build() };
         }
-        return TypedResults.Ok(response);
+        return response;
     }
 
     /// <summary>The section's own dimensions, named as the request gave them (sideSlope moves both sides at once).</summary>
@@ -177,7 +134,7 @@ public static class ChannelEndpoints
 
     private delegate void DimensionSink(string input, double value, in ChannelOutputDerivatives derivatives);
 
-    private static Results<Ok<CriticalDepthResponse>, ValidationProblem, ProblemHttpResult> CriticalDepth(
+    private static Outcome<CriticalDepthResponse> CriticalDepth(
         SectionFields? fields, string prefix, double? manningN, double? flow, string? unitsText, FieldErrors errors,
         bool sensitivities)
     {
@@ -223,7 +180,7 @@ public static class ChannelEndpoints
             AddDimensions(fields!, prefix, section, d, Add);
             response = response with { Sensitivities = b.Build() };
         }
-        return TypedResults.Ok(response);
+        return response;
     }
 
     /// <summary>422 for a flow above a part-full pipe's peak discharge or one that overtops a surveyed section, in the request's units.</summary>

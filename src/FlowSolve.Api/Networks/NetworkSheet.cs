@@ -1,27 +1,25 @@
 using System.Globalization;
 using FlowSolve.Api.Contracts;
-using FlowSolve.Api.Networks;
+using FlowSolve.Api.Sheets;
 
-namespace FlowSolve.Api.Sheets;
+namespace FlowSolve.Api.Networks;
 
 /// <summary>
 /// The network sheet: the network as understood (nodes and links), the method with its sources, per load case the
 /// totals and the tables of pipes, junctions, pumps and reservoirs, the convergence record, a schematic drawn from the
 /// node coordinates (when every node has them), the convergence plot, validity, warnings and the cautions.
 /// </summary>
-public sealed class NetworkSheet : ISheetBuilder
+public static class NetworkSheet
 {
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
     /// <summary>Most rows of one table on the sheet; the JSON answer always holds every element.</summary>
     public const int MaximumTableRows = 2000;
 
-    public string Name => NetworkEndpoints.Calculation;
+    private const string Name = NetworkSolveCalculation.Calculation;
 
-    public Sheet Build(SheetContext context)
+    public static Sheet Build(NetworkSolveRequest request, NetworkSolveResponse r)
     {
-        var request = context.Request as NetworkSolveRequest ?? throw new ArgumentException("not a network request", nameof(context));
-        var r = (NetworkSolveResponse)context.Response;
         string qu = r.FlowUnit, hu = r.HeadUnit, vu = r.VelocityUnit;
         var sheet = new Sheet { Title = request.Title is { Length: > 0 } t ? "Pipe network: " + t : "Pipe network", Calculation = Name };
 

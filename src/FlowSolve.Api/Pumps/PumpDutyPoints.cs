@@ -14,46 +14,10 @@ using Microsoft.AspNetCore.Mvc;
 
 namespace FlowSolve.Api.Pumps;
 
-/// <summary>Pump duty points and operating curves: <c>GET|POST /v1/pumps/duty-point</c>, <c>POST /v1/pumps/curves</c>.</summary>
-public static class PumpEndpoints
+/// <summary>The duty point and the operating curves from a body or the compact query form (whose problems and
+/// sensitivities name the parameters as typed: <c>c0</c> rather than <c>pump.coefficients[0]</c>).</summary>
+internal static class PumpDutyPoints
 {
-    public static IEndpointRouteBuilder MapPumpEndpoints(this IEndpointRouteBuilder routes)
-    {
-        var group = routes.MapGroup("/v1/pumps").WithTags("Pumps");
-        // The duty point answers 422 (with dutyPointStatus) for a well-formed problem without an answer.
-        var duty = group.MapGroup("").ProducesProblem(StatusCodes.Status422UnprocessableEntity);
-
-        duty.MapGet("/duty-point", ([AsParameters] DutyPointQuery query,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => DutyPointFromQuery(query, sensitivities == true))
-            .WithName("GetPumpDutyPoint")
-            .WithSummary("Pump duty point, compact form (query parameters)")
-            .WithDescription(PumpDocs.DutyPointGet)
-            .WithQueryExample(("c0", "40"), ("c1", "0"), ("c2", "-5000"), ("staticHead", "15"), ("resistance", "3000"))
-            .AsCalculation("pumps/duty-point", "flow");
-
-        duty.MapPost("/duty-point", (DutyPointRequest request,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => CalculateDutyPoint(request, sensitivities == true))
-            .WithName("PostPumpDutyPoint")
-            .WithSummary("Pump duty point (JSON body)")
-            .WithDescription(PumpDocs.DutyPoint)
-            .WithBodyExample(PumpDocs.Example)
-            .AsCalculation("pumps/duty-point", "flow");
-
-        group.MapPost("/curves", (DutyPointRequest request,
-                [FromQuery(Name = "samplePoints")]
-                [Description("Number of points on each curve, 2 to 10001; 41 when omitted.")] int? samplePoints,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) =>
-                CalculateCurves(request, samplePoints, sensitivities == true))
-            .WithName("PostPumpCurves")
-            .WithSummary("Pump, pump-set and system curves for plotting, with the duty point (JSON body)")
-            .WithDescription(PumpDocs.Curves)
-            .WithBodyExample(PumpDocs.Example)
-            .AsCalculation("pumps/curves", "dutyPoint.flow");
-
-        routes.AddCalculation<DutyPointRequest, DutyPointResponse>("pumps/duty-point", "flow", r => CalculateDutyPoint(r));
-        return routes;
-    }
-
     /// <summary>The GET form's names for the nested fields, so a spreadsheet user is told about the parameter they typed.</summary>
     private static readonly Dictionary<string, string> QueryNames = new(StringComparer.Ordinal)
     {
@@ -82,21 +46,19 @@ public static class PumpEndpoints
             q.KinematicViscosity, q.Density, suction, q.Units, q.FlowUnit, q.Trace);
     }
 
-    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> DutyPointFromQuery(DutyPointQuery q, bool sensitivities = false)
+    public static Outcome<DutyPointResponse> FromQuery(DutyPointQuery q, in CalculationContext context)
     {
         var request = ToRequest(q);
         var system = request.System;
         // With no system at all, the first thing to say is that the static head is missing.
         var names = system is null ? new Dictionary<string, string>(QueryNames) { ["system"] = "staticHead" } : QueryNames;
-        return Calculate(request, names, sensitivities);
+        return Calculate(request, names, context);
     }
 
-    public static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> CalculateDutyPoint(DutyPointRequest request, bool sensitivities = false) =>
-        Calculate(request, null, sensitivities);
-
-    private static Results<Ok<DutyPointResponse>, ValidationProblem, ProblemHttpResult> Calculate(
-        DutyPointRequest request, IReadOnlyDictionary<string, string>? names, bool sensitivities = false)
+    public static Outcome<DutyPointResponse> Calculate(DutyPointRequest request, IReadOnlyDictionary<string, string>? names,
+        in CalculationContext context)
     {
+        if (context.Trace && request.Trace != true) request = request with { Trace = true };
         var errors = new FieldErrors();
         var input = PumpInputReader.Read(request, errors, names);
         if (errors.Any || input is null) return ProblemResults.BadInput(errors);
@@ -104,16 +66,20 @@ public static class PumpEndpoints
         if (!result.Status.HasAnswer() && result.Status != DutyStatus.NotConverged) return NoAnswer(result, input.Units);
         if (!IsFinite(result)) return OutOfRange();
         var response = Response(input, result, trace);
-        if (sensitivities && result.Status == DutyStatus.Solved) response = response with { Sensitivities = Sensitivities(request, input, result, names) };
-        return TypedResults.Ok(response);
+        if (context.Sensitivities && result.Status == DutyStatus.Solved) response = response with { Sensitivities = Sensitivities(request, input, result, names) };
+        return response;
     }
 
-    public static Results<Ok<PumpCurvesResponse>, ValidationProblem> CalculateCurves(DutyPointRequest request, int? samplePoints, bool sensitivities = false)
+    public static Outcome<PumpCurvesResponse> Curves(DutyPointRequest request, in CalculationContext context)
     {
+        bool sensitivities = context.Sensitivities;
+        if (context.Trace && request.Trace != true) request = request with { Trace = true };
         var errors = new FieldErrors();
         var input = PumpInputReader.Read(request, errors, null);
-        if (samplePoints is int n && (n < 2 || n > OperatingCurves.MaximumPoints))
-            errors.Add("samplePoints", "must lie in 2 to 10001");
+        int? samplePoints = context.Integer(PumpCurvesCalculation.SamplePoints.Name);
+        if (samplePoints is int n && (n < 2 || n > OperatingCurves.MaximumPoints)
+            || samplePoints is null && context.Raw(PumpCurvesCalculation.SamplePoints.Name) is not null)
+            errors.Add("samplePoints", "must be a whole number in 2 to 10001");
         if (errors.Any || input is null) return ProblemResults.BadInput(errors);
 
         var (result, trace) = Solve(input);
@@ -127,12 +93,12 @@ public static class PumpEndpoints
             warnings.Insert(0, result.Status is DutyStatus.ShutOffBelowStaticHead or DutyStatus.CurvesDoNotMeet
                 ? new WarningDto(result.Status.Code(), NoAnswerDetail(result, u))
                 : new WarningDto("not-finite", "The duty-point solve met values too large for double precision; there is no duty point to show."));
-        return TypedResults.Ok(new PumpCurvesResponse(
+        return new PumpCurvesResponse(
             Convert(curves.Flow, u.Flow), Convert(curves.PumpHead, u.Head), Convert(curves.SetHead, u.Head), Convert(curves.SystemHead, u.Head),
             curves.Efficiency is null ? null : Convert(curves.Efficiency, x => x),
             curves.NpshRequired is null ? null : Convert(curves.NpshRequired, u.Head),
             result.Status.Code(), result.Status.Reason(), duty, duty?.Iterations ?? 0, result.Status.HasAnswer(),
-            u.Code, u.FlowUnit, u.HeadUnit, warnings, input.Assumptions));
+            u.Code, u.FlowUnit, u.HeadUnit, warnings, input.Assumptions);
     }
 
     /// <summary>The duty point's flow and head against every numeric input they depend on (<see cref="DutyPointSensitivity"/>),

@@ -3,6 +3,7 @@ using System.Globalization;
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Core.Fluids;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Microsoft.AspNetCore.Mvc;
@@ -38,28 +39,22 @@ public sealed record WaterResponse(
 }
 
 
-/// <summary><c>GET /v1/fluids/water</c>.</summary>
-public static class FluidEndpoints
+/// <summary>Properties of liquid water: <c>GET /v1/fluids/water</c>.</summary>
+public sealed class WaterCalculation : Calculation<WaterRequest, WaterResponse>
 {
     private const string Method = "IAPWS-IF97 region 1 (density) and region 4 (vapour pressure); IAPWS 2008 viscosity release, industrial form";
 
-    public static IEndpointRouteBuilder MapFluidEndpoints(this IEndpointRouteBuilder routes)
-    {
-        var group = routes.MapGroup("/v1/fluids").WithTags("Fluids");
-        group.MapGet("/water", ([AsParameters] WaterRequest request,
-                [FromQuery(Name = "sensitivities"), Description(SensitivityDocs.Parameter)] bool? sensitivities) => Calculate(request, sensitivities == true))
-            .WithName("GetWater")
-            .WithSummary("Properties of liquid water at atmospheric pressure")
-            .WithDescription("Density, dynamic and kinematic viscosity and vapour pressure of liquid water at 1 standard atmosphere " +
-                "(101325 Pa), 0 to 100 degrees C, from IAPWS-IF97 and the IAPWS 2008 viscosity release. At 1 atm water boils at " +
-                "99.974 degrees C: from there to 100 degrees C the properties are those of saturated liquid, with a warning.")
-            .WithQueryExample(("temperature", "20"))
-            .AsCalculation("fluids/water", "kinematicViscosity");
-        routes.AddCalculation<WaterRequest, WaterResponse>("fluids/water", "kinematicViscosity", r => Calculate(r));
-        return routes;
-    }
+    public override CalculationInfo Info { get; } = new("fluids/water", "Fluids", "Water", "kinematicViscosity",
+        "Properties of liquid water at atmospheric pressure",
+        "Density, dynamic and kinematic viscosity and vapour pressure of liquid water at 1 standard atmosphere " +
+        "(101325 Pa), 0 to 100 degrees C, from IAPWS-IF97 and the IAPWS 2008 viscosity release. At 1 atm water boils at " +
+        "99.974 degrees C: from there to 100 degrees C the properties are those of saturated liquid, with a warning.");
 
-    public static Results<Ok<WaterResponse>, ValidationProblem> Calculate(WaterRequest request, bool sensitivities = false)
+    public override IReadOnlyList<(string Name, string Value)> QueryExample { get; } = [("temperature", "20")];
+
+    public override Sheet Sheet(WaterRequest request, WaterResponse answer) => WaterSheet.Build(request, answer);
+
+    public override Outcome<WaterResponse> Solve(WaterRequest request, in CalculationContext context)
     {
         var errors = new FieldErrors();
         var units = UnitSystem.Parse(request.Units, errors);
@@ -95,7 +90,7 @@ public static class FluidEndpoints
             request.Temperature!.Value, units.Density(p.Density), units.DynamicViscosity(p.DynamicViscosity),
             units.KinematicViscosity(p.KinematicViscosity), units.Pressure(p.VapourPressure), units.Pressure(Water.AtmosphericPressure),
             units.Code, Method, validity, warnings, assumptions);
-        if (sensitivities)
+        if (context.Sensitivities)
         {
             // Analytic temperature derivatives (WaterSensitivity), per kelvin, in SI; elasticities against degrees C.
             var d = WaterSensitivity.At(celsius);
@@ -106,6 +101,6 @@ public static class FluidEndpoints
             b.Add("vapourPressure", p.VapourPressure, "temperature", celsius, d.VapourPressureDerivative);
             response = response with { Sensitivities = b.Build() };
         }
-        return TypedResults.Ok(response);
+        return response;
     }
 }

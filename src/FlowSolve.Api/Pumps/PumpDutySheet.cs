@@ -2,36 +2,30 @@ using FlowSolve.Api.Friction;
 using System.Globalization;
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Problems;
-using FlowSolve.Api.Pumps;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Core.Friction;
 using FlowSolve.Core.Numerics;
 using FlowSolve.Core.Pumps;
 
-namespace FlowSolve.Api.Sheets;
+namespace FlowSolve.Api.Pumps;
 
 /// <summary>
 /// The duty-point sheet: the pump, the pump set and the system as understood, the relations with their sources, the
 /// duty point with efficiency, power and suction margin, the Newton iterations, and the curves with the duty point and
 /// the best-efficiency point marked. Plotted in the response's units (SI, or US customary with units=us).
 /// </summary>
-public sealed class PumpDutySheet : ISheetBuilder
+public static class PumpDutySheet
 {
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
     /// <summary>Points per plotted curve: 81 equal steps of flow from 0 (twice the endpoint's default density).</summary>
     public const int CurvePoints = 81;
 
-    public string Name => "pumps/duty-point";
+    private const string Name = "pumps/duty-point";
 
-    public Sheet Build(SheetContext context)
+    /// <summary>The sheet of an answer solved with the trace on (the iterations behind it are in <c>r.Trace</c>).</summary>
+    public static Sheet Build(DutyPointRequest request, DutyPointResponse r)
     {
-        var request = context.Request switch
-        {
-            DutyPointRequest body => body,
-            DutyPointQuery query => PumpEndpoints.ToRequest(query),
-            _ => throw new ArgumentException("not a duty-point request", nameof(context)),
-        };
-        var r = (DutyPointResponse)context.Response;
         // The request passed validation when the response was made, so it reads again without errors.
         var input = PumpInputReader.Read(request, new FieldErrors(), null)
             ?? throw new InvalidOperationException("the duty-point request did not read again");
@@ -43,18 +37,11 @@ public sealed class PumpDutySheet : ISheetBuilder
         Methods(sheet, request, input);
         Results(sheet, r);
 
-        // The endpoint's own trace when the request asked for one; otherwise the same solve again, with a trace.
-        var steps = r.Trace;
-        if (steps is null)
-        {
-            var trace = new SolverTrace();
-            DutyPoint.Solve(input.Curve, input.System, input.Arrangement, input.Data, null, trace);
-            steps = TraceStepDto.From(trace) ?? [];
-        }
+        var steps = r.Trace ?? [];
         sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual,
             $"pump-set head minus system head at the flow found, {r.HeadUnit}", r.SolverStatus,
             SheetParts.StopReason(r.SolverStatus) + "; duty status " + r.Status, r.SolveVariable, steps,
-            (r.Trace is null ? "The duty-point solve run again with a trace for the sheet (the same inputs, DutyPoint.Solve)" : "The response's own trace (trace=true)")
+            "The iterations of the duty-point solve behind this answer"
             + "; each value is the set flow in m3/s and each residual the head difference in m (the solver works in SI whatever the request's units).");
         sheet.Validity.AddRange(r.Validity);
         sheet.Warnings.AddRange(r.Warnings);

@@ -1,22 +1,18 @@
 using System.Globalization;
-using FlowSolve.Api.Fluids;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
 using FlowSolve.Core.Fluids;
 
-namespace FlowSolve.Api.Sheets;
+namespace FlowSolve.Api.Fluids;
 
 /// <summary>The water-properties sheet: explicit formulations, so no iterations; the viscosity curve with the case marked.</summary>
-public sealed class WaterSheet : ISheetBuilder
+public static class WaterSheet
 {
-    public string Name => "fluids/water";
-
-    public Sheet Build(SheetContext context)
+    public static Sheet Build(WaterRequest request, WaterResponse r)
     {
-        var request = (WaterRequest)context.Request;
-        var r = (WaterResponse)context.Response;
         var units = UnitSystem.Parse(r.Units, new FieldErrors());
-        var sheet = new Sheet { Title = "Properties of liquid water", Calculation = Name };
+        var sheet = new Sheet { Title = "Properties of liquid water", Calculation = "fluids/water" };
         sheet.Inputs.Add(new("Temperature", SheetHtml.Fmt(r.Temperature), units.TemperatureUnit, "as given"));
         sheet.Inputs.Add(new("Pressure", SheetHtml.Fmt(r.Pressure), units.PressureUnit, "1 standard atmosphere"));
         sheet.Inputs.Add(new("Units", r.Units, "", request.Units is null ? "default" : "as given"));

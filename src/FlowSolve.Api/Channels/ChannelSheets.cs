@@ -1,12 +1,12 @@
 using System.Globalization;
-using FlowSolve.Api.Channels;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
 using FlowSolve.Core.Channels;
 using FlowSolve.Core.Numerics;
 
-namespace FlowSolve.Api.Sheets;
+namespace FlowSolve.Api.Channels;
 
 /// <summary>What the two channel sheets share: the section read again, its drawing to scale, and the re-solve for the record.</summary>
 internal static class ChannelSheetParts
@@ -234,14 +234,13 @@ internal static class ChannelSheetParts
 }
 
 /// <summary>The normal-depth sheet.</summary>
-public sealed class NormalDepthSheet : ISheetBuilder
+public static class NormalDepthSheet
 {
-    public string Name => "channels/normal-depth";
+    private const string Name = "channels/normal-depth";
 
-    public Sheet Build(SheetContext context)
+    public static Sheet Build(NormalDepthRequest request, NormalDepthResponse r)
     {
-        var r = (NormalDepthResponse)context.Response;
-        var read = ChannelSheetParts.ReadRequest(context.Request);
+        var read = ChannelSheetParts.ReadRequest(request);
         var u = read.Units;
         var sheet = new Sheet { Title = "Normal depth in an open channel", Calculation = Name };
         ChannelSheetParts.Inputs(sheet, read, r.Shape);
@@ -296,14 +295,13 @@ public sealed class NormalDepthSheet : ISheetBuilder
 }
 
 /// <summary>The critical-depth sheet.</summary>
-public sealed class CriticalDepthSheet : ISheetBuilder
+public static class CriticalDepthSheet
 {
-    public string Name => "channels/critical-depth";
+    private const string Name = "channels/critical-depth";
 
-    public Sheet Build(SheetContext context)
+    public static Sheet Build(CriticalDepthRequest request, CriticalDepthResponse r)
     {
-        var r = (CriticalDepthResponse)context.Response;
-        var read = ChannelSheetParts.ReadRequest(context.Request);
+        var read = ChannelSheetParts.ReadRequest(request);
         var u = read.Units;
         var sheet = new Sheet { Title = "Critical depth in an open channel", Calculation = Name };
         ChannelSheetParts.Inputs(sheet, read, r.Shape);

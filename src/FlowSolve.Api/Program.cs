@@ -21,7 +21,7 @@ try
     var app = builder.Build();
     app.UseFlowSolvePipeline();
     app.MapCatalogue();
-    app.MapBatchEndpoints();
+    app.MapBatchEndpoints(); // after the catalogue: its description lists the row calculations
     app.MapPipeEndpoints();
     app.MapCheckEndpoints(); // after every calculation: it registers a check for each
     app.Run();

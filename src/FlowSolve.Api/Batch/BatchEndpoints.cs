@@ -10,8 +10,11 @@ namespace FlowSolve.Api.Batch;
 /// <summary><c>POST /v1/batch/{calculation}</c>: many cases of one calculation in one request, as a JSON array or CSV.</summary>
 public static class BatchEndpoints
 {
+    /// <summary>Maps the batch route; after the catalogue, whose row calculations its description lists.</summary>
     public static IEndpointRouteBuilder MapBatchEndpoints(this IEndpointRouteBuilder routes)
     {
+        var names = routes.ServiceProvider.GetRequiredService<CalculationCatalog>().All.Select(c => c.Name)
+            .Where(n => !n.StartsWith("check/", StringComparison.Ordinal)).Order(StringComparer.Ordinal).ToArray();
         routes.MapPost("/v1/batch/{**calculation}", Run)
             .WithTags("Batch")
             .WithName("PostBatch")
@@ -24,7 +27,8 @@ public static class BatchEndpoints
                 "row never fails the others. JSON rows are {row, status, result} or {row, status, error, problem}; CSV rows start " +
                 "with row, httpStatus and error columns, then every scalar output field (nested objects flattened with dots; " +
                 "warnings as their codes separated by spaces; lists such as validity are left out of CSV: use JSON for them). " +
-                "Above the configured row limit (default 100 000) the answer is 413.")
+                "Above the configured row limit (default 100 000) the answer is 413.\n\nCalculations: " + string.Join(", ", names) +
+                "; and check/ followed by any of them, for a batch of checks of claimed values.")
             .Accepts<JsonElement[]>("application/json", "text/csv")
             .Produces(200, contentType: "application/json")
             .Produces(200, contentType: "text/csv")
@@ -42,7 +46,7 @@ public static class BatchEndpoints
     }
 
     private static async Task<IResult> Run(
-        [System.ComponentModel.Description("The calculation's route below /v1: friction-factor, fluids/water, pipes/head-loss, pipes/flow, pipes/diameter, channels/normal-depth, channels/critical-depth, pumps/duty-point.")] string calculation, HttpContext http, CalculationCatalog catalog,
+        [System.ComponentModel.Description("The calculation's route below /v1, for example friction-factor or pipes/head-loss (the list is in the operation's description).")] string calculation, HttpContext http, CalculationCatalog catalog,
         Microsoft.Extensions.Options.IOptions<FlowSolveOptions> options, ILoggerFactory loggers)
     {
         var logger = loggers.CreateLogger("FlowSolve.Batch");

@@ -22,6 +22,9 @@ public static class Catalogue
     public static IReadOnlyList<ICalculation> All { get; } =
     [
         new FrictionFactorCalculation(),
+        new PipeHeadLossCalculation(),
+        new PipeFlowCalculation(),
+        new PipeDiameterCalculation(),
     ];
 
     /// <summary>Maps every calculation (after the generated JSON metadata is registered, so answers use it from the first).</summary>

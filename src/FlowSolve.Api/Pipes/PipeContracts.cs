@@ -287,7 +287,7 @@ public sealed record PipeFlowResponse(
     int Iterations, int FrictionIterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable,
     string Method, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    DarcyWeisbachComparisonDto? DarcyWeisbach, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
+    DarcyWeisbachComparisonDto? DarcyWeisbach, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
     /// <summary>Present only when a second flow meets the same head (see the second-solution warning), in the flow unit: near Reynolds number 4000 Churchill's transition friction factor lies above Colebrook-White's, so heads within that drop are met twice. Flow is then the turbulent (Colebrook-White) root and this the transitional (Churchill) one, the lower flow and the cautious estimate of what the pipe delivers. Darcy-Weisbach only.</summary>
     public double? AlternateFlow { get; init; }
@@ -344,7 +344,7 @@ public sealed record PipeDiameterResponse(
     int Iterations, int FrictionIterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable,
     string Method, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
+    IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
     /// <summary>Present only when a second diameter gives the allowed head loss (see the second-solution warning), m (ft with units=us): near Reynolds number 4000 the friction factor rises from Colebrook-White to Churchill's transition value as the diameter grows, so allowances within that jump are met twice. Diameter is then the turbulent (Colebrook-White) root, the smaller, and this the transitional (Churchill) one, the larger and cautious choice; diameters between the one at Reynolds number 4000 and this exceed the allowance.</summary>
     public double? AlternateDiameter { get; init; }

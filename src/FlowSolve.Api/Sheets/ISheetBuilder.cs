@@ -29,9 +29,6 @@ public static class SheetBuilders
 {
     private static readonly Dictionary<string, ISheetBuilder> ByName = new ISheetBuilder[]
     {
-        new PipeHeadLossSheet(),
-        new PipeFlowSheet(),
-        new PipeDiameterSheet(),
         new NormalDepthSheet(),
         new CriticalDepthSheet(),
         new WaterSheet(),

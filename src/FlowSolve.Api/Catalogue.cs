@@ -23,6 +23,9 @@ public static class Catalogue
     [
         new FrictionFactorCalculation(),
         new WaterCalculation(),
+        new PipeHeadLossCalculation(),
+        new PipeFlowCalculation(),
+        new PipeDiameterCalculation(),
         new NormalDepthCalculation(),
         new CriticalDepthCalculation(),
         new DutyPointCalculation(),

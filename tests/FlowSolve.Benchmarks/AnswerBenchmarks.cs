@@ -5,7 +5,6 @@ using BenchmarkDotNet.Attributes;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Pipes;
-using Microsoft.AspNetCore.Http.HttpResults;
 
 namespace FlowSolve.Benchmarks;
 
@@ -36,8 +35,7 @@ public class AnswerBenchmarks
         _withoutEncoder.MakeReadOnly();
         _writer = new Utf8JsonWriter(_buffer, new JsonWriterOptions { Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping, SkipValidation = true });
         _friction = new FrictionFactorCalculation().Solve(new FrictionFactorRequest(Reynolds: 75000, RelativeRoughness: 0.005), CalculationContext.Plain).Answer!;
-        _pipeFlow = ((Ok<PipeFlowResponse>)PipeEndpoints.Flow(new PipeFlowRequest(8, 0.3, 1200, Roughness: 0.00026, Temperature: 15),
-            Microsoft.Extensions.Logging.Abstractions.NullLoggerFactory.Instance).Result).Value!;
+        _pipeFlow = PipeFlow.Solve(new PipeFlowRequest(8, 0.3, 1200, Roughness: 0.00026, Temperature: 15), CalculationContext.Plain).Answer!;
         if (!Write(_friction, _withEncoder).SequenceEqual(Write(_friction, _withoutEncoder)) ||
             !Write(_pipeFlow, _withEncoder).SequenceEqual(Write(_pipeFlow, _withoutEncoder)))
             throw new InvalidOperationException("the two option sets wrote different bytes");
@@ -100,7 +98,8 @@ public class AnswerBenchmarks
 
     private static readonly FrictionFactorCalculation Friction = new();
 
+    private static readonly PipeFlowCalculation PipeFlow = new();
+
     [Benchmark]
-    public object PipeFlowHandler() => PipeEndpoints.Flow(new PipeFlowRequest(8, 0.3, 1200, Roughness: 0.00026, Temperature: 15),
-        Microsoft.Extensions.Logging.Abstractions.NullLoggerFactory.Instance);
+    public object PipeFlowHandler() => PipeFlow.Solve(new PipeFlowRequest(8, 0.3, 1200, Roughness: 0.00026, Temperature: 15), CalculationContext.Plain).Answer!;
 }

@@ -20,7 +20,7 @@ public class BatchBenchmarks
     private readonly PipeGeometry[] _pipes = new PipeGeometry[Rows];
     private readonly double[] _flows = new double[Rows];
     private readonly FlowSolve.Api.Pipes.PipeHeadLossRequest[] _requests = new FlowSolve.Api.Pipes.PipeHeadLossRequest[Rows];
-    private readonly Microsoft.Extensions.Logging.ILoggerFactory _logs = Microsoft.Extensions.Logging.Abstractions.NullLoggerFactory.Instance;
+    private readonly FlowSolve.Api.Pipes.PipeHeadLossCalculation _headLoss = new();
     private static readonly FluidProperties Water = new(1.0034e-6, 998.2);
 
     [GlobalSetup]
@@ -70,7 +70,7 @@ public class BatchBenchmarks
     {
         int n = 0;
         for (int i = 0; i < Rows; i++)
-            n += FlowSolve.Api.Pipes.PipeEndpoints.HeadLoss(_requests[i], _logs).Result is not null ? 1 : 0;
+            n += _headLoss.Solve(_requests[i], FlowSolve.Api.Hosting.CalculationContext.Plain).Answer is not null ? 1 : 0;
         return n;
     }
 

@@ -145,7 +145,7 @@ public static class BatchEndpoints
             }
             else
             {
-                writer.WriteString("error", TextFormatFilter.ErrorLine(value)["error: ".Length..]);
+                writer.WriteString("error", TextFormat.ErrorLine(value)["error: ".Length..]);
                 writer.WritePropertyName("problem");
                 JsonSerializer.Serialize(writer, value, value?.GetType() ?? typeof(object), JsonSetup.Options);
             }
@@ -235,7 +235,7 @@ public static class BatchEndpoints
             }
             else
             {
-                line.Append(Csv.Escape(TextFormatFilter.ErrorLine(value)["error: ".Length..]));
+                line.Append(Csv.Escape(TextFormat.ErrorLine(value)["error: ".Length..]));
                 for (int c = 0; c < columns.Count; c++) line.Append(',');
             }
             line.Append("\r\n");

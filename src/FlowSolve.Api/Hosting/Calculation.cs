@@ -271,7 +271,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
         }
         // Fields that are not columns (an entry of sensitivities, say) are read from the answer's JSON.
         var json = JsonSerializer.SerializeToElement(answer, typeof(TResponse), JsonSetup.Options);
-        if (TextFormatFilter.TryRead(json, field, out string? text)) return new TextAnswer(text, StatusCodes.Status200OK);
+        if (TextFormat.TryRead(json, field, out string? text)) return new TextAnswer(text, StatusCodes.Status200OK);
         string? near = StrictQuery.Closest(field, Columns.Keys);
         return new TextAnswer($"error: select: no output field named '{field}'" + (near is null ? "" : $"; did you mean '{near}'?") +
             $" (fields: {string.Join(", ", Columns.Keys)})", StatusCodes.Status400BadRequest);
@@ -324,7 +324,7 @@ internal static class Formats
     {
         if (format == Format.Json) return problem;
         var (status, value) = problem.Unwrap();
-        if (format == Format.Text) return new TextAnswer(TextFormatFilter.ErrorLine(value), status);
+        if (format == Format.Text) return new TextAnswer(TextFormat.ErrorLine(value), status);
         var now = (http.RequestServices.GetService<TimeProvider>() ?? TimeProvider.System).GetUtcNow();
         return TypedResults.Text(SheetHtml.Problem(calculation, status, value, now), SheetHtml.ContentType, Encoding.UTF8, status);
     }
@@ -343,7 +343,7 @@ public static class CalculationRoutes
             if (!calculation.Info.Rows) continue;
             var c = calculation;
             catalog.Add(new CalculationDescriptor(c.Info.Name, c.Info.PrimaryOutput, c.RequestType, c.ResponseType,
-                request => c.Run(request, CalculationContext.Plain with { Services = services })));
+                request => c.Run(request, CalculationContext.Plain with { Services = services, Trace = (request as ITraceable)?.Trace == true })));
         }
         return routes;
     }

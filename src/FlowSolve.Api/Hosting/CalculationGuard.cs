@@ -159,31 +159,3 @@ public interface IWarned
     /// <summary>Every warning code of the answer, in order (a network adds its load cases' element warnings).</summary>
     IEnumerable<string> WarningCodes() => Warnings.Select(w => w.Code);
 }
-
-/// <summary><c>trace=true</c> in a POST's query: an output option, applied to the request record's own <c>trace</c> field.</summary>
-internal static class RequestTrace
-{
-    private static readonly ConcurrentDictionary<Type, Func<object, object>?> Setters = new();
-
-    /// <summary>True for a request record with a settable <c>bool? Trace</c>.</summary>
-    public static bool Applies(Type type) => Setter(type) is not null;
-
-    public static bool Asked(HttpContext http) =>
-        string.Equals(http.Request.Query["trace"].FirstOrDefault(), "true", StringComparison.OrdinalIgnoreCase);
-
-    /// <summary>A copy of the request with <c>Trace = true</c> (the record's own clone, then its init accessor).</summary>
-    public static object? With(object? request) => request is null ? null : Setter(request.GetType())?.Invoke(request) ?? request;
-
-    private static Func<object, object>? Setter(Type type) => Setters.GetOrAdd(type, static t =>
-    {
-        var trace = t.GetProperty("Trace", typeof(bool?));
-        var clone = t.GetMethod("<Clone>$");
-        if (trace?.SetMethod is null || clone is null) return null;
-        return o =>
-        {
-            var copy = clone.Invoke(o, null)!;
-            trace.SetValue(copy, true);
-            return copy;
-        };
-    });
-}

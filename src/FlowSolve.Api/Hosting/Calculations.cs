@@ -67,64 +67,6 @@ public sealed class CalculationCatalog
 
 public static class CalculationExtensions
 {
-    /// <summary>Marks an endpoint as a calculation: it answers <c>format=text</c> with <paramref name="primaryOutput"/> (or <c>select</c>),
-    /// and <c>format=html</c> with its calculation sheet.</summary>
-    /// <remarks>One filter per endpoint, built once: it records the solve's metrics on the handler's own result and sends
-    /// <c>format=text</c> (or an unknown format) to <see cref="TextFormatFilter"/> and <c>format=html</c> to the sheet's
-    /// filter; a JSON call (the usual one) goes straight to the handler.</remarks>
-    public static RouteHandlerBuilder AsCalculation(this RouteHandlerBuilder builder, string name, string primaryOutput, bool text = true)
-    {
-        var metadata = new CalculationMetadata(name, primaryOutput, text);
-        return builder.WithMetadata(metadata).AddEndpointFilterFactory((factory, next) =>
-        {
-            var textFilter = new TextFormatFilter();
-            var htmlFilter = new FlowSolve.Api.Sheets.HtmlFormatFilter();
-            // The request record among the handler's arguments: the one trace=true in a POST's query is applied to.
-            int requestIndex = Array.FindIndex(factory.MethodInfo.GetParameters(), p => RequestTrace.Applies(p.ParameterType));
-            EndpointFilterDelegate measured = async context =>
-            {
-                var http = context.HttpContext;
-                if (requestIndex >= 0 && HttpMethods.IsPost(http.Request.Method) && RequestTrace.Asked(http))
-                    context.Arguments[requestIndex] = RequestTrace.With(context.Arguments[requestIndex]);
-                object? result;
-                try
-                {
-                    result = await next(context);
-                }
-                catch (Exception e) when (CalculationGuard.FromException(metadata.Name, e) is { } problem)
-                {
-                    result = problem;
-                }
-                if (result is IResult r)
-                {
-                    result = CalculationGuard.Review(metadata.Name, r, CalculationGuard.IsStrict(http));
-                    SolverMetrics.Record(metadata.Name, ((IResult)result).Unwrap().Value);
-                }
-                return result;
-            };
-            return context =>
-            {
-                string? format = context.HttpContext.Request.Query["format"];
-                if (format is null || format.Equals("json", StringComparison.OrdinalIgnoreCase)) return AsJsonAnswer(measured(context));
-                if (format.Equals("html", StringComparison.OrdinalIgnoreCase)) return htmlFilter.InvokeAsync(context, measured);
-                return textFilter.InvokeAsync(context, measured);
-            };
-        });
-    }
-
-    /// <summary>A 200 answer goes out as one block (<see cref="JsonAnswer"/>); problems keep their own results.</summary>
-    private static async ValueTask<object?> AsJsonAnswer(ValueTask<object?> pending)
-    {
-        object? result = await pending;
-        if (result is IResult r && r.Unwrap() is (200, { } value)) return new JsonAnswer(value, 200) { Result = r };
-        return result;
-    }
-
-    /// <summary>Registers a calculation for <c>POST /v1/batch/{name}</c>.</summary>
-    public static void AddCalculation<TRequest, TResponse>(this IEndpointRouteBuilder routes, string name, string primaryOutput,
-        Func<TRequest, IResult> calculate) where TRequest : class =>
-        routes.ServiceProvider.GetRequiredService<CalculationCatalog>().Add<TRequest, TResponse>(name, primaryOutput, calculate);
-
     /// <summary>The status and value inside a typed result (unwrapping <c>Results&lt;...&gt;</c>).</summary>
     public static (int Status, object? Value) Unwrap(this IResult result)
     {

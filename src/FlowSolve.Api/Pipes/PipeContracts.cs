@@ -70,7 +70,8 @@ public sealed record PipeHeadLossRequest(
     [property: Description(PipeFields.HazenWilliamsC)] [FromQuery(Name = "hazenWilliamsC")] double? HazenWilliamsC = null,
     [property: Description(PipeFields.Units)] [FromQuery(Name = "units")] string? Units = null,
     [property: Description(PipeFields.FlowUnit)] [FromQuery(Name = "flowUnit")] string? FlowUnit = null,
-    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null) : IPipeRequest;
+    [property: Description(PipeFields.AgedRoughness)] [FromQuery(Name = "agedRoughness")] double? AgedRoughness = null,
+    [property: Description(PipeFields.Trace)] [FromQuery(Name = "trace")] bool? Trace = null) : IPipeRequest, FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>Inputs of the flow calculation (query parameters for GET, a JSON body for POST).</summary>
 public sealed record PipeFlowRequest(
@@ -235,6 +236,9 @@ public sealed record PipeHeadLossResponse(
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
     DarcyWeisbachComparisonDto? DarcyWeisbach) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
+    /// <summary>Present only with trace=true: the per-iteration record of the Colebrook-White friction-factor solve (solve variable 1/sqrt(f)); the head loss itself is explicit in the factor.</summary>
+    public IReadOnlyList<TraceStepDto>? Trace { get; init; }
+
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
 
@@ -287,7 +291,7 @@ public sealed record PipeFlowResponse(
     int Iterations, int FrictionIterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable,
     string Method, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    DarcyWeisbachComparisonDto? DarcyWeisbach, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
+    DarcyWeisbachComparisonDto? DarcyWeisbach, IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
     /// <summary>Present only when a second flow meets the same head (see the second-solution warning), in the flow unit: near Reynolds number 4000 Churchill's transition friction factor lies above Colebrook-White's, so heads within that drop are met twice. Flow is then the turbulent (Colebrook-White) root and this the transitional (Churchill) one, the lower flow and the cautious estimate of what the pipe delivers. Darcy-Weisbach only.</summary>
     public double? AlternateFlow { get; init; }
@@ -344,7 +348,7 @@ public sealed record PipeDiameterResponse(
     int Iterations, int FrictionIterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable,
     string Method, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary
+    IReadOnlyList<TraceStepDto>? Trace) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
     /// <summary>Present only when a second diameter gives the allowed head loss (see the second-solution warning), m (ft with units=us): near Reynolds number 4000 the friction factor rises from Colebrook-White to Churchill's transition value as the diameter grows, so allowances within that jump are met twice. Diameter is then the turbulent (Colebrook-White) root, the smaller, and this the transitional (Churchill) one, the larger and cautious choice; diameters between the one at Reynolds number 4000 and this exceed the allowance.</summary>
     public double? AlternateDiameter { get; init; }

@@ -89,6 +89,14 @@ public static class PipeTableEndpoints
 {
     private const string TableCaution = " Values marked \"from memory\" in provenance were recalled, not read from the source: check them before relying on them.";
 
+    /// <summary>Maps the pipe tables below <c>/v1/pipes</c>. The pipe calculations themselves (head-loss, flow, diameter)
+    /// are in <see cref="Catalogue"/>.</summary>
+    public static IEndpointRouteBuilder MapPipeEndpoints(this IEndpointRouteBuilder routes)
+    {
+        routes.MapGroup("/v1/pipes").WithTags("Pipes").MapPipeTableEndpoints();
+        return routes;
+    }
+
     public static RouteGroupBuilder MapPipeTableEndpoints(this RouteGroupBuilder group)
     {
         group.MapGet("/sizes", ([AsParameters] PipeSizesRequest request) => Sizes(request))

@@ -147,7 +147,7 @@ public static class SheetHtml
     /// <summary>A small page for a calculation that did not answer: the status and the problem in words.</summary>
     public static string Problem(string calculation, int status, object? problem, DateTimeOffset now)
     {
-        string line = TextFormatFilter.ErrorLine(problem);
+        string line = TextFormat.ErrorLine(problem);
         if (line.StartsWith("error: ", StringComparison.Ordinal)) line = line[7..];
         var sb = new StringBuilder();
         sb.Append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<title>")

@@ -132,17 +132,19 @@ public static class PipeHeadLoss
     /// <param name="flow">Volumetric flow Q in m3/s; finite and positive.</param>
     /// <param name="elevationRise">Outlet elevation above inlet z2 - z1 in m; finite; any sign.</param>
     /// <param name="options">Regime limits and design velocities; <see cref="PipeOptions.Default"/> when omitted.</param>
+    /// <param name="trace">Optional per-iteration record of the Colebrook-White friction-factor solve (the head loss
+    /// itself is explicit in the factor).</param>
     /// <exception cref="ArgumentOutOfRangeException">An argument is outside its domain (the parameter name says which),
     /// or the Reynolds number exceeds <see cref="DarcyFriction.MaximumReynolds"/>.</exception>
     public static HeadLossResult Compute(in PipeGeometry pipe, in FluidProperties fluid, double flow,
-        double elevationRise = 0, PipeOptions? options = null)
+        double elevationRise = 0, PipeOptions? options = null, SolverTrace? trace = null)
     {
         PipeGuard.Geometry(pipe);
         PipeGuard.Fluid(fluid);
         PipeGuard.Positive(flow, nameof(flow));
         PipeGuard.Finite(elevationRise, nameof(elevationRise));
         var o = options ?? PipeOptions.Default;
-        var state = Evaluate(pipe, fluid.KinematicViscosity, flow, o.Friction);
+        var state = Evaluate(pipe, fluid.KinematicViscosity, flow, o.Friction, trace);
         return Finish(state, fluid, elevationRise, o);
     }
 
@@ -195,13 +197,13 @@ public static class PipeHeadLoss
 
     /// <summary>The state at a flow, unchecked arguments (callers have validated them).</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    internal static PipeState Evaluate(in PipeGeometry pipe, double nu, double flow, in FrictionOptions limits)
+    internal static PipeState Evaluate(in PipeGeometry pipe, double nu, double flow, in FrictionOptions limits, SolverTrace? trace = null)
     {
         double d = pipe.Diameter;
         double velocity = flow / (0.25 * Math.PI * d * d);
         double re = velocity * d / nu;
         double r = pipe.Roughness / d;
-        var friction = DarcyFriction.Compute(re, r, FrictionMethod.ColebrookWhite, limits);
+        var friction = DarcyFriction.Compute(re, r, FrictionMethod.ColebrookWhite, limits, trace);
         double f = friction.FrictionFactor;
         double velocityHead = velocity * velocity / (2 * Physical.StandardGravity);
         double lOverD = pipe.Length / d;

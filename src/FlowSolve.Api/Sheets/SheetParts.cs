@@ -4,41 +4,6 @@ using FlowSolve.Core.Numerics;
 
 namespace FlowSolve.Api.Sheets;
 
-/// <summary>What a sheet builder receives: the request as bound, the successful response, and the request's services.</summary>
-/// <param name="Request">The endpoint's request argument (the query record for GET, the body record for POST).</param>
-/// <param name="Response">The calculation's 200 response value.</param>
-/// <param name="Services">The request's services (for a logger factory when a calculation is re-run with a trace).</param>
-public sealed record SheetContext(object Request, object Response, IServiceProvider Services);
-
-/// <summary>
-/// Builds the calculation sheet of one calculation. One builder per <see cref="CalculationMetadata.Name"/>; the
-/// filter picks it by that name. To give a new calculation a sheet (the pump duty point, for instance), write a
-/// builder and add it to <see cref="SheetBuilders"/>.
-/// </summary>
-public interface ISheetBuilder
-{
-    /// <summary>The calculation's name, as in <c>AsCalculation(name, ...)</c>: for example <c>pipes/head-loss</c>.</summary>
-    string Name { get; }
-
-    /// <summary>The sheet for a successful calculation.</summary>
-    Sheet Build(SheetContext context);
-}
-
-/// <summary>Every sheet builder, by calculation name.</summary>
-public static class SheetBuilders
-{
-    private static readonly Dictionary<string, ISheetBuilder> ByName = new ISheetBuilder[]
-    {
-        new PipeHeadLossSheet(),
-        new PipeFlowSheet(),
-        new PipeDiameterSheet(),
-    }.ToDictionary(b => b.Name, StringComparer.OrdinalIgnoreCase);
-
-    public static IEnumerable<string> Names => ByName.Keys;
-
-    public static bool TryGet(string name, out ISheetBuilder builder) => ByName.TryGetValue(name, out builder!);
-}
-
 /// <summary>Pieces every sheet shares: the convergence plot and the stop reasons.</summary>
 public static class SheetParts
 {

@@ -1,14 +1,13 @@
-using FlowSolve.Api.Friction;
 using System.Globalization;
 using FlowSolve.Api.Contracts;
-using FlowSolve.Api.Hosting;
-using FlowSolve.Api.Pipes;
+using FlowSolve.Api.Friction;
 using FlowSolve.Api.Problems;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Core.Friction;
 using FlowSolve.Core.Numerics;
 using FlowSolve.Core.Pipes;
 
-namespace FlowSolve.Api.Sheets;
+namespace FlowSolve.Api.Pipes;
 
 /// <summary>What the three pipe sheets share: the pipe's inputs, the relations, and the head-loss curve.</summary>
 internal static class PipeSheetParts
@@ -93,17 +92,14 @@ internal static class PipeSheetParts
 }
 
 /// <summary>The head-loss sheet.</summary>
-public sealed class PipeHeadLossSheet : ISheetBuilder
+public static class PipeHeadLossSheet
 {
-    public string Name => "pipes/head-loss";
-
-    public Sheet Build(SheetContext context)
+    /// <summary>The sheet of an answer; its sensitivities are added by the hosting layer, its roughness spread here.</summary>
+    public static Sheet Build(PipeHeadLossRequest request, PipeHeadLossResponse r)
     {
-        var request = (PipeHeadLossRequest)context.Request;
-        var r = (PipeHeadLossResponse)context.Response;
         var input = PipeSheetParts.Read(request);
         var u = input.Units;
-        var sheet = new Sheet { Title = "Head loss of a pipe", Calculation = Name };
+        var sheet = new Sheet { Title = "Head loss of a pipe", Calculation = "pipes/head-loss", RoughnessSpread = r.RoughnessSpread };
         sheet.Inputs.Add(new("Flow Q", SheetHtml.Fmt(r.Flow), r.FlowUnit, "as given"));
         sheet.Inputs.Add(new("Inside diameter D", SheetHtml.Fmt(r.Diameter), u.LengthUnit, "as given"));
         PipeSheetParts.Inputs(sheet, request, input, r.Length, r.Roughness, r.MinorLossCoefficient, r.KinematicViscosity, r.Density, r.ElevationChange);
@@ -123,17 +119,15 @@ public sealed class PipeHeadLossSheet : ISheetBuilder
             sheet.Results.Add(new("Darcy-Weisbach head loss (comparison)", SheetHtml.Fmt(dw.HeadLoss), u.LengthUnit,
                 string.Create(CultureInfo.InvariantCulture, $"Hazen-Williams differs by {dw.DifferencePercent:+0.##;-0.##;0} %")));
 
-        // The head loss itself is explicit; the iterations are those of the Colebrook-White friction factor.
-        var trace = new SolverTrace();
-        if (r.Relation == FrictionMethodInfo.ColebrookWhite.Code)
-            DarcyFriction.Compute(r.Reynolds, r.RelativeRoughness, FrictionMethod.ColebrookWhite, null, trace);
-        var steps = TraceStepDto.From(trace) ?? [];
+        // The head loss itself is explicit; the iterations are those of the Colebrook-White friction factor of the one
+        // solve behind this answer (traced for the sheet).
+        var steps = r.Trace ?? [];
         sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual,
             "Colebrook-White in x = 1/sqrt(f), at the friction factor used", r.Status,
             r.Status == "solved" ? "the friction factor converged; the head loss is explicit" : "the friction factor did not converge",
             "1/sqrt(f)", steps,
             steps.Count == 0 ? "The friction relation used is explicit: no iterations."
-                : "Iterations of the Colebrook-White friction factor at this Reynolds number and e/D, recomputed with a trace for the sheet.");
+                : "Iterations of the Colebrook-White friction factor of this head-loss solve; residuals are at each iterate.");
         sheet.Validity.AddRange(r.Validity);
         sheet.Warnings.AddRange(r.Warnings);
 
@@ -145,17 +139,14 @@ public sealed class PipeHeadLossSheet : ISheetBuilder
 }
 
 /// <summary>The flow sheet.</summary>
-public sealed class PipeFlowSheet : ISheetBuilder
+public static class PipeFlowSheet
 {
-    public string Name => "pipes/flow";
-
-    public Sheet Build(SheetContext context)
+    /// <summary>The sheet of an answer solved with the trace on (the outer iterations behind it are in <c>r.Trace</c>).</summary>
+    public static Sheet Build(PipeFlowRequest request, PipeFlowResponse r)
     {
-        var request = (PipeFlowRequest)context.Request;
-        var r = (PipeFlowResponse)context.Response;
         var input = PipeSheetParts.Read(request);
         var u = input.Units;
-        var sheet = new Sheet { Title = "Flow through a pipe from the available head", Calculation = Name };
+        var sheet = new Sheet { Title = "Flow through a pipe from the available head", Calculation = "pipes/flow", RoughnessSpread = r.RoughnessSpread };
         sheet.Inputs.Add(new("Available head (headLoss)", SheetHtml.Fmt(r.AvailableHead), u.LengthUnit, "as given"));
         sheet.Inputs.Add(new("Inside diameter D", SheetHtml.Fmt(r.Diameter), u.LengthUnit, "as given"));
         PipeSheetParts.Inputs(sheet, request, input, r.Length, r.Roughness, r.MinorLossCoefficient, r.KinematicViscosity, r.Density, r.ElevationChange);
@@ -177,11 +168,10 @@ public sealed class PipeFlowSheet : ISheetBuilder
             sheet.Results.Add(new("Darcy-Weisbach flow (comparison)", SheetHtml.Fmt(dw.Flow), r.FlowUnit,
                 string.Create(CultureInfo.InvariantCulture, $"Hazen-Williams differs by {dw.DifferencePercent:+0.##;-0.##;0} %")));
 
-        var steps = r.Trace ?? (PipeEndpoints.Flow(request with { Trace = true }, context.Services.GetRequiredService<ILoggerFactory>())
-            .Unwrap().Value as PipeFlowResponse)?.Trace ?? [];
+        var steps = r.Trace ?? [];
         sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual, "ln(hf + hm) - ln(driving head) at the flow found",
             r.SolverStatus, SheetParts.StopReason(r.SolverStatus) + "; pipe status " + r.Status, r.SolveVariable, steps,
-            "Outer Darcy-Weisbach iterations in ln Q (the same calculation with trace=true); "
+            "Outer Darcy-Weisbach iterations in ln Q, as recorded by the solve behind this answer; "
             + r.FrictionIterations.ToString(CultureInfo.InvariantCulture) + " Colebrook-White iterations in all inside them.");
         sheet.Validity.AddRange(r.Validity);
         sheet.Warnings.AddRange(r.Warnings);
@@ -194,17 +184,14 @@ public sealed class PipeFlowSheet : ISheetBuilder
 }
 
 /// <summary>The diameter sheet.</summary>
-public sealed class PipeDiameterSheet : ISheetBuilder
+public static class PipeDiameterSheet
 {
-    public string Name => "pipes/diameter";
-
-    public Sheet Build(SheetContext context)
+    /// <summary>The sheet of an answer solved with the trace on (the outer iterations behind it are in <c>r.Trace</c>).</summary>
+    public static Sheet Build(PipeDiameterRequest request, PipeDiameterResponse r)
     {
-        var request = (PipeDiameterRequest)context.Request;
-        var r = (PipeDiameterResponse)context.Response;
         var input = PipeSheetParts.Read(request);
         var u = input.Units;
-        var sheet = new Sheet { Title = "Minimum pipe diameter for an allowed head loss", Calculation = Name };
+        var sheet = new Sheet { Title = "Minimum pipe diameter for an allowed head loss", Calculation = "pipes/diameter", RoughnessSpread = r.RoughnessSpread };
         sheet.Inputs.Add(new("Flow Q", SheetHtml.Fmt(r.Flow), r.FlowUnit, "as given"));
         sheet.Inputs.Add(new("Allowed head loss (headLoss - elevation change)", SheetHtml.Fmt(r.AllowedHeadLoss), u.LengthUnit, ""));
         PipeSheetParts.Inputs(sheet, request, input, r.Length, r.Roughness, r.MinorLossCoefficient, r.KinematicViscosity, r.Density, r.ElevationChange);
@@ -229,11 +216,10 @@ public sealed class PipeDiameterSheet : ISheetBuilder
         sheet.Results.Add(new("Reynolds number", SheetHtml.Fmt(r.Reynolds), "-", ""));
         sheet.Results.Add(new("Darcy friction factor f", SheetHtml.Fmt(r.FrictionFactor), "-", r.Relation + ", " + r.Regime));
 
-        var steps = r.Trace ?? (PipeEndpoints.Diameter(request with { Trace = true }, context.Services.GetRequiredService<ILoggerFactory>())
-            .Unwrap().Value as PipeDiameterResponse)?.Trace ?? [];
+        var steps = r.Trace ?? [];
         sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual, "ln(hf + hm) - ln(allowed head loss) at the diameter found",
             r.SolverStatus, SheetParts.StopReason(r.SolverStatus) + "; pipe status " + r.Status, r.SolveVariable, steps,
-            "Outer iterations in ln D (the same calculation with trace=true); "
+            "Outer iterations in ln D, as recorded by the solve behind this answer; "
             + r.FrictionIterations.ToString(CultureInfo.InvariantCulture) + " Colebrook-White iterations in all inside them.");
         sheet.Validity.AddRange(r.Validity);
         sheet.Warnings.AddRange(r.Warnings);

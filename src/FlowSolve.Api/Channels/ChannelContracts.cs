@@ -41,7 +41,9 @@ public sealed record NormalDepthRequest(
     [property: Description("Discharge Q, m3/s (ft3/s with units=us); greater than 0.")]
     double? Flow,
     [property: Description("Unit system of the request and response: si (default) or us (ft, ft2, ft3/s, ft/s).")]
-    string? Units = null);
+    string? Units = null,
+    [property: Description("When true, include the solver's per-iteration record of the reported depth in the response.")]
+    bool? Trace = null) : FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>Inputs of the critical-depth calculation as a JSON body.</summary>
 public sealed record CriticalDepthRequest(
@@ -52,7 +54,9 @@ public sealed record CriticalDepthRequest(
     [property: Description("Optional Manning n, s m^-1/3 (the same number with units=us); greater than 0 and at most 1. When given (or when every surveyed segment has its own), the response includes the critical slope.")]
     double? ManningN = null,
     [property: Description("Unit system of the request and response: si (default) or us (ft, ft2, ft3/s, ft/s).")]
-    string? Units = null);
+    string? Units = null,
+    [property: Description("When true, include the solver's per-iteration record of the reported depth in the response.")]
+    bool? Trace = null) : FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>Inputs of the normal-depth calculation as query parameters: the section's fields stand at the top level.</summary>
 public sealed record NormalDepthQuery(
@@ -77,7 +81,9 @@ public sealed record NormalDepthQuery(
     [property: Description("Surveyed points, left to right, as station:elevation pairs separated by commas, each optionally followed by :manningN for the segment that starts at that point (for example 0:2,4:0,7:0,11:2 or 0:2:0.035,4:0,7:0,11:2); m (ft with units=us); at least 3 points.")]
     [FromQuery(Name = "points")] string? Points = null,
     [property: Description("Unit system of the request and response: si (default) or us (ft, ft2, ft3/s, ft/s).")]
-    [FromQuery(Name = "units")] string? Units = null);
+    [FromQuery(Name = "units")] string? Units = null,
+    [property: Description("When true, include the solver's per-iteration record of the reported depth in the response.")]
+    [FromQuery(Name = "trace")] bool? Trace = null) : FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>Inputs of the critical-depth calculation as query parameters: the section's fields stand at the top level.</summary>
 public sealed record CriticalDepthQuery(
@@ -100,7 +106,9 @@ public sealed record CriticalDepthQuery(
     [property: Description("Surveyed points, left to right, as station:elevation pairs separated by commas, each optionally followed by :manningN for the segment that starts at that point (for example 0:2,4:0,7:0,11:2); m (ft with units=us); at least 3 points.")]
     [FromQuery(Name = "points")] string? Points = null,
     [property: Description("Unit system of the request and response: si (default) or us (ft, ft2, ft3/s, ft/s).")]
-    [FromQuery(Name = "units")] string? Units = null);
+    [FromQuery(Name = "units")] string? Units = null,
+    [property: Description("When true, include the solver's per-iteration record of the reported depth in the response.")]
+    [FromQuery(Name = "trace")] bool? Trace = null) : FlowSolve.Api.Hosting.ITraceable;
 
 /// <summary>What a closed or surveyed section can carry in uniform flow at this slope and roughness.</summary>
 /// <param name="MaximumFlow">The greatest Manning discharge over the section's depth range, m3/s (ft3/s with units=us): for a circle, at about 0.938 D.</param>
@@ -144,6 +152,9 @@ public sealed record NormalDepthResponse(
     int Iterations, bool Converged, double Residual, string Status, string Method,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
+    /// <summary>Present only with trace=true: the per-iteration record of the reported depth's solve (solve variable: ln y for rectangular, trapezoidal and triangular sections; y in m for a circle's normal depth and a surveyed section; ln(y/(D - y)) for a circle's critical depth).</summary>
+    public IReadOnlyList<TraceStepDto>? Trace { get; init; }
+
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
 }
@@ -172,6 +183,9 @@ public sealed record CriticalDepthResponse(
     int Iterations, bool Converged, double Residual, string Status, string Method,
     IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : FlowSolve.Api.Hosting.ISolveSummary, FlowSolve.Api.Hosting.ISensitive
 {
+    /// <summary>Present only with trace=true: the per-iteration record of the reported depth's solve (solve variable: ln y for rectangular, trapezoidal and triangular sections; y in m for a circle's normal depth and a surveyed section; ln(y/(D - y)) for a circle's critical depth).</summary>
+    public IReadOnlyList<TraceStepDto>? Trace { get; init; }
+
     /// <summary>Present only with sensitivities=true: output field name, then input field name, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units; elasticity absent when the output or the input is zero.</summary>
     public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
 }

@@ -14,41 +14,41 @@ namespace FlowSolve.Api.Channels;
 /// problems name the fields as typed: <c>section.bottomWidth</c> in a body, <c>bottomWidth</c> in a query).</summary>
 internal static class ChannelDepths
 {
-    public static Outcome<NormalDepthResponse> NormalDepth(NormalDepthRequest request, bool sensitivities = false)
+    public static Outcome<NormalDepthResponse> NormalDepth(NormalDepthRequest request, in CalculationContext context)
     {
         var errors = new FieldErrors();
         if (request.Section is null) errors.Add("section", "is required: an object with shape and its dimensions");
         return NormalDepth(request.Section is null ? null : SectionFields.From(request.Section), "section.",
-            request.ManningN, request.Slope, request.Flow, request.Units, errors, sensitivities);
+            request.ManningN, request.Slope, request.Flow, request.Units, errors, context);
     }
 
-    public static Outcome<NormalDepthResponse> NormalDepth(NormalDepthQuery q, bool sensitivities = false)
+    public static Outcome<NormalDepthResponse> NormalDepth(NormalDepthQuery q, in CalculationContext context)
     {
         var errors = new FieldErrors();
         var fields = new SectionFields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter,
             ChannelInput.ParsePoints(q.Points, errors));
-        return NormalDepth(fields, "", q.ManningN, q.Slope, q.Flow, q.Units, errors, sensitivities);
+        return NormalDepth(fields, "", q.ManningN, q.Slope, q.Flow, q.Units, errors, context);
     }
 
-    public static Outcome<CriticalDepthResponse> CriticalDepth(CriticalDepthRequest request, bool sensitivities = false)
+    public static Outcome<CriticalDepthResponse> CriticalDepth(CriticalDepthRequest request, in CalculationContext context)
     {
         var errors = new FieldErrors();
         if (request.Section is null) errors.Add("section", "is required: an object with shape and its dimensions");
         return CriticalDepth(request.Section is null ? null : SectionFields.From(request.Section), "section.",
-            request.ManningN, request.Flow, request.Units, errors, sensitivities);
+            request.ManningN, request.Flow, request.Units, errors, context);
     }
 
-    public static Outcome<CriticalDepthResponse> CriticalDepth(CriticalDepthQuery q, bool sensitivities = false)
+    public static Outcome<CriticalDepthResponse> CriticalDepth(CriticalDepthQuery q, in CalculationContext context)
     {
         var errors = new FieldErrors();
         var fields = new SectionFields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter,
             ChannelInput.ParsePoints(q.Points, errors));
-        return CriticalDepth(fields, "", q.ManningN, q.Flow, q.Units, errors, sensitivities);
+        return CriticalDepth(fields, "", q.ManningN, q.Flow, q.Units, errors, context);
     }
 
     private static Outcome<NormalDepthResponse> NormalDepth(
         SectionFields? fields, string prefix, double? manningN, double? slope, double? flow, string? unitsText, FieldErrors errors,
-        bool sensitivities)
+        in CalculationContext context)
     {
         var units = new ChannelUnits(UnitSystem.Parse(unitsText, errors));
         var assumptions = new List<AssumptionDto>();
@@ -59,7 +59,8 @@ internal static class ChannelDepths
         if (errors.Any || section is null) return ProblemResults.BadInput(errors);
 
         double qSi = units.FlowToSi(q);
-        var r = n is double nn ? ManningSolver.NormalDepth(section, qSi, s, nn) : ManningSolver.NormalDepth(section, qSi, s);
+        var trace = context.Trace ? new SolverTrace() : null;
+        var r = n is double nn ? ManningSolver.NormalDepth(section, qSi, s, nn, trace) : ManningSolver.NormalDepth(section, qSi, s, trace);
 
         // The Core marks a flow beyond capacity with Solution = None and NaN depths: answer 422 before anything is serialised.
         if (r.Solution == DepthSolution.None)
@@ -84,7 +85,8 @@ internal static class ChannelDepths
         if (!AllFinite(response.NormalDepth, response.Area, response.WettedPerimeter, response.HydraulicRadius, response.TopWidth,
                 response.Velocity, response.FroudeNumber, response.SpecificEnergy, response.EffectiveManningN, response.Residual))
             return Unrepresentable();
-        if (sensitivities && r.Converged)
+        if (trace is not null) response = response with { Trace = TraceStepDto.From(trace) };
+        if (context.Sensitivities && r.Converged)
         {
             double nUsed = n ?? 0.0;
             var d = ChannelSensitivity.NormalDepth(section, r.NormalDepth, qSi, s, nUsed);
@@ -136,7 +138,7 @@ internal static class ChannelDepths
 
     private static Outcome<CriticalDepthResponse> CriticalDepth(
         SectionFields? fields, string prefix, double? manningN, double? flow, string? unitsText, FieldErrors errors,
-        bool sensitivities)
+        in CalculationContext context)
     {
         var units = new ChannelUnits(UnitSystem.Parse(unitsText, errors));
         var assumptions = new List<AssumptionDto>();
@@ -146,7 +148,8 @@ internal static class ChannelDepths
         if (errors.Any || section is null) return ProblemResults.BadInput(errors);
 
         double qSi = units.FlowToSi(q);
-        var r = n is double nn ? CriticalFlow.CriticalDepth(section, qSi, nn) : CriticalFlow.CriticalDepth(section, qSi);
+        var trace = context.Trace ? new SolverTrace() : null;
+        var r = n is double nn ? CriticalFlow.CriticalDepth(section, qSi, nn, trace) : CriticalFlow.CriticalDepth(section, qSi, trace);
         if (r.Solution == DepthSolution.None)
         {
             double top = units.Length(section.MaximumDepth);
@@ -167,7 +170,8 @@ internal static class ChannelDepths
             Warnings(r.Warnings, units), CommonAssumptions(assumptions, unitsText, units, n));
         if (!AllFinite(response.CriticalDepth, response.Area, response.TopWidth, response.Velocity, response.SpecificEnergy, response.Residual))
             return Unrepresentable();
-        if (sensitivities && r.Converged)
+        if (trace is not null) response = response with { Trace = TraceStepDto.From(trace) };
+        if (context.Sensitivities && r.Converged)
         {
             var d = ChannelSensitivity.CriticalDepth(section, r.CriticalDepth, qSi);
             var b = new SensitivityBuilder();

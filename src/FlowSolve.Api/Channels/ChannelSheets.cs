@@ -13,10 +13,6 @@ internal static class ChannelSheetParts
 {
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
-    /// <summary>The channel solvers return no per-iteration record, so the sheet re-solves the same residual with the
-    /// same root finder. Tolerances as the Core's solve in ln y (a relative depth error of 1e-13).</summary>
-    private static readonly SolverOptions RecordOptions = new(1e-13, 0.0, 1e-13, 100);
-
     public sealed record Read(ChannelSection Section, ChannelUnits Units, string? UnitsText, double? ManningN, double Flow,
         double? Slope, SectionFields Fields);
 
@@ -169,67 +165,20 @@ internal static class ChannelSheetParts
     private static double Cross((double X, double Y) a, (double X, double Y) b, double y) =>
         b.Y == a.Y ? b.X : a.X + (b.X - a.X) * (y - a.Y) / (b.Y - a.Y);
 
-    /// <summary>Manning's residual in u = ln y: ln K(y) - ln(Q / sqrt(S)), with d/du = y K'(y)/K(y).</summary>
-    private readonly struct ConveyanceInLogDepth(ChannelSection section, double n, double logTarget) : IDifferentiableFunction
+    /// <summary>The solve variable of the reported depth's record, by section shape (what the trace's x is).</summary>
+    public static string SolveVariable(ChannelSection section, bool critical) => section switch
     {
-        public (double Value, double Derivative) Evaluate(double u)
-        {
-            double y = Math.Exp(u);
-            var g = section.At(y);
-            double k = g.Conveyance(n);
-            return (Math.Log(k) - logTarget, y * g.ConveyanceDerivative(n) / k);
-        }
-    }
+        CircularSection when critical => "x = ln(y/(D - y))",
+        CircularSection or SurveyedSection => "y (m)",
+        _ => "u = ln y",
+    };
 
-    /// <summary>The critical-flow residual in u = ln y: ln(A^3/T) - ln(Q^2/g), with d/du = y (3T/A - T'/T).</summary>
-    private readonly struct CriticalInLogDepth(ChannelSection section, double logTarget) : IDifferentiableFunction
+    public static string RecordNote(int iterations, string status, int rows, ChannelSection section, bool critical)
     {
-        public (double Value, double Derivative) Evaluate(double u)
-        {
-            double y = Math.Exp(u);
-            var g = section.At(y);
-            return (3 * Math.Log(g.Area) - Math.Log(g.TopWidth) - logTarget, y * (3 * g.TopWidth / g.Area - g.TopWidthDerivative / g.TopWidth));
-        }
-    }
-
-    /// <summary>Lower and upper ends of the re-solve's search range, m, unless the depth lies outside it.</summary>
-    public const double SearchLower = 1e-6, SearchUpper = 1e5;
-
-    /// <summary>Re-solves for the record from a fixed search range, 1 micrometre to 100 km (cut at the section's top, the
-    /// circle's peak discharge, or between two roots), started at its middle in ln y; returns the steps and the root found,
-    /// or none when the range does not hold one root.</summary>
-    public static (IReadOnlyList<TraceStepDto> Steps, double? Root) Record(ChannelSection section, double depthSi, double upperCapSi,
-        double flowSi, double? slope, double manningN)
-    {
-        double lower = Math.Log(Math.Min(SearchLower, depthSi / 100)), upper = Math.Log(Math.Min(Math.Max(SearchUpper, 100 * depthSi), upperCapSi));
-        if (!(upper > Math.Log(depthSi))) return ([], null);
-        var trace = new SolverTrace();
-        try
-        {
-            RootResult result = slope is double s
-                ? SafeguardedNewton.Solve(new ConveyanceInLogDepth(section, manningN, Math.Log(flowSi / Math.Sqrt(s))),
-                    Bracket.Checked(lower, upper), double.NaN, RecordOptions, trace)
-                : SafeguardedNewton.Solve(new CriticalInLogDepth(section, Math.Log(flowSi * flowSi / CriticalFlow.StandardGravity)),
-                    Bracket.Checked(lower, upper), double.NaN, RecordOptions, trace);
-            var steps = (TraceStepDto.From(trace) ?? []).ToList();
-            // A solve that meets the residual tolerance at a new iterate stops before writing a trace row for it: show
-            // that last evaluation too, so the history ends at the residual that stopped the solve.
-            if (result.Status == SolveStatus.ConvergedOnResidual && (steps.Count == 0 || steps[^1].X != result.Root))
-                steps.Add(new TraceStepDto(steps.Count + 1, result.Root, result.Residual, double.NaN, 0, "final evaluation", null, result.Lower, result.Upper));
-            return (steps, result.Converged ? Math.Exp(result.Root) : null);
-        }
-        catch (ArgumentException)
-        {
-            return ([], null);
-        }
-    }
-
-    public static string RecordNote(int iterations, string status, double? root, double reported, ChannelUnits u)
-    {
-        string own = string.Create(C, $"The response's own solve took {iterations} iterations and stopped with {status}. ");
-        if (root is not double y) return own + "The channel solvers keep no per-iteration record, and the re-solve for this sheet found no single root in its bracket, so no iterations are listed.";
-        return own + string.Create(C,
-            $"The channel solvers keep no per-iteration record, so the iterations listed are a re-solve for this sheet: the same residual, the same safeguarded Newton, in u = ln y, searching from 1e-6 m up to the section's top (or 1e5 m) and started at the middle of that range in ln y, where the Core starts from an explicit estimate (so the counts differ). It finds {u.Length(y):R} {u.LengthUnit}, a relative difference of {Math.Abs(u.Length(y) / reported - 1):0.0e0} from the reported depth.");
+        string own = string.Create(C, $"The solve behind this answer took {iterations} iterations and stopped with {status}. ");
+        if (rows == 0) return own + "It needed no iterations (the start met the tolerance).";
+        return own + "Its iterations are listed as the solver took them, in " + SolveVariable(section, critical) +
+            (section is SurveyedSection ? "; a surveyed section is scanned segment by segment, and the record is that of the segment that holds the reported (lowest) depth." : ".");
     }
 }
 
@@ -263,12 +212,10 @@ public static class NormalDepthSheet
         if (r.Capacity is { } cap)
             sheet.Results.Add(new("Greatest discharge of the section", SheetHtml.Fmt(cap.MaximumFlow), u.FlowUnit, string.Create(CultureInfo.InvariantCulture, $"at depth {cap.DepthAtMaximumFlow:G6} {lu}")));
 
-        double ySi = u.LengthToSi(r.NormalDepth);
-        double cap2 = read.Section is CircularSection c ? c.PeakDischargeDepth
-            : r.AlternateNormalDepth is double a2 ? u.LengthToSi(0.5 * (r.NormalDepth + a2)) : read.Section.MaximumDepth;
-        var (steps, root) = ChannelSheetParts.Record(read.Section, ySi, cap2, u.FlowToSi(read.Flow), read.Slope, read.ManningN ?? 0);
+        var steps = r.Trace ?? [];
         sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual, "ln(Q(yn)/Q): the relative discharge mismatch", r.Status,
-            SheetParts.StopReason(r.Status), "u = ln y", steps, ChannelSheetParts.RecordNote(r.Iterations, r.Status, root, r.NormalDepth, u));
+            SheetParts.StopReason(r.Status), ChannelSheetParts.SolveVariable(read.Section, critical: false), steps,
+            ChannelSheetParts.RecordNote(r.Iterations, r.Status, steps.Count, read.Section, critical: false));
         sheet.Validity.AddRange(r.Validity);
         sheet.Warnings.AddRange(r.Warnings);
 
@@ -279,7 +226,7 @@ public static class NormalDepthSheet
             "The cross-section to scale (both axes in one unit) with the normal-depth water line (accent)"
             + (r.AlternateNormalDepth is null ? "" : ", the alternate normal depth (accent, dashed)")
             + (r.CriticalDepth is null ? "" : " and the critical-depth line (grey, dashed)") + "."));
-        sheet.Figures.Add(SheetParts.Convergence(steps, "(ln Q ratio)", "Residual of Manning's equation at each iteration of the re-solve, log scale; the last iteration is marked."));
+        sheet.Figures.Add(SheetParts.Convergence(steps, "(ln Q ratio)", "Residual of Manning's equation at each iteration of the solve, log scale; the last iteration is marked."));
         return sheet;
     }
 
@@ -321,19 +268,17 @@ public static class CriticalDepthSheet
         sheet.Results.Add(new("Specific energy (least)", SheetHtml.Fmt(r.SpecificEnergy), lu, ""));
         sheet.Results.Add(new("Critical slope", SheetHtml.Fmt(r.CriticalSlope), "m/m", r.CriticalSlope is null ? "needs a Manning n" : ""));
 
-        double ySi = u.LengthToSi(r.CriticalDepth);
-        double cap = r.AlternateCriticalDepths is { Count: > 0 } more ? u.LengthToSi(0.5 * (r.CriticalDepth + more[0]))
-            : read.Section is CircularSection c ? c.Diameter * (1 - 1e-9) : read.Section.MaximumDepth;
-        var (steps, root) = ChannelSheetParts.Record(read.Section, ySi, cap, u.FlowToSi(read.Flow), null, 0);
+        var steps = r.Trace ?? [];
         sheet.Solver = new SolverRecord(r.Iterations, r.Converged, r.Residual, "ln(g A^3 / (Q^2 T)): the relative mismatch of the critical-flow condition",
-            r.Status, SheetParts.StopReason(r.Status), "u = ln y", steps, ChannelSheetParts.RecordNote(r.Iterations, r.Status, root, r.CriticalDepth, u));
+            r.Status, SheetParts.StopReason(r.Status), ChannelSheetParts.SolveVariable(read.Section, critical: true), steps,
+            ChannelSheetParts.RecordNote(r.Iterations, r.Status, steps.Count, read.Section, critical: true));
         sheet.Warnings.AddRange(r.Warnings);
 
         var levels = new List<(string, double, bool, bool)> { ("critical depth", r.CriticalDepth, true, false) };
         foreach (var d in r.AlternateCriticalDepths ?? []) levels.Add(("further critical depth", d, true, true));
         sheet.Figures.Add(ChannelSheetParts.Drawing(read.Section, u, levels,
             "The cross-section to scale (both axes in one unit) with the critical-depth water line" + (r.AlternateCriticalDepths is null ? "." : "s.")));
-        sheet.Figures.Add(SheetParts.Convergence(steps, "(ln ratio)", "Residual of the critical-flow condition at each iteration of the re-solve, log scale; the last iteration is marked."));
+        sheet.Figures.Add(SheetParts.Convergence(steps, "(ln ratio)", "Residual of the critical-flow condition at each iteration of the solve, log scale; the last iteration is marked."));
         return sheet;
     }
 }

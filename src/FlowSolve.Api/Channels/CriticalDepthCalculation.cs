@@ -18,10 +18,10 @@ public sealed class CriticalDepthCalculation : Calculation<CriticalDepthQuery, C
             Flow: 8, ManningN: 0.02);
 
     public override Outcome<CriticalDepthResponse> Solve(CriticalDepthRequest request, in CalculationContext context) =>
-        ChannelDepths.CriticalDepth(request, context.Sensitivities);
+        ChannelDepths.CriticalDepth(request, context);
 
     protected override Outcome<CriticalDepthResponse> SolveQuery(CriticalDepthQuery query, in CalculationContext context) =>
-        ChannelDepths.CriticalDepth(query, context.Sensitivities);
+        ChannelDepths.CriticalDepth(query, context);
 
     protected override CriticalDepthRequest FromQuery(CriticalDepthQuery q) =>
         new(ChannelInput.Section(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter, q.Points),

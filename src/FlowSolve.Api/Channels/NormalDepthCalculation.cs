@@ -17,10 +17,10 @@ public sealed class NormalDepthCalculation : Calculation<NormalDepthQuery, Norma
         new(new SectionInput("circular", Diameter: 1.2), ManningN: 0.013, Slope: 0.002, Flow: 1.1);
 
     public override Outcome<NormalDepthResponse> Solve(NormalDepthRequest request, in CalculationContext context) =>
-        ChannelDepths.NormalDepth(request, context.Sensitivities);
+        ChannelDepths.NormalDepth(request, context);
 
     protected override Outcome<NormalDepthResponse> SolveQuery(NormalDepthQuery query, in CalculationContext context) =>
-        ChannelDepths.NormalDepth(query, context.Sensitivities);
+        ChannelDepths.NormalDepth(query, context);
 
     protected override NormalDepthRequest FromQuery(NormalDepthQuery q) =>
         new(ChannelInput.Section(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter, q.Points),

@@ -26,11 +26,18 @@ public static class CriticalFlow
     /// <returns>The critical depth, the flow at it, the solve's iterations and status, and warnings.</returns>
     /// <exception cref="ArgumentNullException"><paramref name="section"/> is null.</exception>
     /// <exception cref="ArgumentOutOfRangeException"><paramref name="flow"/> is not positive and finite.</exception>
-    public static CriticalDepthResult CriticalDepth(ChannelSection section, double flow)
+    public static CriticalDepthResult CriticalDepth(ChannelSection section, double flow) => CriticalDepth(section, flow, (SolverTrace?)null);
+
+    /// <summary>As <see cref="CriticalDepth(ChannelSection, double)"/>, recording the solve of the reported depth in
+    /// <paramref name="trace"/> (in ln y for the prismatic shapes, ln(y/(D - y)) for the circle, y for a surveyed section).</summary>
+    /// <param name="section">The cross-section.</param>
+    /// <param name="flow">Discharge Q, m3/s; finite and greater than zero.</param>
+    /// <param name="trace">The per-iteration record to fill, or null.</param>
+    public static CriticalDepthResult CriticalDepth(ChannelSection section, double flow, SolverTrace? trace)
     {
         ArgumentNullException.ThrowIfNull(section);
         ChannelGuard.Positive(flow, nameof(flow));
-        return Solve(section, flow, section.HasOwnRoughness ? 0.0 : double.NaN);
+        return Solve(section, flow, section.HasOwnRoughness ? 0.0 : double.NaN, trace);
     }
 
     /// <summary>The critical depth of a flow in a section, and the critical slope for a Manning n.</summary>
@@ -40,18 +47,25 @@ public static class CriticalFlow
     /// <returns>The critical depth and critical slope, the solve's iterations and status, and warnings.</returns>
     /// <exception cref="ArgumentNullException"><paramref name="section"/> is null.</exception>
     /// <exception cref="ArgumentOutOfRangeException"><paramref name="flow"/> or <paramref name="manningN"/> is not positive and finite.</exception>
-    public static CriticalDepthResult CriticalDepth(ChannelSection section, double flow, double manningN)
+    public static CriticalDepthResult CriticalDepth(ChannelSection section, double flow, double manningN) => CriticalDepth(section, flow, manningN, null);
+
+    /// <summary>As <see cref="CriticalDepth(ChannelSection, double, double)"/>, recording the solve of the reported depth in <paramref name="trace"/>.</summary>
+    /// <param name="section">The cross-section.</param>
+    /// <param name="flow">Discharge Q, m3/s; finite and greater than zero.</param>
+    /// <param name="manningN">Manning n, s m^-1/3 (SI); finite and greater than zero.</param>
+    /// <param name="trace">The per-iteration record to fill, or null.</param>
+    public static CriticalDepthResult CriticalDepth(ChannelSection section, double flow, double manningN, SolverTrace? trace)
     {
         ArgumentNullException.ThrowIfNull(section);
         ChannelGuard.Positive(flow, nameof(flow));
         ChannelGuard.Positive(manningN, nameof(manningN));
-        return Solve(section, flow, manningN);
+        return Solve(section, flow, manningN, trace);
     }
 
     private const string MethodText = "critical depth from Q^2 T = g A^3 (g = 9.80665 m/s2), safeguarded Newton";
 
     // defaultN: NaN for no critical slope; 0 for the section's own roughness; otherwise the n.
-    internal static CriticalDepthResult Solve(ChannelSection section, double flow, double defaultN)
+    internal static CriticalDepthResult Solve(ChannelSection section, double flow, double defaultN, SolverTrace? trace = null)
     {
         double logTarget = Math.Log(flow * flow / StandardGravity);
         switch (section.Shape)
@@ -63,24 +77,24 @@ public static class CriticalFlow
                 // (a flow beyond it is reported as no sign change, never silently clamped).
                 var function = new LogitDepthCriticalResidual(circle, logTarget);
                 double start = LogitDepthCriticalResidual.LogitOf(circle.CriticalDepthGuess(flow * flow / StandardGravity), circle.Diameter);
-                var inLogit = SafeguardedNewton.Solve(function, Bracket.Checked(-30.0, 30.0), start, LogDepthSolve.Options);
+                var inLogit = SafeguardedNewton.Solve(function, Bracket.Checked(-30.0, 30.0), start, LogDepthSolve.Options, trace);
                 var root = inLogit with { Root = LogitDepthCriticalResidual.DepthOf(inLogit.Root, circle.Diameter) };
                 return Build(section, flow, defaultN, root.Root, root, root.Iterations, root.Converged, Array.Empty<double>(), null);
             }
             case SectionShape.Surveyed:
-                return Surveyed((SurveyedSection)section, flow, defaultN, logTarget);
+                return Surveyed((SurveyedSection)section, flow, defaultN, logTarget, trace);
             default:
             {
                 var function = new LogDepthCriticalResidual(section, logTarget);
-                var root = LogDepthSolve.Solve(function, Math.Log(section.CriticalDepthGuess(flow * flow / StandardGravity)), 2.0, 6.0);
+                var root = LogDepthSolve.Solve(function, Math.Log(section.CriticalDepthGuess(flow * flow / StandardGravity)), 2.0, 6.0, trace);
                 return Build(section, flow, defaultN, Math.Exp(root.Root), root, root.Iterations, root.Converged, Array.Empty<double>(), null);
             }
         }
     }
 
-    private static CriticalDepthResult Surveyed(SurveyedSection section, double flow, double defaultN, double logTarget)
+    private static CriticalDepthResult Surveyed(SurveyedSection section, double flow, double defaultN, double logTarget, SolverTrace? trace)
     {
-        var scan = DepthScan.Run(section, new CriticalResidual(section, logTarget), LogDepthSolve.DepthOptions);
+        var scan = DepthScan.Run(section, new CriticalResidual(section, logTarget), LogDepthSolve.DepthOptions, trace);
         if (scan.Depths.Count == 0)
         {
             var warning = new ChannelWarning(ChannelWarningCode.NoCriticalDepthInSection,

@@ -27,10 +27,17 @@ internal sealed class DepthScan
     public bool AllConverged { get; private set; } = true;
     public bool AnyJump { get; private set; }
 
-    public static DepthScan Run<T>(SurveyedSection section, in T function, in SolverOptions options)
+    private SolverTrace? _trace;
+
+    /// <summary>Scans the section's depth range segment by segment and solves for every root of the residual.</summary>
+    /// <param name="section">The surveyed section.</param>
+    /// <param name="function">The residual in depth.</param>
+    /// <param name="options">The root finder's tolerances.</param>
+    /// <param name="trace">Optional per-iteration record of the first depth's solve (the lowest root, the one reported).</param>
+    public static DepthScan Run<T>(SurveyedSection section, in T function, in SolverOptions options, SolverTrace? trace = null)
         where T : struct, IDepthFunction
     {
-        var scan = new DepthScan();
+        var scan = new DepthScan { _trace = trace };
         ReadOnlySpan<double> breaks = section.BreakDepths;
         double a = 0.0, fa = double.NegativeInfinity;
         for (int k = 0; k < breaks.Length; k++)
@@ -79,7 +86,7 @@ internal sealed class DepthScan
         // A secant start where both ends are finite; the midpoint from the invert (where the residual is -infinity).
         double guess = double.IsFinite(fl) ? left + (right - left) * fl / (fl - fr) : 0.5 * (left + right);
         var bracket = rising ? Bracket.KnownIncreasing(left, right) : Bracket.KnownDecreasing(left, right);
-        var result = SafeguardedNewton.Solve(function, bracket, guess, options);
+        var result = SafeguardedNewton.Solve(function, bracket, guess, options, Depths.Count == 0 ? _trace : null);
         Iterations += result.Iterations;
         AllConverged &= result.Converged;
         Add(result.Root, result, jump: false);

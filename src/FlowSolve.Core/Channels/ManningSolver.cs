@@ -67,13 +67,23 @@ public static class ManningSolver
     /// </returns>
     /// <exception cref="ArgumentNullException"><paramref name="section"/> is null.</exception>
     /// <exception cref="ArgumentOutOfRangeException">The flow, slope or n is not positive and finite.</exception>
-    public static NormalDepthResult NormalDepth(ChannelSection section, double flow, double slope, double manningN)
+    public static NormalDepthResult NormalDepth(ChannelSection section, double flow, double slope, double manningN) =>
+        NormalDepth(section, flow, slope, manningN, null);
+
+    /// <summary>As <see cref="NormalDepth(ChannelSection, double, double, double)"/>, recording the solve of the reported
+    /// depth in <paramref name="trace"/> (in ln y for the prismatic shapes, in y for the circle and a surveyed section).</summary>
+    /// <param name="section">The cross-section.</param>
+    /// <param name="flow">Discharge Q, m3/s; finite and greater than zero.</param>
+    /// <param name="slope">Bed (energy) slope S, m/m; finite and greater than zero.</param>
+    /// <param name="manningN">Manning n, s m^-1/3 (SI); finite and greater than zero.</param>
+    /// <param name="trace">The per-iteration record to fill, or null.</param>
+    public static NormalDepthResult NormalDepth(ChannelSection section, double flow, double slope, double manningN, SolverTrace? trace)
     {
         ArgumentNullException.ThrowIfNull(section);
         ChannelGuard.Positive(flow, nameof(flow));
         ChannelGuard.Positive(slope, nameof(slope));
         ChannelGuard.Positive(manningN, nameof(manningN));
-        return Solve(section, flow, slope, manningN);
+        return Solve(section, flow, slope, manningN, trace);
     }
 
     /// <summary>The normal depth of a flow in a section that carries its own roughness on every segment (a surveyed section with a full set of segment n).</summary>
@@ -84,13 +94,20 @@ public static class ManningSolver
     /// <exception cref="ArgumentNullException"><paramref name="section"/> is null.</exception>
     /// <exception cref="ArgumentException">The section does not carry its own roughness on every segment.</exception>
     /// <exception cref="ArgumentOutOfRangeException">The flow or slope is not positive and finite.</exception>
-    public static NormalDepthResult NormalDepth(ChannelSection section, double flow, double slope)
+    public static NormalDepthResult NormalDepth(ChannelSection section, double flow, double slope) => NormalDepth(section, flow, slope, (SolverTrace?)null);
+
+    /// <summary>As <see cref="NormalDepth(ChannelSection, double, double)"/>, recording the solve of the reported depth in <paramref name="trace"/>.</summary>
+    /// <param name="section">The cross-section; <see cref="ChannelSection.HasOwnRoughness"/> must be true.</param>
+    /// <param name="flow">Discharge Q, m3/s; finite and greater than zero.</param>
+    /// <param name="slope">Bed (energy) slope S, m/m; finite and greater than zero.</param>
+    /// <param name="trace">The per-iteration record to fill, or null.</param>
+    public static NormalDepthResult NormalDepth(ChannelSection section, double flow, double slope, SolverTrace? trace)
     {
         ArgumentNullException.ThrowIfNull(section);
         RequireOwnRoughness(section);
         ChannelGuard.Positive(flow, nameof(flow));
         ChannelGuard.Positive(slope, nameof(slope));
-        return Solve(section, flow, slope, 0.0);
+        return Solve(section, flow, slope, 0.0, trace);
     }
 
     /// <summary>The Manning discharge at a given depth, Q = K(y) sqrt(S), m3/s.</summary>
@@ -149,28 +166,28 @@ public static class ManningSolver
             ChannelGuard.Throw(nameof(section), "the section does not carry its own Manning n on every segment; pass manningN");
     }
 
-    private static NormalDepthResult Solve(ChannelSection section, double flow, double slope, double defaultN)
+    private static NormalDepthResult Solve(ChannelSection section, double flow, double slope, double defaultN, SolverTrace? trace)
     {
         double sqrtS = Math.Sqrt(slope);
         double logTarget = Math.Log(flow / sqrtS);
         switch (section.Shape)
         {
             case SectionShape.Circular:
-                return Circle((CircularSection)section, flow, slope, defaultN, logTarget);
+                return Circle((CircularSection)section, flow, slope, defaultN, logTarget, trace);
             case SectionShape.Surveyed:
-                return Surveyed((SurveyedSection)section, flow, slope, defaultN, logTarget);
+                return Surveyed((SurveyedSection)section, flow, slope, defaultN, logTarget, trace);
             default:
             {
                 var function = new LogDepthConveyanceResidual(section, defaultN, logTarget);
                 double start = section.NormalDepthGuess(flow * defaultN / sqrtS);
-                var root = LogDepthSolve.Solve(function, Math.Log(start), 1.0, 10.0 / 3.0);
+                var root = LogDepthSolve.Solve(function, Math.Log(start), 1.0, 10.0 / 3.0, trace);
                 return Build(section, flow, slope, defaultN, Math.Exp(root.Root), root, root.Iterations, root.Converged,
                     Array.Empty<double>(), null, null);
             }
         }
     }
 
-    private static NormalDepthResult Circle(CircularSection circle, double flow, double slope, double n, double logTarget)
+    private static NormalDepthResult Circle(CircularSection circle, double flow, double slope, double n, double logTarget, SolverTrace? trace)
     {
         double d = circle.Diameter, peak = circle.PeakDischargeDepth;
         var function = new ConveyanceResidual(circle, n, logTarget);
@@ -197,7 +214,7 @@ public static class ManningSolver
         // full-pipe flow, about 0.76 at the full-pipe flow); the bracket makes any start safe.
         double fraction = Math.Exp(-atFull);
         double start = Math.Clamp(0.5 * d * Math.Pow(2.0 * fraction, 0.6), 1e-6 * d, 0.999 * peak);
-        var lower = SafeguardedNewton.Solve(function, Bracket.KnownIncreasing(0.0, peak), start, LogDepthSolve.DepthOptions);
+        var lower = SafeguardedNewton.Solve(function, Bracket.KnownIncreasing(0.0, peak), start, LogDepthSolve.DepthOptions, trace);
         // At or below the full-pipe flow (to the same margin) the only other depth is the full pipe itself.
         if (!(atFull < -touch))
             return Build(circle, flow, slope, n, lower.Root, lower, lower.Iterations, lower.Converged, Array.Empty<double>(), capacity, null);
@@ -211,9 +228,9 @@ public static class ManningSolver
             new[] { upper.Root }, capacity, new List<ChannelWarning> { warning });
     }
 
-    private static NormalDepthResult Surveyed(SurveyedSection section, double flow, double slope, double n, double logTarget)
+    private static NormalDepthResult Surveyed(SurveyedSection section, double flow, double slope, double n, double logTarget, SolverTrace? trace)
     {
-        var scan = DepthScan.Run(section, new ConveyanceResidual(section, n, logTarget), LogDepthSolve.DepthOptions);
+        var scan = DepthScan.Run(section, new ConveyanceResidual(section, n, logTarget), LogDepthSolve.DepthOptions, trace);
         var capacity = new ChannelCapacity(Math.Exp(scan.MaximumValue + Math.Log(flow)), scan.DepthAtMaximum, Math.Exp(scan.ValueAtTop + Math.Log(flow)), section.MaximumDepth);
         if (scan.Depths.Count == 0)
         {

@@ -49,12 +49,19 @@ public sealed class ChannelSheetsTests(ApiFixture api)
         double yc = Math.Cbrt(9.0 / 9.80665);
         var line = Assert.Single(page.Cases("plot-section"));
         Assert.Equal(yc, SheetPage.Attr(line, "data-y"), 1e-12);
-        Assert.Contains("re-solve", page.Document.GetElementById("solver")!.TextContent);
+        // The record is the answer's own solve: as many rows as the JSON answer's trace, ending at ln yc.
+        var traced = await api.GetJson("/v1/channels/critical-depth?shape=rectangular&bottomWidth=4&flow=12&trace=true");
+        var trace = traced.Body.GetProperty("trace");
+        var rows = page.Document.QuerySelectorAll("#iterations tbody tr");
+        Assert.Equal(trace.GetArrayLength(), rows.Length);
+        // One row per iteration, and one for the start itself when it already met the tolerance (the closed form here).
+        Assert.InRange(rows.Length, 1, traced.Body.GetProperty("iterations").GetInt32() + 1);
+        Assert.Equal(Math.Log(yc), trace[trace.GetArrayLength() - 1].GetProperty("x").GetDouble(), 1e-9);
         Assert.NotEmpty(page.Cases("plot-convergence"));
     }
 
     [Fact]
-    public async Task NormalDepth_Surveyed_ReSolveAgreesWithTheResponse()
+    public async Task NormalDepth_Surveyed_RecordIsTheAnswersOwnSolve()
     {
         const string query = "/v1/channels/normal-depth?shape=surveyed&points=0:2,4:0,7:0,11:2&manningN=0.03&slope=0.001&flow=5";
         var page = await SheetPage.Get(api, query + "&format=html");
@@ -66,9 +73,13 @@ public sealed class ChannelSheetsTests(ApiFixture api)
         // The survey's walls run 4 across per 2 up: the water edges lie at 4 - 2y and 7 + 2y.
         Assert.Equal(4 - 2 * y, SheetPage.Attr(normal, "data-x1"), 1e-12);
         Assert.Equal(7 + 2 * y, SheetPage.Attr(normal, "data-x2"), 1e-12);
+        // A surveyed section is solved in y itself: the record's last iterate is the reported depth, and the record has
+        // as many rows as the JSON answer's own trace.
         var rows = page.Document.QuerySelectorAll("#iterations tbody tr");
-        Assert.InRange(rows.Length, 1, 40);
-        double lastU = double.Parse(rows[^1].Children[1].TextContent, System.Globalization.CultureInfo.InvariantCulture);
-        Assert.Equal(y, Math.Exp(lastU), y * 1e-10);
+        var trace = (await api.GetJson(query + "&trace=true")).Body.GetProperty("trace");
+        Assert.Equal(trace.GetArrayLength(), rows.Length);
+        Assert.InRange(rows.Length, 1, json.Body.GetProperty("iterations").GetInt32() + 1);
+        double lastY = double.Parse(rows[^1].Children[1].TextContent, System.Globalization.CultureInfo.InvariantCulture);
+        Assert.Equal(y, lastY, y * 1e-10);
     }
 }

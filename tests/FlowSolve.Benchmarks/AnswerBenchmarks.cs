@@ -102,4 +102,20 @@ public class AnswerBenchmarks
 
     [Benchmark]
     public object PipeFlowHandler() => PipeFlow.Solve(new PipeFlowRequest(8, 0.3, 1200, Roughness: 0.00026, Temperature: 15), CalculationContext.Plain).Answer!;
+
+    /// <summary>The guard every answer passes (finite numbers, warnings for strict=true): a walk over the whole answer.</summary>
+    [Benchmark]
+    public object? FrictionReview() => CalculationGuard.Review("friction-factor", _friction, strict: false);
+
+    /// <summary>A spreadsheet cell's text from the answer: the compiled column reader of the primary output.</summary>
+    [Benchmark]
+    public string FrictionTextCell()
+    {
+        var cell = new System.Text.StringBuilder(24);
+        FrictionColumn.WriteText(_friction, cell);
+        return cell.ToString();
+    }
+
+    private static readonly ResponseColumn FrictionColumn = new CalculationDescriptor("friction-factor", "frictionFactor", typeof(FrictionFactorRequest),
+        typeof(FrictionFactorResponse), _ => null!).Columns.Single(c => c.Name == "frictionFactor");
 }

@@ -233,10 +233,10 @@ internal static class ChannelDepths
 
     private static bool AllFinite(params double[] values) => values.All(double.IsFinite);
 
-    private static string RegimeCode(FlowRegime regime) => regime switch
+    private static string RegimeCode(FroudeRegime regime) => regime switch
     {
-        FlowRegime.Subcritical => "subcritical",
-        FlowRegime.Critical => "critical",
+        FroudeRegime.Subcritical => "subcritical",
+        FroudeRegime.Critical => "critical",
         _ => "supercritical",
     };
 

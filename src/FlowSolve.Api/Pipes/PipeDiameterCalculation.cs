@@ -31,7 +31,7 @@ public sealed class PipeDiameterCalculation : Calculation<PipeDiameterRequest, P
     public override Outcome<PipeDiameterResponse> Solve(PipeDiameterRequest request, in CalculationContext context)
     {
         var errors = new FieldErrors();
-        var input = PipeInput.Read(request, errors, allowHazenWilliams: false);
+        var input = PipeProblem.Read(request, errors, allowHazenWilliams: false);
         double flow = input.ReadFlow(errors, request.Flow);
         double head = input.ReadHead(errors, request.HeadLoss, positive: request.ElevationChange is null);
         PipeSizeTable? table = null;
@@ -66,7 +66,7 @@ public sealed class PipeDiameterCalculation : Calculation<PipeDiameterRequest, P
             if (PipeOutcomes.NoAnswer(r.Status, allowed, input) is { } problem) return problem;
 
             var s = r.State;
-            var warnings = PipeInput.Warnings(r.DescribeWarnings());
+            var warnings = PipeProblem.Warnings(r.DescribeWarnings());
             IEnumerable<ValidityCheck> validity = s.Validity();
             SelectedSizeDto? selected = null;
             if (selection is { Size: { } size } pick2)
@@ -75,15 +75,15 @@ public sealed class PipeDiameterCalculation : Calculation<PipeDiameterRequest, P
                 selected = new SelectedSizeDto(size.Name, pick2.Table, u.Length(size.InsideDiameter), u.Length(size.OutsideDiameter),
                     u.Length(size.WallThickness), u.Length(at.HeadLoss), u.Length(at.FrictionHeadLoss), u.Length(at.MinorHeadLoss),
                     input.Pressure(pick2.AtSize.PressureDrop), u.Velocity(at.Velocity), at.Reynolds, at.FrictionFactor,
-                    PipeInput.RegimeCode(at.Regime));
+                    PipeProblem.RegimeCode(at.Regime));
                 validity = at.Validity();
-                warnings.AddRange(PipeInput.Warnings(pick2.AtSize.DescribeWarnings())
+                warnings.AddRange(PipeProblem.Warnings(pick2.AtSize.DescribeWarnings())
                     .Select(w => w with { Message = $"At the selected size {size.Name}: {w.Message}" }));
             }
             double? pressureDrop = input.Fluid.Density * Physical.StandardGravity * s.HeadLoss;
             var response = new PipeDiameterResponse(
                 u.Length(s.Diameter), input.FlowUnit.FromSi(s.Flow), u.Velocity(s.Velocity), s.Reynolds, s.RelativeRoughness,
-                s.FrictionFactor, PipeInput.RegimeCode(s.Regime), s.Relation,
+                s.FrictionFactor, PipeProblem.RegimeCode(s.Regime), s.Relation,
                 u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss), u.Length(s.MinorHeadLoss), input.Pressure(pressureDrop),
                 u.Length(allowed), u.Length(input.ElevationRise),
                 u.Length(input.Length), u.Length(input.Roughness), input.MinorLossCoefficient,
@@ -117,7 +117,7 @@ public sealed class PipeDiameterCalculation : Calculation<PipeDiameterRequest, P
         }
     }
 
-    private static ProblemHttpResult NoListedSize(in SizeSelectionResult pick, PipeSizeTable table, double allowed, PipeInput input)
+    private static ProblemHttpResult NoListedSize(in SizeSelectionResult pick, PipeSizeTable table, double allowed, PipeProblem input)
     {
         var u = input.Units;
         var largest = table.Sizes[^1];

@@ -26,7 +26,7 @@ public sealed class PipeFlowCalculation : Calculation<PipeFlowRequest, PipeFlowR
     public override Outcome<PipeFlowResponse> Solve(PipeFlowRequest request, in CalculationContext context)
     {
         var errors = new FieldErrors();
-        var input = PipeInput.Read(request, errors);
+        var input = PipeProblem.Read(request, errors);
         double diameter = input.ReadDiameter(errors, request.Diameter);
         double head = input.ReadHead(errors, request.HeadLoss, positive: false);
         if (errors.Any) return ProblemResults.BadInput(errors);
@@ -43,14 +43,14 @@ public sealed class PipeFlowCalculation : Calculation<PipeFlowRequest, PipeFlowR
                 var s = r.State;
                 var dwResponse = new PipeFlowResponse(
                     input.FlowUnit.FromSi(s.Flow), u.Velocity(s.Velocity), s.Reynolds, s.RelativeRoughness, s.FrictionFactor,
-                    PipeInput.RegimeCode(s.Regime), s.Relation,
+                    PipeProblem.RegimeCode(s.Regime), s.Relation,
                     u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss), u.Length(s.MinorHeadLoss), input.Pressure(r.PressureDrop),
                     u.Length(r.AvailableHead), u.Length(r.ElevationRise), u.Length(r.DrivingHead),
                     u.Length(diameter), u.Length(input.Length), u.Length(input.Roughness), input.MinorLossCoefficient,
                     u.KinematicViscosity(input.Fluid.KinematicViscosity), input.DensityOut,
                     r.Iterations, r.FrictionIterations, r.Converged, r.Residual, r.Status.Code(), r.SolverStatus.Code(), "ln(Q)",
                     input.MethodCode, u.Code, input.FlowUnit.Code,
-                    s.Validity().Select(input.Validity).ToArray(), PipeInput.Warnings(r.DescribeWarnings()), input.Assumptions,
+                    s.Validity().Select(input.Validity).ToArray(), PipeProblem.Warnings(r.DescribeWarnings()), input.Assumptions,
                     null, TraceStepDto.From(trace)) { AlternateFlow = r.AlternateFlow is double alt ? input.FlowUnit.FromSi(alt) : null };
                 if (context.Sensitivities && r.Status == PipeStatus.Solved)
                 {
@@ -80,17 +80,17 @@ public sealed class PipeFlowCalculation : Calculation<PipeFlowRequest, PipeFlowR
             var at = hw.DarcyWeisbach; // Darcy-Weisbach state at the Hazen-Williams flow: Reynolds number, regime
             DarcyWeisbachComparisonDto? comparison = dw.Status.HasAnswer()
                 ? new("flow", u.Length(dw.State.HeadLoss), u.Length(dw.State.FrictionHeadLoss), input.FlowUnit.FromSi(dw.Flow),
-                    u.Velocity(dw.State.Velocity), dw.State.Reynolds, dw.State.FrictionFactor, PipeInput.RegimeCode(dw.State.Regime),
+                    u.Velocity(dw.State.Velocity), dw.State.Reynolds, dw.State.FrictionFactor, PipeProblem.RegimeCode(dw.State.Regime),
                     dw.Status.Code(), dw.Iterations, input.FlowUnit.FromSi(hwFlow.FlowDifference), hwFlow.RelativeFlowDifference * 100)
                 : null;
-            var warnings = PipeInput.Warnings(hw.DescribeWarnings());
+            var warnings = PipeProblem.Warnings(hw.DescribeWarnings());
             if (comparison is null)
                 warnings.Add(new("darcy-weisbach-unavailable", "The Darcy-Weisbach flow from the same head has no answer: " + dw.Status.Reason() + "."));
             var validity = hw.Validity().Select(input.Validity).Concat(at.Validity().Select(input.Validity)).ToArray();
             double? rhoG = input.Fluid.Density * Physical.StandardGravity;
             var hwResponse = new PipeFlowResponse(
                 input.FlowUnit.FromSi(hw.Flow), u.Velocity(hw.Velocity), at.Reynolds, at.RelativeRoughness,
-                PipeOutcomes.EquivalentDarcyFactor(hw.FrictionHeadLoss, at, input.Length), PipeInput.RegimeCode(at.Regime), "hazen-williams",
+                PipeOutcomes.EquivalentDarcyFactor(hw.FrictionHeadLoss, at, input.Length), PipeProblem.RegimeCode(at.Regime), "hazen-williams",
                 u.Length(hw.HeadLoss), u.Length(hw.FrictionHeadLoss), u.Length(hw.MinorHeadLoss), input.Pressure(rhoG * hw.HeadLoss),
                 u.Length(head), u.Length(input.ElevationRise), u.Length(hwFlow.DrivingHead),
                 u.Length(diameter), u.Length(input.Length), u.Length(input.Roughness), input.MinorLossCoefficient,

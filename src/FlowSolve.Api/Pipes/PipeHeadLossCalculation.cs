@@ -27,7 +27,7 @@ public sealed class PipeHeadLossCalculation : Calculation<PipeHeadLossRequest, P
     public override Outcome<PipeHeadLossResponse> Solve(PipeHeadLossRequest request, in CalculationContext context)
     {
         var errors = new FieldErrors();
-        var input = PipeInput.Read(request, errors);
+        var input = PipeProblem.Read(request, errors);
         double flow = input.ReadFlow(errors, request.Flow);
         double diameter = input.ReadDiameter(errors, request.Diameter);
         if (errors.Any) return ProblemResults.BadInput(errors);
@@ -54,11 +54,11 @@ public sealed class PipeHeadLossCalculation : Calculation<PipeHeadLossRequest, P
                     u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss), u.Length(s.MinorHeadLoss), input.Pressure(result.PressureDrop),
                     u.Length(result.ElevationRise), u.Length(result.TotalHead), input.Pressure(result.TotalPressureDifference),
                     input.FlowUnit.FromSi(s.Flow), u.Length(s.Diameter), u.Velocity(s.Velocity), u.Length(s.VelocityHead),
-                    s.Reynolds, s.RelativeRoughness, s.FrictionFactor, PipeInput.RegimeCode(s.Regime), s.Relation,
+                    s.Reynolds, s.RelativeRoughness, s.FrictionFactor, PipeProblem.RegimeCode(s.Regime), s.Relation,
                     u.Length(input.Length), u.Length(input.Roughness), input.MinorLossCoefficient,
                     u.KinematicViscosity(input.Fluid.KinematicViscosity), input.DensityOut,
                     result.Iterations, result.Converged, s.FrictionResidualAtAnswer, result.Status.Code(), input.MethodCode, u.Code, input.FlowUnit.Code,
-                    validity, PipeInput.Warnings(result.DescribeWarnings()), input.Assumptions, null) { Trace = TraceStepDto.From(trace) };
+                    validity, PipeProblem.Warnings(result.DescribeWarnings()), input.Assumptions, null) { Trace = TraceStepDto.From(trace) };
                 if (context.Sensitivities && result.Converged)
                 {
                     var spread = PipeSensitivityTables.Spread("headLoss", input, e =>
@@ -79,18 +79,18 @@ public sealed class PipeHeadLossCalculation : Calculation<PipeHeadLossRequest, P
             double total = hw.HeadLoss + input.ElevationRise;
             validity.InsertRange(0, hw.Validity().Select(input.Validity));
             var comparison = new DarcyWeisbachComparisonDto("headLoss", u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss),
-                input.FlowUnit.FromSi(s.Flow), u.Velocity(s.Velocity), s.Reynolds, s.FrictionFactor, PipeInput.RegimeCode(s.Regime),
+                input.FlowUnit.FromSi(s.Flow), u.Velocity(s.Velocity), s.Reynolds, s.FrictionFactor, PipeProblem.RegimeCode(s.Regime),
                 result.Status.Code(), result.Iterations, u.Length(hw.Difference), hw.RelativeDifference * 100);
             var hwResponse = new PipeHeadLossResponse(
                 u.Length(hw.HeadLoss), u.Length(hw.FrictionHeadLoss), u.Length(hw.MinorHeadLoss), input.Pressure(rhoG * hw.HeadLoss),
                 u.Length(input.ElevationRise), u.Length(total), input.Pressure(rhoG * total),
                 input.FlowUnit.FromSi(hw.Flow), u.Length(hw.Diameter), u.Velocity(hw.Velocity), u.Length(s.VelocityHead),
                 s.Reynolds, s.RelativeRoughness, PipeOutcomes.EquivalentDarcyFactor(hw.FrictionHeadLoss, s, input.Length),
-                PipeInput.RegimeCode(s.Regime), "hazen-williams",
+                PipeProblem.RegimeCode(s.Regime), "hazen-williams",
                 u.Length(input.Length), u.Length(input.Roughness), input.MinorLossCoefficient,
                 u.KinematicViscosity(input.Fluid.KinematicViscosity), input.DensityOut,
                 0, true, 0.0, PipeStatus.Solved.Code(), input.MethodCode, u.Code, input.FlowUnit.Code,
-                validity, PipeInput.Warnings(hw.DescribeWarnings()), input.Assumptions, comparison);
+                validity, PipeProblem.Warnings(hw.DescribeWarnings()), input.Assumptions, comparison);
             if (context.Sensitivities) hwResponse = hwResponse with { Warnings = PipeSensitivityTables.With(hwResponse.Warnings, PipeSensitivityTables.HazenWilliams) };
             return hwResponse;
         }

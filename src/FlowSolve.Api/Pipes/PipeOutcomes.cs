@@ -21,7 +21,7 @@ internal static class PipeOutcomes
 
     /// <summary>The 422 for a status without an answer; null when the status holds one (or is not-converged, which is
     /// answered 200 with converged=false and a warning).</summary>
-    public static ProblemHttpResult? NoAnswer(PipeStatus status, double drivingHead, PipeInput input)
+    public static ProblemHttpResult? NoAnswer(PipeStatus status, double drivingHead, PipeProblem input)
     {
         if (status.HasAnswer() || status == PipeStatus.NotConverged) return null;
         var u = input.Units;
@@ -40,7 +40,7 @@ internal static class PipeOutcomes
             $"The Reynolds number of this flow is {reynolds:G4}, above {DarcyFriction.MaximumReynolds:0e0}, the largest the friction relations accept."),
             new Dictionary<string, object?> { ["pipeStatus"] = PipeStatus.OutsideRange.Code(), ["reynolds"] = double.IsFinite(reynolds) ? reynolds : null });
 
-    public static ProblemHttpResult BelowRange(double reynolds, PipeInput input, in PipeGeometry pipe, double flow)
+    public static ProblemHttpResult BelowRange(double reynolds, PipeProblem input, in PipeGeometry pipe, double flow)
     {
         var u = input.Units;
         double d = pipe.Diameter, g = Physical.StandardGravity;

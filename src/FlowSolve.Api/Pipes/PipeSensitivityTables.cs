@@ -13,7 +13,7 @@ internal static class PipeSensitivityTables
     public enum Problem { HeadLoss, Flow, Diameter }
 
     public static IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Build(
-        Problem problem, in PipeSensitivities s, in PipeState state, PipeInput input, double head)
+        Problem problem, in PipeSensitivities s, in PipeState state, PipeProblem input, double head)
     {
         var b = new SensitivityBuilder();
         (string Name, double Value, PipeInputDerivatives D)[] outputs =
@@ -47,7 +47,7 @@ internal static class PipeSensitivityTables
     /// returns the answer at a roughness in m, or null when there is none. The range, in order of preference: the
     /// caller's agedRoughness (from the roughness the answer used), the table's new and aged values, the table's stated
     /// uncertainty of the new value. Null when none applies or an end has no answer.</summary>
-    public static RoughnessSpreadDto? Spread(string output, PipeInput input, Func<double, double?> answerAt)
+    public static RoughnessSpreadDto? Spread(string output, PipeProblem input, Func<double, double?> answerAt)
     {
         var u = input.Units;
         string table = $"{RoughnessTable.Source} ({RoughnessTable.Provenance})";
@@ -87,7 +87,7 @@ internal static class PipeSensitivityTables
         [.. warnings, .. more.Where(w => w is not null).Select(w => w!)];
 
     /// <summary>Why there is no spread, or what a spread over the table's uncertainty means; null otherwise.</summary>
-    public static WarningDto? SpreadWarning(PipeInput input, RoughnessSpreadDto? spread)
+    public static WarningDto? SpreadWarning(PipeProblem input, RoughnessSpreadDto? spread)
     {
         if (spread is { Basis: "stated-uncertainty" })
             return new WarningDto("roughness-spread-table-uncertainty", string.Create(CultureInfo.InvariantCulture,

@@ -19,9 +19,9 @@ internal static class PipeSheetParts
         Enumerable.Range(1, 80).Select(i => caseFlowSi * i / 40.0).ToArray();
 
     /// <summary>The request's shared fields read again (they passed validation already), in SI.</summary>
-    public static PipeInput Read(IPipeRequest request) => PipeInput.Read(request, new FieldErrors());
+    public static PipeProblem Read(IPipeRequest request) => PipeProblem.Read(request, new FieldErrors());
 
-    public static void Inputs(Sheet sheet, IPipeRequest request, PipeInput input, double length, double roughness, double k,
+    public static void Inputs(Sheet sheet, IPipeRequest request, PipeProblem input, double length, double roughness, double k,
         double nu, double? rho, double elevation)
     {
         var u = input.Units;
@@ -42,7 +42,7 @@ internal static class PipeSheetParts
         sheet.Inputs.Add(new("Units", u.Code + ", flows in " + input.FlowUnit.Code, "", request.Units is null ? "default" : "as given"));
     }
 
-    public static void Methods(Sheet sheet, PipeInput input, string relation, IPipeRequest request)
+    public static void Methods(Sheet sheet, PipeProblem input, string relation, IPipeRequest request)
     {
         sheet.Methods.Add(new("Darcy-Weisbach", "hf = f (L/D) V^2/(2g); V = 4Q/(pi D^2); g = 9.80665 m/s2",
             "Weisbach (1845) and Darcy (1857), from memory; standard gravity, 3rd CGPM (1901)"));
@@ -58,7 +58,7 @@ internal static class PipeSheetParts
     }
 
     /// <summary>Head loss (friction + minor) against flow for the pipe at <paramref name="diameterSi"/>, the case marked.</summary>
-    public static SheetFigure Curve(PipeInput input, double diameterSi, double caseFlow, double caseHeadLoss, string flowUnit,
+    public static SheetFigure Curve(PipeProblem input, double diameterSi, double caseFlow, double caseHeadLoss, string flowUnit,
         double? referenceHead, string caption)
     {
         var u = input.Units;
@@ -88,7 +88,7 @@ internal static class PipeSheetParts
         return new SheetFigure("head-loss", plot.Render(), caption);
     }
 
-    public static string UnitOfPressure(PipeInput input) => input.Units.PressureUnit;
+    public static string UnitOfPressure(PipeProblem input) => input.Units.PressureUnit;
 }
 
 /// <summary>The head-loss sheet.</summary>

@@ -16,7 +16,7 @@ public enum DepthSolution
 }
 
 /// <summary>The state of flow, from the Froude number.</summary>
-public enum FlowRegime
+public enum FroudeRegime
 {
     /// <summary>Froude number below 0.99: tranquil flow, controlled from downstream.</summary>
     Subcritical,
@@ -164,7 +164,7 @@ public readonly record struct NormalDepthResult
     public double FroudeNumber { get; init; }
 
     /// <summary>Flow regime from the Froude number.</summary>
-    public FlowRegime Regime { get; init; }
+    public FroudeRegime Regime { get; init; }
 
     /// <summary>Specific energy y + V^2/(2g) at normal depth, m (energy coefficient 1).</summary>
     public double SpecificEnergy { get; init; }

@@ -266,7 +266,7 @@ public static class ManningSolver
             NormalDepth = double.NaN, AlternateNormalDepth = null, AlternateNormalDepths = Array.Empty<double>(),
             Solution = DepthSolution.None,
             Area = double.NaN, WettedPerimeter = double.NaN, HydraulicRadius = double.NaN, TopWidth = double.NaN,
-            HydraulicDepth = double.NaN, Velocity = double.NaN, FroudeNumber = double.NaN, Regime = FlowRegime.Subcritical,
+            HydraulicDepth = double.NaN, Velocity = double.NaN, FroudeNumber = double.NaN, Regime = FroudeRegime.Subcritical,
             SpecificEnergy = double.NaN, EffectiveManningN = double.NaN,
             CriticalDepth = critical.CriticalDepth, CriticalSlope = critical.CriticalSlope, Critical = critical,
             Capacity = capacity, Iterations = iterations, Converged = false, Residual = residual, Status = SolveStatus.NoSignChange,
@@ -283,7 +283,7 @@ public static class ManningSolver
         double velocity = flow / g.Area;
         double hydraulicDepth = g.Area / g.TopWidth;
         double froude = velocity / Math.Sqrt(CriticalFlow.StandardGravity * hydraulicDepth);
-        var regime = froude < 0.99 ? FlowRegime.Subcritical : froude > 1.01 ? FlowRegime.Supercritical : FlowRegime.Critical;
+        var regime = froude < 0.99 ? FroudeRegime.Subcritical : froude > 1.01 ? FroudeRegime.Supercritical : FroudeRegime.Critical;
         double effectiveN = g.EffectiveManningN(n);
         var validity = ManningValidity.For(effectiveN);
         var critical = CriticalFlow.Solve(section, flow, n);

@@ -114,7 +114,7 @@ public class CriticalFlowTests
         var normal = ManningSolver.NormalDepth(section, 14.0, critical.CriticalSlope, 0.02);
         Assert.Equal(critical.CriticalDepth, normal.NormalDepth, 1e-11);
         Assert.Equal(1.0, normal.FroudeNumber, 1e-10);
-        Assert.Equal(FlowRegime.Critical, normal.Regime);
+        Assert.Equal(FroudeRegime.Critical, normal.Regime);
         Assert.Contains(normal.Warnings, w => w.Code == ChannelWarningCode.NearCritical);
     }
 

@@ -50,7 +50,7 @@ public class ManningSolverTests
         Assert.Equal(3.36, result.NormalDepth / Foot, 0.005);
         Assert.True(result.Converged);
         Assert.InRange(result.Iterations, 1, 8);
-        Assert.Equal(FlowRegime.Subcritical, result.Regime);
+        Assert.Equal(FroudeRegime.Subcritical, result.Regime);
     }
 
     // (shape, flow m3/s, slope, n): every open shape against MathNet's Brent on Q = (1/n) A R^(2/3) sqrt(S) with
@@ -104,14 +104,14 @@ public class ManningSolverTests
         Assert.Equal(result.Area / result.WettedPerimeter, result.HydraulicRadius, 1e-14);
         Assert.Equal(0.022, result.EffectiveManningN);
         Assert.True(result.Validity.InTypicalRange);
-        Assert.Equal(result.NormalDepth > result.CriticalDepth, result.Regime == FlowRegime.Subcritical);
+        Assert.Equal(result.NormalDepth > result.CriticalDepth, result.Regime == FroudeRegime.Subcritical);
     }
 
     [Fact]
     public void NormalDepth_SteepSlope_IsSupercriticalBelowCriticalDepth()
     {
         var result = ManningSolver.NormalDepth(new RectangularSection(3.0), 12.0, 0.05, 0.014);
-        Assert.Equal(FlowRegime.Supercritical, result.Regime);
+        Assert.Equal(FroudeRegime.Supercritical, result.Regime);
         Assert.True(result.NormalDepth < result.CriticalDepth);
         Assert.True(result.FroudeNumber > 1.0);
     }

@@ -13,7 +13,7 @@ namespace FlowSolve.Api.Pipes;
 /// is recorded in <see cref="Assumptions"/>. Bounds (in SI) keep every value the Core computes finite; they lie far
 /// outside engineering practice.
 /// </summary>
-internal sealed class PipeInput
+internal sealed class PipeProblem
 {
     public const double MaxLength = 1e7;
     public const double MinDiameter = 1e-6;
@@ -56,7 +56,7 @@ internal sealed class PipeInput
     public string MethodCode => HazenWilliams ? "hazen-williams" : "darcy-weisbach";
 
     /// <summary>Reads the shared fields; errors go to <paramref name="errors"/> under their wire names.</summary>
-    public static PipeInput Read(IPipeRequest r, FieldErrors errors, bool allowHazenWilliams = true)
+    public static PipeProblem Read(IPipeRequest r, FieldErrors errors, bool allowHazenWilliams = true)
     {
         var units = UnitSystem.Parse(r.Units, errors);
         var flowUnit = FlowUnit.Parse(r.FlowUnit, units, errors);
@@ -129,7 +129,7 @@ internal sealed class PipeInput
             errors.Add("method", allowHazenWilliams ? "must be darcy-weisbach or hazen-williams" : "must be darcy-weisbach");
         }
 
-        return new PipeInput
+        return new PipeProblem
         {
             Units = units, FlowUnit = flowUnit, Length = length, Roughness = roughness, RoughnessField = roughnessField,
             MinorLossCoefficient = minorLoss, ElevationRise = elevation, Fluid = fluid,

@@ -134,6 +134,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
     where TQuery : class where TRequest : class where TResponse : class
 {
     private IReadOnlyDictionary<string, ResponseColumn>? _columns;
+    private SolverMetrics.For? _metrics;
 
     public abstract CalculationInfo Info { get; }
 
@@ -212,7 +213,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
         bool trace = (query as ITraceable)?.Trace == true;
         var context = Context(http, format, trace);
         var outcome = Guarded(static (self, q, c) => self.SolveQuery(q, c), query, context);
-        return Answer(outcome, format, http, () => FromQuery(query));
+        return Answer(outcome, format, http, query, null);
     }
 
     private IResult AnswerBody(TRequest request, HttpContext http)
@@ -222,24 +223,29 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
         bool trace = (request as ITraceable)?.Trace == true || Formats.Flag(http, "trace");
         var context = Context(http, format, trace);
         var outcome = Guarded(static (self, r, c) => self.Solve(r, c), request, context);
-        return Answer(outcome, format, http, () => request);
+        return Answer(outcome, format, http, null, request);
     }
 
     private static CalculationContext Context(HttpContext http, Format format, bool trace) =>
         new(trace || format == Format.Html, Formats.Flag(http, "sensitivities"), http.RequestServices, http.Request.Query, http.RequestAborted);
 
     /// <summary>Projects the one solve's outcome into the format asked for: JSON, one text cell, or the sheet.</summary>
-    private IResult Answer(in Outcome<TResponse> outcome, Format format, HttpContext http, Func<TRequest> request)
+    /// <param name="outcome">The one solve's outcome.</param>
+    /// <param name="format">The format asked for.</param>
+    /// <param name="http">The request.</param>
+    /// <param name="query">The GET form's query (turned into the request only for the sheet), or null.</param>
+    /// <param name="request">The POST form's body, or null.</param>
+    private IResult Answer(in Outcome<TResponse> outcome, Format format, HttpContext http, TQuery? query, TRequest? request)
     {
         if (outcome.Problem is { } problem) return Formats.Problem(format, Info.Name, problem, http);
         var answer = outcome.Answer!;
-        SolverMetrics.Record(Info.Name, answer);
+        (_metrics ??= new SolverMetrics.For(Info.Name)).Record(answer);
         if (CalculationGuard.Review(Info.Name, answer, Formats.Flag(http, "strict")) is { } refused)
             return Formats.Problem(format, Info.Name, refused, http);
         return format switch
         {
             Format.Text => Text(answer, http),
-            Format.Html => Html(request(), answer, http),
+            Format.Html => Html(request ?? FromQuery(query!), answer, http),
             _ => new JsonAnswer(answer, StatusCodes.Status200OK),
         };
     }

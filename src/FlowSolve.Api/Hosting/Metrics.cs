@@ -32,6 +32,20 @@ public static class SolverMetrics
         if (!s.Converged) NotConverged.WithLabels(calculation).Inc();
     }
 
+    /// <summary>One calculation's solver metrics, with the labelled series looked up once rather than per request.</summary>
+    public sealed class For(string calculation)
+    {
+        private readonly Histogram.Child _iterations = Iterations.WithLabels(calculation);
+        private readonly Lazy<Counter.Child> _notConverged = new(() => NotConverged.WithLabels(calculation));
+
+        public void Record(object? value)
+        {
+            if (value is not ISolveSummary s) return;
+            _iterations.Observe(s.Iterations);
+            if (!s.Converged) _notConverged.Value.Inc();
+        }
+    }
+
     public static WebApplication UseFlowSolveMetrics(this WebApplication app)
     {
         app.UseHttpMetrics(o => o.ReduceStatusCodeCardinality());

@@ -76,9 +76,9 @@ public readonly struct FrictionResult
             return [new ValidityCheck("laminar", "Hagen-Poiseuille law; laminar limit as configured (common practice)",
                 "reynolds", 0, options.LaminarLimit, _reynolds)];
         FrictionMethodInfo.TryParse(Relation, out var info);
-        string source = info.Source + "; range: " + info.RangeProvenance;
+        string source = info.SourceAndRange;
         var reynolds = Regime == FlowRegime.Transitional || (info.Method == FrictionMethod.Churchill && Regime != FlowRegime.Turbulent)
-            ? new ValidityCheck(info.Code, source + " (all regimes)", "reynolds", 0, double.PositiveInfinity, _reynolds)
+            ? new ValidityCheck(info.Code, info.SourceAndRange + " (all regimes)", "reynolds", 0, double.PositiveInfinity, _reynolds)
             : new ValidityCheck(info.Code, source, "reynolds", info.ReynoldsMinimum, info.ReynoldsMaximum, _reynolds);
         return [reynolds, new ValidityCheck(info.Code, source, "relativeRoughness",
             info.RelativeRoughnessMinimum, info.RelativeRoughnessMaximum, _relativeRoughness)];

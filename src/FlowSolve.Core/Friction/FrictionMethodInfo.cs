@@ -22,6 +22,9 @@ public sealed record FrictionMethodInfo(
     double RelativeRoughnessMinimum, double RelativeRoughnessMaximum,
     string RangeProvenance, double MeasuredMaxDeviationPercent, string WhereLargest)
 {
+    /// <summary>The source and the range's provenance in one line, as a validity entry quotes them (built once).</summary>
+    public string SourceAndRange { get; } = Source + "; range: " + RangeProvenance;
+
     /// <summary>True when both inputs lie in the stated range.</summary>
     /// <param name="reynolds">Reynolds number.</param>
     /// <param name="relativeRoughness">Relative roughness.</param>

@@ -78,9 +78,7 @@ internal static class ChannelDepths
             criticalDepth, criticalSlope, r.Capacity is ChannelCapacity cap ? Capacity(cap, units) : null,
             ShapeCode(section.Shape), units.System.Code,
             r.Iterations, r.Converged, r.Residual, r.Status.Code(), r.Method,
-            [new ValidityDto("manning", "manningN", ManningValidity.TypicalLowestN, ManningValidity.TypicalHighestN,
-                r.Validity.EffectiveManningN, r.Validity.InTypicalRange,
-                "typical tabulated n, Chow 1959, Open-Channel Hydraulics, Table 5-6 (from memory); " + ManningValidity.Range)],
+            [ValidityDto.From(r.Validity.Check)],
             Warnings(r.Warnings, units), CommonAssumptions(assumptions, unitsText, units, n));
         if (!AllFinite(response.NormalDepth, response.Area, response.WettedPerimeter, response.HydraulicRadius, response.TopWidth,
                 response.Velocity, response.FroudeNumber, response.SpecificEnergy, response.EffectiveManningN, response.Residual))

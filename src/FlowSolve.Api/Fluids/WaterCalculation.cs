@@ -78,13 +78,9 @@ public sealed class WaterCalculation : Calculation<WaterRequest, WaterResponse>
         };
         if (request.Units is null) assumptions.Add(new("units", "si", "SI units (default)"));
 
-        var validity = new[]
-        {
-            new ValidityDto("iapws-if97-region-1", "temperature", units.Temperature(0), units.Temperature(Water.SaturationTemperatureAtmospheric),
-                request.Temperature!.Value, celsius <= Water.SaturationTemperatureAtmospheric, "IAPWS-IF97 (1997), region 1: liquid up to the saturation line"),
-            new ValidityDto("iapws-2008-viscosity", "temperature", units.Temperature(0), units.Temperature(100),
-                request.Temperature!.Value, true, "IAPWS R12-08 (2008), industrial form"),
-        };
+        // The Core's ranges in degrees C, shown in the request's unit beside the temperature as given.
+        var validity = Water.Validity(celsius).Select(v => new ValidityDto(v.Method, v.Quantity, units.Temperature(v.Minimum),
+            units.Temperature(v.Maximum), request.Temperature!.Value, v.InRange, v.Source)).ToArray();
 
         var response = new WaterResponse(
             request.Temperature!.Value, units.Density(p.Density), units.DynamicViscosity(p.DynamicViscosity),

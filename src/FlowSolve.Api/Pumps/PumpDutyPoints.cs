@@ -250,20 +250,13 @@ internal static class PumpDutyPoints
             var p = pipes[i];
             double re = 4 * Math.Abs(r.Flow) / (Math.PI * p.Diameter * input.Fluid.KinematicViscosity);
             var friction = input.System.Friction;
-            if (re < friction.LaminarLimit)
-            {
-                validity.Add(new ValidityDto("laminar", $"system.pipes[{i}].reynolds", 0, friction.LaminarLimit, re, true,
-                    "Hagen-Poiseuille law; laminar limit 2000 (common practice)"));
-                continue;
-            }
-            if (re < friction.TurbulentLimit)
+            if (re >= friction.LaminarLimit && re < friction.TurbulentLimit)
                 warnings.Add(new("transitional-flow", string.Create(CultureInfo.InvariantCulture,
                     $"system.pipes[{i}]: Reynolds number {re:G4} lies in the transition zone ({friction.LaminarLimit:G4} to {friction.TurbulentLimit:G4}); its friction factor (Churchill 1977) is uncertain.")));
-            var cw = FrictionMethodInfo.ColebrookWhite;
-            string source = cw.Source + "; range: " + cw.RangeProvenance;
-            validity.Add(ValidityDto.From(new ValidityCheck(cw.Code, source, $"system.pipes[{i}].reynolds", cw.ReynoldsMinimum, cw.ReynoldsMaximum, re)));
-            validity.Add(ValidityDto.From(new ValidityCheck(cw.Code, source, $"system.pipes[{i}].relativeRoughness",
-                cw.RelativeRoughnessMinimum, cw.RelativeRoughnessMaximum, p.RelativeRoughness)));
+            // The ranges of the relation the pipe's friction factor came from, as the Core states them.
+            string prefix = $"system.pipes[{i}].";
+            foreach (var v in DarcyFriction.ValidityAt(re, p.RelativeRoughness, friction))
+                validity.Add(ValidityDto.From(v with { Quantity = prefix + v.Quantity }));
         }
 
         if (input.EfficiencyFit is { } ef && (ef.PeakAboveData || r.Efficiency > ef.DataMaximumEfficiency + EfficiencyCurveFit.AboveDataMargin))

@@ -59,6 +59,11 @@ public readonly record struct ManningValidity(double EffectiveManningN, bool InT
     public const string Range = "Manning's equation: steady uniform flow in the fully rough turbulent regime, n independent of depth; tabulated n from 0.008 to 0.20";
 
     internal static ManningValidity For(double n) => new(n, n >= TypicalLowestN && n <= TypicalHighestN);
+
+    /// <summary>The range of typical tabulated n beside the n used, as a validity entry.</summary>
+    public ValidityCheck Check => new("manning",
+        "typical tabulated n, Chow 1959, Open-Channel Hydraulics, Table 5-6 (from memory); " + Range,
+        "manningN", TypicalLowestN, TypicalHighestN, EffectiveManningN);
 }
 
 /// <summary>

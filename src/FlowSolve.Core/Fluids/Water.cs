@@ -106,6 +106,16 @@ public static class Water
         return Iapws97Region4.SaturationPressure(temperatureCelsius + KelvinOffset);
     }
 
+    /// <summary>The ranges of the formulations behind <see cref="At"/> beside a temperature: IAPWS-IF97 region 1 (liquid,
+    /// up to the saturation temperature at 1 atm) and the IAPWS 2008 viscosity correlation's 0 to 100 degrees C here.</summary>
+    /// <param name="temperatureCelsius">The temperature the properties are evaluated at, degrees C.</param>
+    public static IReadOnlyList<ValidityCheck> Validity(double temperatureCelsius) =>
+    [
+        new("iapws-if97-region-1", "IAPWS-IF97 (1997), region 1: liquid up to the saturation line", "temperature",
+            0, SaturationTemperatureAtmospheric, temperatureCelsius),
+        new("iapws-2008-viscosity", "IAPWS R12-08 (2008), industrial form", "temperature", 0, 100, temperatureCelsius),
+    ];
+
     /// <summary>All properties at one temperature, each formulation evaluated once.</summary>
     /// <param name="temperatureCelsius">Temperature in degrees C, 0 to 100.</param>
     /// <returns>Density, dynamic and kinematic viscosity and vapour pressure at 101325 Pa (saturated liquid above

@@ -117,6 +117,21 @@ public static class DarcyFriction
     /// <summary>The largest Reynolds number accepted (far beyond any pipe; keeps the known bracket valid).</summary>
     public const double MaximumReynolds = 1e15;
 
+    /// <summary>The published ranges of the relation the exact friction factor uses at a Reynolds number (the laminar law,
+    /// Churchill in the transition zone, Colebrook-White above it) beside the inputs, without computing the factor: for
+    /// callers that report the validity of a friction factor computed elsewhere. Any finite input is accepted.</summary>
+    /// <param name="reynolds">Reynolds number.</param>
+    /// <param name="relativeRoughness">Relative roughness e/D.</param>
+    /// <param name="options">Regime limits.</param>
+    public static IReadOnlyList<ValidityCheck> ValidityAt(double reynolds, double relativeRoughness, FrictionOptions options)
+    {
+        var (regime, relation, method) = reynolds < options.LaminarLimit ? (FlowRegime.Laminar, LaminarRelation, FrictionMethod.ColebrookWhite)
+            : reynolds < options.TurbulentLimit ? (FlowRegime.Transitional, FrictionMethodInfo.Churchill.Code, FrictionMethod.Churchill)
+            : (FlowRegime.Turbulent, FrictionMethodInfo.ColebrookWhite.Code, FrictionMethod.ColebrookWhite);
+        return new FrictionResult(double.NaN, regime, relation, 0, 0.0, SolveStatus.ClosedForm, FrictionWarnings.None,
+            reynolds, relativeRoughness, method).Validity(options);
+    }
+
     /// <summary>Computes the friction factor.</summary>
     /// <param name="reynolds">Reynolds number; finite, positive, at most <see cref="MaximumReynolds"/>.</param>
     /// <param name="relativeRoughness">Relative roughness e/D in [0, 1).</param>

@@ -160,4 +160,17 @@ public class WaterTests
     [MemberData(nameof(OutOfRange))]
     public void At_OutOfRange_Throws(double celsius) =>
         Assert.Throws<ArgumentOutOfRangeException>(() => Water.At(celsius));
+
+    [Theory]
+    [InlineData(20.0, true)]
+    [InlineData(99.9, true)]
+    [InlineData(99.99, false)] // above the boiling point at 1 atm, 99.974 degrees C (IAPWS-IF97 region 4 at 101325 Pa)
+    public void Validity_Region1EndsAtTheAtmosphericBoilingPoint(double celsius, bool liquid)
+    {
+        var v = Water.Validity(celsius);
+        var region1 = Assert.Single(v, c => c.Method == "iapws-if97-region-1");
+        Assert.Equal(Water.SaturationTemperatureAtmospheric, region1.Maximum);
+        Assert.Equal(liquid, region1.InRange);
+        Assert.True(Assert.Single(v, c => c.Method == "iapws-2008-viscosity").InRange);
+    }
 }

@@ -210,10 +210,22 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
     {
         var (format, refused) = Formats.Read(http, Info);
         if (refused is not null) return refused;
+        // A JSON or text answer to a GET is cacheable (the sheet is stamped with the time it was made): a client that
+        // holds the answer this request names gets 304 before anything is solved.
+        AnswerCache? cache = null;
+        string? tag = null;
+        if (format != Format.Html)
+        {
+            cache = http.RequestServices.GetRequiredService<AnswerCache>();
+            tag = cache.Tag(http.Request);
+            if (AnswerCache.Matches(http.Request.Headers.IfNoneMatch, tag)) return new NotModified(cache, tag);
+        }
         bool trace = (query as ITraceable)?.Trace == true;
         var context = Context(http, format, trace);
         var outcome = Guarded(static (self, q, c) => self.SolveQuery(q, c), query, context);
-        return Answer(outcome, format, http, query, null);
+        var result = Answer(outcome, format, http, query, null);
+        if (tag is not null && result is JsonAnswer or TextAnswer { StatusCode: StatusCodes.Status200OK }) cache!.Stamp(http.Response, tag);
+        return result;
     }
 
     private IResult AnswerBody(TRequest request, HttpContext http)

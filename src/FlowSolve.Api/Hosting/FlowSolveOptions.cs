@@ -14,6 +14,8 @@ public sealed class FlowSolveOptions
 
     public RateLimitSettings RateLimit { get; set; } = new();
 
+    public CacheSettings Cache { get; set; } = new();
+
     public sealed class CorsSettings
     {
         /// <summary>Origins allowed to call from a browser (comma-separated in one environment variable is accepted). Empty: no CORS.</summary>
@@ -64,5 +66,16 @@ public sealed class FlowSolveOptions
     {
         /// <summary>Requests per client address per minute on calculation routes; 0 (default) turns rate limiting off.</summary>
         public int PermitsPerMinute { get; set; }
+    }
+
+    public sealed class CacheSettings
+    {
+        /// <summary>max-age of <c>Cache-Control: public</c> on GET calculation answers, seconds (default one day: an answer
+        /// is deterministic for a given build). 0 makes clients revalidate every time (the ETag still saves the answer).</summary>
+        public int MaxAgeSeconds { get; set; } = 86_400;
+
+        /// <summary>An extra component of every ETag; change it to make clients fetch every answer afresh (after a change
+        /// of data outside the build, say). Empty by default.</summary>
+        public string Generation { get; set; } = "";
     }
 }

@@ -154,8 +154,26 @@ public static class OpenApiSetup
                         Description = "When true, include the solver's per-iteration record, as the body's own trace field does. Every other input of a POST belongs in the body: any other query parameter answers 400.",
                         Schema = new OpenApiSchema { Type = JsonSchemaType.Boolean },
                     });
+                bool cacheable = context.ApiDescription.HttpMethod == "GET";
+                if (cacheable)
+                {
+                    operation.Parameters.Add(new OpenApiParameter
+                    {
+                        Name = "If-None-Match", In = ParameterLocation.Header,
+                        Description = "The ETag of an answer the client holds: when it names this request's answer (same request, same build), the " +
+                            "answer is 304 Not Modified with no body.",
+                        Schema = new OpenApiSchema { Type = JsonSchemaType.String },
+                    });
+                    operation.Responses ??= new OpenApiResponses();
+                    operation.Responses["304"] = new OpenApiResponse
+                    {
+                        Description = "Not Modified: If-None-Match named this answer's ETag; the client's copy is the answer.",
+                        Headers = CacheHeaders(),
+                    };
+                }
                 if (operation.Responses?.TryGetValue("200", out var ok) == true && ok is OpenApiResponse okResponse)
                 {
+                    if (cacheable && calc.Text) okResponse.Headers = CacheHeaders();
                     okResponse.Content ??= new Dictionary<string, IOpenApiMediaType>();
                     if (calc.Text) okResponse.Content["text/plain"] = new OpenApiMediaType { Schema = new OpenApiSchema { Type = JsonSchemaType.String } };
                     okResponse.Content["text/html"] = new OpenApiMediaType { Schema = new OpenApiSchema { Type = JsonSchemaType.String } };
@@ -182,6 +200,22 @@ public static class OpenApiSetup
             }
         }
     }
+
+    /// <summary>The headers of a cacheable GET answer (JSON or text; not the sheet, format=html, which carries neither).</summary>
+    private static Dictionary<string, IOpenApiHeader> CacheHeaders() => new()
+    {
+        ["ETag"] = new OpenApiHeader
+        {
+            Description = "Strong entity tag of the canonical request (path and query parameters, names sorted, values as sent) and the " +
+                "service's build; JSON and text answers only.",
+            Schema = new OpenApiSchema { Type = JsonSchemaType.String },
+        },
+        ["Cache-Control"] = new OpenApiHeader
+        {
+            Description = "public, max-age=N (FlowSolve:Cache:MaxAgeSeconds, default 86400): an answer is deterministic for a given build.",
+            Schema = new OpenApiSchema { Type = JsonSchemaType.String },
+        },
+    };
 
     private static PropertyInfo? PropertyInfo(this Microsoft.AspNetCore.Mvc.ApiExplorer.ApiParameterDescription d) =>
         d.ParameterDescriptor is { } pd && d.ModelMetadata?.ContainerType is { } container

@@ -30,6 +30,7 @@ public static class ServiceSetup
         services.AddHealthChecks().AddCheck("self", () => HealthCheckResult.Healthy("calculations available"), tags: ["ready"]);
         services.AddFlowSolveOpenApi();
         services.AddSingleton<CalculationCatalog>();
+        services.AddSingleton<AnswerCache>();
         return services;
     }
 

@@ -28,6 +28,7 @@ public static class Catalogue
         new PipeDiameterCalculation(),
         new NormalDepthCalculation(),
         new CriticalDepthCalculation(),
+        new HydraulicJumpCalculation(),
         new DutyPointCalculation(),
         new PumpCurvesCalculation(),
         new NetworkSolveCalculation(),
@@ -72,6 +73,8 @@ public static class Catalogue
 [JsonSerializable(typeof(NormalDepthResponse))]
 [JsonSerializable(typeof(CriticalDepthRequest))]
 [JsonSerializable(typeof(CriticalDepthResponse))]
+[JsonSerializable(typeof(HydraulicJumpRequest))]
+[JsonSerializable(typeof(HydraulicJumpResponse))]
 [JsonSerializable(typeof(DutyPointRequest))]
 [JsonSerializable(typeof(DutyPointResponse))]
 [JsonSerializable(typeof(PumpCurvesResponse))]

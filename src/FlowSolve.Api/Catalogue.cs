@@ -29,6 +29,7 @@ public static class Catalogue
         new NormalDepthCalculation(),
         new CriticalDepthCalculation(),
         new HydraulicJumpCalculation(),
+        new ChannelProfileCalculation(),
         new DutyPointCalculation(),
         new PumpCurvesCalculation(),
         new NetworkSolveCalculation(),
@@ -75,6 +76,8 @@ public static class Catalogue
 [JsonSerializable(typeof(CriticalDepthResponse))]
 [JsonSerializable(typeof(HydraulicJumpRequest))]
 [JsonSerializable(typeof(HydraulicJumpResponse))]
+[JsonSerializable(typeof(ChannelProfileRequest))]
+[JsonSerializable(typeof(ChannelProfileResponse))]
 [JsonSerializable(typeof(DutyPointRequest))]
 [JsonSerializable(typeof(DutyPointResponse))]
 [JsonSerializable(typeof(PumpCurvesResponse))]

@@ -52,7 +52,7 @@ def format_value(value):
         raise ArgumentError("a value must be a finite number")
     if number.is_integer() and abs(number) < 2.0 ** 53:
         return str(int(number))  # 75000, not 75000.0; -0.0 becomes 0
-    return repr(number)  # the shortest round-trip text: 0.12, 1.2857142857142858e-05, 1e+20
+    return repr(number)  # the shortest round-trip text: 0.12, 1.5e-05, 1e+20
 
 
 def single_value(value):

@@ -15,9 +15,9 @@ namespace FlowSolve.Api.Tests.Samples;
 /// <c>unopkg add</c> into a throwaway user profile, and a spreadsheet of FLOWSOLVE and FLOWSOLVE_WARNINGS cells on the
 /// Vandrel Vale inputs recalculated by a headless soffice (driven by clients/libreoffice/tests/recalc.py) against a
 /// real FlowSolve process. Every cell is compared with the library's own answer (FlowSolve.Core) or the service's JSON
-/// answer to the same question sent as a POST body, digit for digit. The same office recalculates the workbook that
-/// samples/Workbook writes (its WEBSERVICE cells). The client module's own tests (HTTP caching, number text, URL
-/// encoding) run with plain python3.
+/// answer to the same question sent as a POST body, digit for digit. Another office run recalculates the workbook that
+/// samples/Workbook writes (its WEBSERVICE cells, and FLOWSOLVE cells beside them). The client module's own tests (HTTP
+/// caching, number text, URL encoding) run with plain python3.
 /// </summary>
 /// <remarks>
 /// Needs Debian's libreoffice-calc-nogui and python3-uno (.ci/run installs them and sets FLOWSOLVE_REQUIRE_CALC=1, so
@@ -56,7 +56,7 @@ public sealed class CalcExtensionTests(LiveService service) : IClassFixture<Live
         string culvert = sheet.Pairs(("shape", "\"circular\""), ("diameter", "culvertDiameter"), ("manningN", "culvertN"),
             ("slope", "culvertSlope"), ("flow", "canalFlow"));
         // The canal's slope typed as a percent (0.05 for 0.0005 m/m): a unit slip the service warns about.
-        string percentSlope = sheet.Input("canalSlope") + "*100";
+        string percentSlope = sheet.At("canalSlope") + "*100";
 
         // Three identical calls: asked once per recalculation (the only cells on this route).
         string water = "FLOWSOLVE(\"fluids/water\";\"kinematicViscosity\";" + sheet.Pairs(("temperature", "temperature")) + ")";
@@ -69,20 +69,22 @@ public sealed class CalcExtensionTests(LiveService service) : IClassFixture<Live
         sheet.Formula("mainRelativeRoughness", $"FLOWSOLVE(\"pipes/head-loss\";\"relativeRoughness\";{main})");
         sheet.Formula("mainWarnings", $"FLOWSOLVE_WARNINGS(\"pipes/head-loss\";{main})");
         sheet.Formula("friction", $"FLOWSOLVE(\"friction-factor\";\"\";\"reynolds\";{sheet.At("mainReynolds")};\"relativeRoughness\";{sheet.At("mainRelativeRoughness")})");
+        // A pair with an empty name is left out: the same call as the cell above.
+        sheet.Formula("frictionEmptyPair", $"FLOWSOLVE(\"friction-factor\";\"\";\"reynolds\";{sheet.At("mainReynolds")};\"relativeRoughness\";{sheet.At("mainRelativeRoughness")};\"\";\"\")");
         sheet.Formula("minimumBore", $"FLOWSOLVE(\"pipes/diameter\";\"\";{gravity})");
         sheet.Formula("sizeName", $"FLOWSOLVE(\"pipes/diameter\";\"selectedSize.name\";{gravity})");
         sheet.Formula("sizeBore", $"FLOWSOLVE(\"pipes/diameter\";\"selectedSize.insideDiameter\";{gravity})");
-        sheet.Formula("gravityFlow", $"FLOWSOLVE(\"pipes/flow\";\"\";\"headLoss\";{sheet.Input("levels")};\"diameter\";{sheet.At("sizeBore")};" +
+        sheet.Formula("gravityFlow", $"FLOWSOLVE(\"pipes/flow\";\"\";\"headLoss\";{sheet.At("levels")};\"diameter\";{sheet.At("sizeBore")};" +
             sheet.Pairs(("length", "gravityLength"), ("material", "gravityMaterial"), ("temperature", "temperature")) + ")");
-        sheet.Formula("canalDepth", $"FLOWSOLVE(\"channels/normal-depth\";\"\";{canal};\"slope\";{sheet.Input("canalSlope")})");
-        sheet.Formula("canalFroude", $"FLOWSOLVE(\"channels/normal-depth\";\"froudeNumber\";{canal};\"slope\";{sheet.Input("canalSlope")})");
-        sheet.Formula("canalWarnings", $"FLOWSOLVE_WARNINGS(\"channels/normal-depth\";{canal};\"slope\";{sheet.Input("canalSlope")})");
+        sheet.Formula("canalDepth", $"FLOWSOLVE(\"channels/normal-depth\";\"\";{canal};\"slope\";{sheet.At("canalSlope")})");
+        sheet.Formula("canalFroude", $"FLOWSOLVE(\"channels/normal-depth\";\"froudeNumber\";{canal};\"slope\";{sheet.At("canalSlope")})");
+        sheet.Formula("canalWarnings", $"FLOWSOLVE_WARNINGS(\"channels/normal-depth\";{canal};\"slope\";{sheet.At("canalSlope")})");
         sheet.Formula("canalCritical", $"FLOWSOLVE(\"channels/critical-depth\";\"\";{canal})");
         sheet.Formula("culvertFull", $"FLOWSOLVE(\"channels/normal-depth\";\"capacity.fullFlow\";{culvert})");
         // Twelve pairs, the most a call takes; a negative number; the pump curve H = 98 - 2400 Q^2 of the intake.
         sheet.Formula("duty", "FLOWSOLVE(\"pumps/duty-point\";\"\";\"c0\";98;\"c1\";0;\"c2\";-2400;\"pumpsInParallel\";2;\"pumpsInSeries\";1;" +
-            "\"speedRatio\";1;\"staticHead\";" + sheet.Input("lift") + ";\"length\";" + sheet.Input("mainLength") + ";\"diameter\";" +
-            sheet.Input("mainDiameter") + ";\"roughness\";0.000046;\"minorLossCoefficient\";4.9;\"temperature\";" + sheet.Input("temperature") + ")");
+            "\"speedRatio\";1;\"staticHead\";" + sheet.At("lift") + ";\"length\";" + sheet.At("mainLength") + ";\"diameter\";" +
+            sheet.At("mainDiameter") + ";\"roughness\";0.000046;\"minorLossCoefficient\";4.9;\"temperature\";" + sheet.At("temperature") + ")");
         sheet.Formula("percentDepth", $"FLOWSOLVE(\"channels/normal-depth\";\"\";{canal};\"slope\";{percentSlope})");
         sheet.Formula("percentWarnings", $"FLOWSOLVE_WARNINGS(\"channels/normal-depth\";{canal};\"slope\";{percentSlope})");
         sheet.Formula("percentStrict", $"FLOWSOLVE(\"channels/normal-depth\";\"\";{canal};\"slope\";{percentSlope};\"strict\";\"true\")");
@@ -133,6 +135,7 @@ public sealed class CalcExtensionTests(LiveService service) : IClassFixture<Live
         // The chained cell sent Re and e/D as the shortest texts of those doubles, so the friction factor is the
         // library's for exactly these doubles, to the last digit.
         Assert.Equal(DarcyFriction.Exact(reynolds, relativeRoughness).FrictionFactor, cells.Number("friction"));
+        Assert.Equal(cells.Number("friction"), cells.Number("frictionEmptyPair"));
 
         var sizeJson = await Post("/v1/pipes/diameter", new
         {
@@ -371,8 +374,7 @@ public sealed class CalcExtensionTests(LiveService service) : IClassFixture<Live
             }
         }
 
-        public string Input(string name) => _addresses[name];
-
+        /// <summary>The address of an input or of a named cell above.</summary>
         public string At(string name) => _addresses[name];
 
         /// <summary>"name";source pairs; a source is the name of an input or of a cell above, or a literal (quoted text).</summary>
@@ -458,14 +460,22 @@ public sealed class CalcExtensionTests(LiveService service) : IClassFixture<Live
                     | UnixFileMode.GroupRead | UnixFileMode.GroupWrite | UnixFileMode.GroupExecute
                     | UnixFileMode.OtherRead | UnixFileMode.OtherWrite | UnixFileMode.OtherExecute);
             var office = new Office(folder, soffice, python);
-            var build = await Run(SamplePrograms.Require("bash"), [Path.Combine(Client, "build.sh"), folder], new(), TimeSpan.FromSeconds(60), asOfficeUser: false);
-            Assert.True(build.ExitCode == 0, "build.sh: " + build);
-            string oxt = Path.Combine(folder, "flowsolve.oxt");
-            Assert.True(File.Exists(oxt), "build.sh wrote no flowsolve.oxt: " + build);
-            var add = await Run(Path.Combine(Path.GetDirectoryName(soffice)!, "unopkg"), ["add", "-env:UserInstallation=" + office.ProfileUrl, oxt],
-                office.Environment(new()), TimeSpan.FromSeconds(120), asOfficeUser: true);
-            Assert.True(add.ExitCode == 0 && !add.TimedOut, "unopkg add: " + add);
-            return office;
+            try
+            {
+                var build = await Run(SamplePrograms.Require("bash"), [Path.Combine(Client, "build.sh"), folder], new(), TimeSpan.FromSeconds(60), asOfficeUser: false);
+                Assert.True(build.ExitCode == 0, "build.sh: " + build);
+                string oxt = Path.Combine(folder, "flowsolve.oxt");
+                Assert.True(File.Exists(oxt), "build.sh wrote no flowsolve.oxt: " + build);
+                var add = await Run(Path.Combine(Path.GetDirectoryName(soffice)!, "unopkg"), ["add", "-env:UserInstallation=" + office.ProfileUrl, oxt],
+                    office.Environment(new()), TimeSpan.FromSeconds(120), asOfficeUser: true);
+                Assert.True(add.ExitCode == 0 && !add.TimedOut, "unopkg add: " + add);
+                return office;
+            }
+            catch
+            {
+                office.Dispose();
+                throw;
+            }
         }
 
         /// <summary>Runs recalc.py on a spec (the profile and soffice filled in) and returns its result.</summary>
@@ -533,9 +543,11 @@ public sealed class CalcExtensionTests(LiveService service) : IClassFixture<Live
                 if (File.Exists(candidate)) return Path.GetFullPath(candidate);
             }
             const string install = "apt-get install -y libreoffice-calc-nogui python3-uno";
-            if (program == "soffice" && System.Environment.GetEnvironmentVariable("FLOWSOLVE_REQUIRE_CALC") != "1")
+            bool required = System.Environment.GetEnvironmentVariable("FLOWSOLVE_REQUIRE_CALC") == "1";
+            if (program == "soffice" && !required)
                 Assert.Skip($"LibreOffice (soffice) is not installed, so the Calc extension is not tried in a real Calc ({install} to run it)");
-            Assert.Fail($"'{program}' is not installed: the Calc extension tests need it ({install})");
+            Assert.Fail($"'{program}' is not installed: the Calc extension tests need it ({install})" +
+                (required ? "; FLOWSOLVE_REQUIRE_CALC=1 (set by .ci/run) forbids skipping them" : ""));
             return "";
         }
 

@@ -26,6 +26,9 @@ public sealed class StrictQuery(RequestDelegate next)
     public Task InvokeAsync(HttpContext context)
     {
         if (!context.Request.Path.StartsWithSegments("/v1") || context.GetEndpoint() is not { } endpoint) return next(context);
+        // Only a calculation's own methods are held to its query rules: an OPTIONS or HEAD (which a spreadsheet's web
+        // function sends before its GET) meets the routing's 405, not a 400 about the query it carries.
+        if (!HttpMethods.IsGet(context.Request.Method) && !HttpMethods.IsPost(context.Request.Method)) return next(context);
         var query = context.Request.Query;
         if (query.Count == 0) return next(context);
         var contract = Contracts.GetOrAdd(endpoint, QueryContract.For);

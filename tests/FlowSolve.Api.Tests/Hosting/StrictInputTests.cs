@@ -43,6 +43,18 @@ public sealed class StrictInputTests(ApiFixture api)
         Assert.Contains("SUBSTITUTE", Message(r, field));
     }
 
+    [Theory]
+    [InlineData("OPTIONS")]
+    [InlineData("HEAD")]
+    [InlineData("PUT")]
+    public async Task OtherMethods_MeetTheRoutings405_NotAQueryError(string method)
+    {
+        // A spreadsheet's web function sends OPTIONS and HEAD before its GET: they must not be refused for the query.
+        using var request = new HttpRequestMessage(new HttpMethod(method), "/v1/friction-factor?reynolds=75000&relativeRoughness=0.005&format=text");
+        using var response = await api.Client.SendAsync(request, TestContext.Current.CancellationToken);
+        Assert.Equal(System.Net.HttpStatusCode.MethodNotAllowed, response.StatusCode);
+    }
+
     [Fact]
     public async Task Query_DecimalCommaWithFormatText_AnswersOneErrorLine()
     {

@@ -1,6 +1,9 @@
 using System.Globalization;
 using System.Text.Json;
 using System.Text.Json.Nodes;
+using System.Text;
+using CsCheck;
+using FlowSolve.Api.Tests.Reliability;
 using FlowSolve.Api.Tests.Sheets;
 using MathNet.Numerics.RootFinding;
 
@@ -322,5 +325,40 @@ public sealed class NetworkPressureDrivenEndpointsTests(ApiFixture api)
         var plain = await SheetPage.Post(api, Route + "?format=html", Sample());
         var plainHeader = plain.Document.QuerySelectorAll("#table-junctions-1 th").Select(h => h.TextContent).ToList();
         Assert.Equal(4, plainHeader.Count);
+    }
+
+    [Fact]
+    public async Task Solve_HostileLawsAndValues_NeverBreakTheService()
+    {
+        // The sample under pressure-driven demand with hostile numbers in the law and in one element: every answer a 2xx
+        // with finite numbers and bounded iterations, or a problem naming a field; never a 5xx.
+        double[] hostile = [0, -0.0, -1, 1e-300, 1e-12, 1e15, 1e300, -1e300, 1e4, -1e4, 0.01, 0.1, 3, 20, 100];
+        string sample = File.ReadAllText(Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "vandrel-network.json"));
+        (string List, string Field)[] numbers = [("junctions", "elevation"), ("junctions", "demand"), ("reservoirs", "head"), ("pipes", "diameter"), ("demandMultipliers", "")];
+        var gen = Gen.Select(Gen.OneOf(Gen.OneOf(hostile), Gen.Double[-50, 50]), Gen.OneOf(Gen.OneOf(hostile), Gen.Double[-50, 150]),
+                Gen.OneOf(Gen.OneOf(hostile), Gen.Double[0, 4]), Gen.Int[0, numbers.Length], Gen.OneOf(Gen.OneOf(hostile), Gen.Double), Gen.Int[0, 12])
+            .Select((min, req, e, which, value, index) =>
+            {
+                var doc = JsonNode.Parse(sample)!.AsObject();
+                doc["demandModel"] = Law(min, req, e);
+                if (!double.IsFinite(value)) value = 1e308;
+                if (which < numbers.Length)
+                {
+                    var (list, field) = numbers[which];
+                    if (field.Length == 0) doc[list] = new JsonArray(Math.Abs(value) <= 100 ? Math.Abs(value) : 100, 3.0);
+                    else
+                    {
+                        var items = doc[list]!.AsArray();
+                        items[index % items.Count]![field] = value;
+                    }
+                }
+                return doc.ToJsonString();
+            });
+        await gen.SampleAsync(async body =>
+        {
+            using var content = new StringContent(body, Encoding.UTF8, "application/json");
+            using var response = await api.Client.PostAsync(Route, content, TestContext.Current.CancellationToken);
+            await FuzzTests.CheckAnswer(response, "POST /v1/networks/solve " + body[^Math.Min(300, body.Length)..]);
+        }, iter: 200, threads: 1);
     }
 }

@@ -145,8 +145,8 @@ public sealed record NetworkReservoirResultDto(string Id, double Head, double Ou
 /// <param name="Iteration">1-based, counted over all status passes.</param>
 /// <param name="StatusPass">The status pass (check valves and pumps re-examined between passes) it belongs to, from 1.</param>
 /// <param name="MaxFlowChange">Largest change of a link's flow in this step (flow unit).</param>
-/// <param name="MaxHeadImbalance">Largest energy imbalance |H_from - H_to - h(Q)| over the open links after the step (m, or ft with units=us).</param>
-/// <param name="MaxContinuityError">Largest continuity error |inflow - outflow - demand| over the junctions after the step (flow unit).</param>
+/// <param name="MaxHeadImbalance">Largest energy imbalance |H_from - H_to - h(Q)| over the open links after the step (m, or ft with units=us); under pressure-driven demand also each junction's head against its point on the law.</param>
+/// <param name="MaxContinuityError">Largest continuity error |inflow - outflow - demand| over the junctions after the step (flow unit); under pressure-driven demand with the delivered demand in place of the demand.</param>
 /// <param name="LinearIterations">Work of this step's head solve: with the sparse Cholesky solver (the service's), the
 /// triangular solves with the factor (1, plus one per refinement step); with conjugate gradients, their iterations.</param>
 public sealed record NetworkIterationDto(int Iteration, int StatusPass, double MaxFlowChange, double MaxHeadImbalance, double MaxContinuityError, int LinearIterations);

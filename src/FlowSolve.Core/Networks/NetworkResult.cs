@@ -304,8 +304,11 @@ public readonly record struct ReservoirResult(string Id, double Head, double Out
 /// <param name="Iteration">1-based, counted over all status passes.</param>
 /// <param name="StatusPass">1-based status pass the iteration belongs to.</param>
 /// <param name="MaxFlowChange">Largest |Q_new - Q_old| over the links in this step, in m3/s.</param>
-/// <param name="MaxHeadImbalance">Largest |H_from - H_to - h(Q)| over the open links after the step, in m.</param>
-/// <param name="MaxContinuityError">Largest |inflow - outflow - demand| over the junctions after the step, in m3/s.</param>
+/// <param name="MaxHeadImbalance">Largest |H_from - H_to - h(Q)| over the open links after the step, in m; under
+/// pressure-driven demand also each such junction's |H - z - min - (req - min) s(u)| (its head against its point on the
+/// law's graph).</param>
+/// <param name="MaxContinuityError">Largest |inflow - outflow - demand| over the junctions after the step, in m3/s; under
+/// pressure-driven demand with the delivery in place of the demand, both the iterate's and the exact law's d r(p).</param>
 /// <param name="LinearIterations">Conjugate-gradient iterations of this step's head solve; for the direct solve
 /// (<see cref="NetworkLinearSolver.SparseCholesky"/>), triangular solves with the factor (1, plus one per refinement step).</param>
 public readonly record struct NetworkIteration(

@@ -309,4 +309,24 @@ public sealed partial class NetworkSolverTests
         Assert.Equal(2, r.Iterations);
         Assert.All(r.Junctions, j => Assert.True(double.IsFinite(j.Head) && double.IsFinite(j.DeliveredDemand)));
     }
+
+    [Fact]
+    public void PressureDriven_ConjugateGradientHeadSolve_GivesTheDirectSolversAnswer()
+    {
+        // Property: the head equations' linear solver changes the path, not the answer (the same law, tolerances).
+        var model = GeneratedGrid(7, 5) with { DemandModel = new PressureDrivenDemand(2, 25, 0.5) };
+        double[] multipliers = [1, 20, 60];
+        var direct = NetworkSolver.SolveLoadCases(model, multipliers);
+        var iterative = NetworkSolver.SolveLoadCases(model, multipliers, NetworkOptions.Default with { LinearSolver = NetworkLinearSolver.ConjugateGradient });
+        for (int c = 0; c < multipliers.Length; c++)
+        {
+            AssertBalanced(model, iterative[c]);
+            Assert.True(direct[c].DemandShortfall > 0 || c == 0);
+            for (int j = 0; j < direct[c].Junctions.Count; j++)
+            {
+                Assert.Equal(direct[c].Junctions[j].Head, iterative[c].Junctions[j].Head, 1e-8);
+                Assert.Equal(direct[c].Junctions[j].DeliveredDemand, iterative[c].Junctions[j].DeliveredDemand, 1e-10);
+            }
+        }
+    }
 }

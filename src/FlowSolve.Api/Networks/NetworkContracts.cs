@@ -72,6 +72,17 @@ public sealed record NetworkOutputInput(
     [property: Description("Ids of the pipes, pumps, junctions and reservoirs to list in each load case (in the tables' usual order, request order within each kind); the others are left out of the tables but still solved, and still counted in the totals, extremes and warnings. Each id must name an element of the network, at most once. Not with detail=summary.")]
     IReadOnlyList<string?>? Elements = null);
 
+/// <summary>How junction demands respond to pressure: demand-driven (every demand delivered) or pressure-driven (Wagner, Shamir and Marks 1988).</summary>
+public sealed record NetworkDemandModelInput(
+    [property: Description("demand-driven (every junction receives its whole demand whatever its pressure; the default when demandModel is omitted) or pressure-driven (a junction with a positive demand d and pressure head p receives d r(p): r = 0 for p at or below minimumPressureHead, 1 at or above requiredPressureHead, ((p - min)/(req - min))^exponent between; Wagner, Shamir and Marks 1988). Required.")]
+    string? Type,
+    [property: Description("pressure-driven only: the pressure head at and below which a junction receives nothing: m (ft with units=us); -10000 to 10000 m; 0 when omitted.")]
+    double? MinimumPressureHead = null,
+    [property: Description("pressure-driven only, required: the pressure head at and above which a junction receives its whole demand: m (ft with units=us); at least 0.01 m above minimumPressureHead, at most 10000 m.")]
+    double? RequiredPressureHead = null,
+    [property: Description("pressure-driven only: the exponent of the law between the two heads (dimensionless), 0.1 to 3; 0.5 (an orifice) when omitted.")]
+    double? Exponent = null);
+
 /// <summary>A pipe network to solve: nodes, links, the fluid and the load cases.</summary>
 public sealed record NetworkSolveRequest(
     [property: Description("Junctions: nodes of unknown head (id, elevation, demand; x and y for the schematic).")]
@@ -95,7 +106,9 @@ public sealed record NetworkSolveRequest(
     [property: Description("A name for the network, shown as the calculation sheet's subtitle; optional, at most 200 characters.")]
     string? Title = null,
     [property: Description("How much of each load case to list: {\"detail\": \"summary\"} for the totals and extremes only, or {\"elements\": [ids]} for chosen elements; every element when omitted. Bounds the answer: the element rows times the load cases may not exceed FlowSolve:Limits:NetworkMaxElementCases.")]
-    NetworkOutputInput? Output = null);
+    NetworkOutputInput? Output = null,
+    [property: Description("How junction demands respond to pressure: {\"type\": \"pressure-driven\", \"minimumPressureHead\": 0, \"requiredPressureHead\": 20, \"exponent\": 0.5} delivers d r(p) at each junction with a positive demand (Wagner, Shamir and Marks 1988); demand-driven (every demand in full, whatever the pressure) when omitted. Each junction's answer then carries deliveredDemand, and each case totalDeliveredDemand and demandShortfall.")]
+    NetworkDemandModelInput? DemandModel = null);
 
 /// <summary>One pipe in a load case's answer.</summary>
 /// <param name="Id">The pipe's id.</param>
@@ -111,8 +124,9 @@ public sealed record NetworkPipeResultDto(string Id, double Flow, double Velocit
 /// <param name="Id">The junction's id.</param>
 /// <param name="Head">Total (piezometric) head above the datum (m, or ft with units=us).</param>
 /// <param name="PressureHead">Head minus elevation (m, or ft with units=us).</param>
-/// <param name="Demand">Demand applied: the junction's demand times the case's multiplier (flow unit).</param>
-public sealed record NetworkJunctionResultDto(string Id, double Head, double PressureHead, double Demand);
+/// <param name="Demand">Demand applied (requested): the junction's demand times the case's multiplier (flow unit).</param>
+/// <param name="DeliveredDemand">The flow the junction receives (flow unit): demand itself in a demand-driven solve and for an inflow; under pressure-driven demand, demand times r(pressureHead) by the law of the request's demandModel.</param>
+public sealed record NetworkJunctionResultDto(string Id, double Head, double PressureHead, double Demand, double DeliveredDemand);
 
 /// <summary>One pump in a load case's answer.</summary>
 /// <param name="Id">The pump's id.</param>
@@ -131,14 +145,14 @@ public sealed record NetworkReservoirResultDto(string Id, double Head, double Ou
 /// <param name="Iteration">1-based, counted over all status passes.</param>
 /// <param name="StatusPass">The status pass (check valves and pumps re-examined between passes) it belongs to, from 1.</param>
 /// <param name="MaxFlowChange">Largest change of a link's flow in this step (flow unit).</param>
-/// <param name="MaxHeadImbalance">Largest energy imbalance |H_from - H_to - h(Q)| over the open links after the step (m, or ft with units=us).</param>
-/// <param name="MaxContinuityError">Largest continuity error |inflow - outflow - demand| over the junctions after the step (flow unit).</param>
+/// <param name="MaxHeadImbalance">Largest energy imbalance |H_from - H_to - h(Q)| over the open links after the step (m, or ft with units=us); under pressure-driven demand also each junction's head against its point on the law.</param>
+/// <param name="MaxContinuityError">Largest continuity error |inflow - outflow - demand| over the junctions after the step (flow unit); under pressure-driven demand with the delivered demand in place of the demand.</param>
 /// <param name="LinearIterations">Work of this step's head solve: with the sparse Cholesky solver (the service's), the
 /// triangular solves with the factor (1, plus one per refinement step); with conjugate gradients, their iterations.</param>
 public sealed record NetworkIterationDto(int Iteration, int StatusPass, double MaxFlowChange, double MaxHeadImbalance, double MaxContinuityError, int LinearIterations);
 
 /// <summary>A warning about one element of the network, or the summary of the rest of one code's warnings.</summary>
-/// <param name="Code">Stable kebab-case code: velocity-below-design-range, velocity-above-design-range, negative-pressure, pump-cannot-lift, pump-outside-curve-range, transitional-flow (a Darcy-Weisbach pipe's Reynolds number between 2000 and 4000, where the friction factor is Churchill's 1977 interpolation, as for a single pipe), not-converged.</param>
+/// <param name="Code">Stable kebab-case code: velocity-below-design-range, velocity-above-design-range, negative-pressure, pump-cannot-lift, pump-outside-curve-range, transitional-flow (a Darcy-Weisbach pipe's Reynolds number between 2000 and 4000, where the friction factor is Churchill's 1977 interpolation, as for a single pipe), demand-shortfall (pressure-driven only: how many junctions receive less than their demand and the shortfall in all; about the whole case, without element), not-converged.</param>
 /// <param name="Message">What it means, naming the element (figures in SI).</param>
 /// <param name="Element">The id of the pipe, pump or junction it is about; omitted for the whole case and for a summary.</param>
 /// <param name="MoreElements">Only on a summary: a load case lists at most FlowSolve:Limits:NetworkWarningsPerCode
@@ -157,8 +171,10 @@ public sealed record NetworkWarningDto(string Code, string Message, string? Elem
 /// <param name="Junctions">Every junction, in request order.</param>
 /// <param name="Pumps">Every pump, in request order.</param>
 /// <param name="Reservoirs">Every reservoir, in request order.</param>
-/// <param name="TotalDemand">Sum of the demands applied (flow unit).</param>
-/// <param name="TotalSupply">Sum of the reservoirs' net outflows (flow unit); equals totalDemand within the flow tolerance.</param>
+/// <param name="TotalDemand">Sum of the demands applied (requested; flow unit).</param>
+/// <param name="TotalSupply">Sum of the reservoirs' net outflows (flow unit); equals totalDeliveredDemand within the flow tolerance.</param>
+/// <param name="TotalDeliveredDemand">Sum of the junctions' delivered demands (flow unit); totalDemand in a demand-driven solve.</param>
+/// <param name="DemandShortfall">Requested minus delivered demand, summed over the junctions (flow unit); 0 in a demand-driven solve.</param>
 /// <param name="Convergence">The convergence record, one row per Newton iteration.</param>
 /// <param name="Warnings">Warnings with stable codes, each naming its element; at most FlowSolve:Limits:NetworkWarningsPerCode (50 by default) of one code, then one summary of that code with moreElements.</param>
 /// <param name="Summary">The extremes of the load case over every element, whether listed or not.</param>
@@ -166,7 +182,8 @@ public sealed record NetworkCaseDto(
     double DemandMultiplier, string Status, string Reason, bool Converged, int Iterations, int StatusPasses,
     IReadOnlyList<NetworkPipeResultDto> Pipes, IReadOnlyList<NetworkJunctionResultDto> Junctions,
     IReadOnlyList<NetworkPumpResultDto> Pumps, IReadOnlyList<NetworkReservoirResultDto> Reservoirs,
-    double TotalDemand, double TotalSupply, IReadOnlyList<NetworkIterationDto> Convergence, IReadOnlyList<NetworkWarningDto> Warnings,
+    double TotalDemand, double TotalSupply, double TotalDeliveredDemand, double DemandShortfall,
+    IReadOnlyList<NetworkIterationDto> Convergence, IReadOnlyList<NetworkWarningDto> Warnings,
     NetworkCaseSummaryDto Summary);
 
 /// <summary>One extreme value of a load case and the element where it occurs.</summary>
@@ -201,11 +218,12 @@ public sealed record NetworkCaseSummaryDto(
 /// direct supernodal Cholesky factorisation under a nested-dissection ordering, the service's) or conjugate-gradient.</param>
 /// <param name="Detail">What each load case lists: full (every element), summary (no element rows) or elements (the
 /// chosen ones), as asked in output.</param>
+/// <param name="DemandModel">demand-driven or pressure-driven: how the junctions' deliveries were found (the request's demandModel type; demand-driven when it was omitted).</param>
 public sealed record NetworkSolveResponse(
     IReadOnlyList<NetworkCaseDto> Cases, int Iterations, bool Converged, string Method,
     string Units, string FlowUnit, string HeadUnit, string VelocityUnit, double KinematicViscosity,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    string HeadSolver, string Detail) : ISolveSummary
+    string HeadSolver, string Detail, string DemandModel = NetworkInput.DemandDriven) : ISolveSummary
 {
     /// <summary>The request's own warnings, then every load case's element warnings.</summary>
     IEnumerable<string> IWarned.WarningCodes() => Warnings.Select(w => w.Code).Concat(Cases.SelectMany(c => c.Warnings.Select(w => w.Code)));

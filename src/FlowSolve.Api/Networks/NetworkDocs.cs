@@ -27,11 +27,18 @@ public static class NetworkDocs
         "Hazen-Williams; minorLossCoefficient; checkValve; closed), pumps (id, from, to, curve as in /v1/pumps/duty-point, " +
         "speedRatio), optional x and y on the nodes for the schematic of the calculation sheet, the fluid (water's temperature or " +
         "kinematicViscosity; water at 20 degrees C when neither is given) and demandMultipliers, one load case each (default [1]). " +
+        "demandModel chooses how demands respond to pressure: demand-driven (the default: every demand delivered in full whatever " +
+        "the pressure) or {\"type\": \"pressure-driven\", \"minimumPressureHead\": 0, \"requiredPressureHead\": 20, \"exponent\": 0.5}: " +
+        "a junction with a positive demand d at pressure head p receives d ((p - min)/(req - min))^exponent between the two heads, " +
+        "nothing at or below the minimum, d at or above the required head (Wagner, Shamir and Marks 1988), solved with the network " +
+        "by Newton's method and reported converged only when that law and continuity hold; each junction then reports deliveredDemand " +
+        "beside demand, each case totalDeliveredDemand and demandShortfall, and a demand-shortfall warning says how many junctions " +
+        "receive less than their demand and how much in all. " +
         "Flows are positive from a pipe's 'from' node to its 'to' node. Each load case reports every pipe (flow, velocity, head " +
         "loss, friction factor, Reynolds number, status), junction (head, pressure head, demand), pump and reservoir, the supply " +
         "and demand totals, iterations, the convergence record per iteration (largest flow change, head imbalance and continuity " +
         "error) and warnings with stable codes naming their element (velocities outside 0.6 to 3 m/s, common practice; negative " +
-        "pressures; pumps; transitional-flow for each pipe whose Reynolds number lies between 2000 and 4000, as single pipes have), " +
+        "pressures, whose message in a demand-driven solve points to the pressure-driven model; pumps; transitional-flow for each pipe whose Reynolds number lies between 2000 and 4000, as single pipes have), " +
         "at most FlowSolve:Limits:NetworkWarningsPerCode (50 by default) of one code per load case, then one " +
         "summary of that code whose moreElements counts the rest (the pipe, junction and pump tables still carry every value), and " +
         "a summary of extremes (lowest and highest pressure head, highest velocity). Converged means continuity to 1e-10 m3/s at every junction and energy to 1e-10 m on every link, " +

@@ -26,6 +26,7 @@ internal static class NetworkInput
     public const double MaximumMultiplier = 100;
     private const double DefaultTemperature = 20.0;
     public const string FullDetail = "full", SummaryDetail = "summary", ElementsDetail = "elements";
+    public const string DemandDriven = "demand-driven", PressureDriven = "pressure-driven";
 
     /// <summary>The rows of the element tables an answer would list per load case (pipes, pumps, junctions and
     /// reservoirs), read from the raw request before anything is validated or solved: 0 for a summary, the chosen
@@ -133,6 +134,8 @@ internal static class NetworkInput
             for (int i = 0; i < multipliers.Length; i++)
                 multipliers[i] = fields.Required($"demandMultipliers[{i}]", request.DemandMultipliers[i], 0, MaximumMultiplier);
         }
+
+        var law = ReadDemandModel(request.DemandModel, u, us, fields, assumptions, method);
 
         // Nodes.
         var nodeAt = new Dictionary<string, string>(StringComparer.Ordinal); // id -> wire path of its first use
@@ -266,7 +269,7 @@ internal static class NetworkInput
 
         if (errors.Any || !double.IsFinite(nu)) return null;
 
-        var model = new NetworkModel(junctions, reservoirs, pipes, pumps, nu);
+        var model = new NetworkModel(junctions, reservoirs, pipes, pumps, nu) { DemandModel = law };
         // The Core's own checks, as a backstop: they find nothing the reading above let through, but a rule added
         // there must still answer 400 naming the element rather than fail the solve.
         foreach (var issue in model.Validate())
@@ -278,6 +281,63 @@ internal static class NetworkInput
         if (pumps.Count > 0) method.Add("pumps by their curves and the affinity laws, H_s(Q) = s^2 H(Q/s); a pump driven backwards stops");
         if (pipes.Any(p => p.CheckValve)) method.Add("check valves close under reverse flow and reopen under forward head, re-examined between Newton solves");
         return new NetworkProblem(u, model, multipliers, string.Join("; ", method), waterCelsius, assumptions, warnings, detail, chosen);
+    }
+
+    /// <summary>Reads demandModel: absent or demand-driven, every demand in full (null); pressure-driven, the law of
+    /// Wagner, Shamir and Marks (1988) in SI, its defaults echoed in the assumptions. Every bad field is named by its
+    /// path (demandModel.requiredPressureHead).</summary>
+    private static PressureDrivenDemand? ReadDemandModel(NetworkDemandModelInput? input, PumpUnits u, bool us, FieldErrors fields,
+        List<AssumptionDto> assumptions, List<string> method)
+    {
+        const string at = "demandModel";
+        string hu = u.HeadUnit;
+        if (input is null)
+        {
+            assumptions.Add(new(at, DemandDriven, "every junction receives its whole demand whatever its pressure (default); demandModel {\"type\": \"pressure-driven\", ...} lets the pressure limit what a junction receives"));
+            return null;
+        }
+        bool pressureDriven = false;
+        if (input.Type is null) fields.Add(at + ".type", "is required: demand-driven or pressure-driven");
+        else if (input.Type.Equals(PressureDriven, StringComparison.OrdinalIgnoreCase)) pressureDriven = true;
+        else if (!input.Type.Equals(DemandDriven, StringComparison.OrdinalIgnoreCase))
+            fields.Add(at + ".type", $"must be demand-driven or pressure-driven, not '{Short(input.Type)}'");
+        if (!pressureDriven)
+        {
+            // Demand-driven takes no parameters: a law's field given with it would be silently ignored, so it is refused.
+            if (input.MinimumPressureHead is not null) fields.Add(at + ".minimumPressureHead", "applies only to type pressure-driven");
+            if (input.RequiredPressureHead is not null) fields.Add(at + ".requiredPressureHead", "applies only to type pressure-driven");
+            if (input.Exponent is not null) fields.Add(at + ".exponent", "applies only to type pressure-driven");
+            return null;
+        }
+
+        double bound = PressureDrivenDemand.MaximumPressureHead / u.HeadFactor; // in the request's unit
+        double min;
+        if (input.MinimumPressureHead is null)
+        {
+            min = 0;
+            assumptions.Add(new(at + ".minimumPressureHead", "0", "nothing is delivered at or below atmospheric pressure (default)"));
+        }
+        else min = fields.Required(at + ".minimumPressureHead", input.MinimumPressureHead, -bound, bound, unit: hu);
+        double req = fields.Required(at + ".requiredPressureHead", input.RequiredPressureHead, -bound, bound, unit: hu);
+        double e;
+        if (input.Exponent is null)
+        {
+            e = 0.5;
+            assumptions.Add(new(at + ".exponent", "0.5", "the orifice exponent of Wagner, Shamir and Marks (1988) (default)"));
+        }
+        else e = fields.Required(at + ".exponent", input.Exponent, PressureDrivenDemand.MinimumExponent, PressureDrivenDemand.MaximumExponent);
+        if (!double.IsFinite(min) || !double.IsFinite(req) || !double.IsFinite(e)) return null;
+        double minSi = u.HeadToSi(min), reqSi = u.HeadToSi(req);
+        if (!(reqSi - minSi >= PressureDrivenDemand.MinimumBand))
+        {
+            string band = us
+                ? Format($"{PressureDrivenDemand.MinimumBand / Hosting.Units.Foot:G4} ft ({PressureDrivenDemand.MinimumBand} m)")
+                : Format($"{PressureDrivenDemand.MinimumBand} m");
+            fields.Add(at + ".requiredPressureHead", Format($"must exceed minimumPressureHead ({min:G6} {hu}) by at least {band}: the law needs a band of pressures between nothing and everything"));
+            return null;
+        }
+        method.Add(Format($"pressure-driven demand (Wagner, Shamir and Marks 1988): a junction with a positive demand d receives d ((p - {min:G6})/({req:G6} - {min:G6}))^{e:G6} between pressure heads of {min:G6} and {req:G6} {hu}, nothing below, d above; inflows in full; solved with the network by Newton in each junction's position along the law's graph, the later steps safeguarded by a line search, and judged converged only when the exact law and continuity hold"));
+        return new PressureDrivenDemand(minSi, reqSi, e);
     }
 
     private static double Length(FieldErrors e, string field, double? value, PumpUnits u, string unit)

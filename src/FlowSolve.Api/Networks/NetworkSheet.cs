@@ -27,6 +27,7 @@ public static class NetworkSheet
         sheet.Assumptions.AddRange(r.Assumptions);
         Methods(sheet, request, r);
         bool cholesky = r.HeadSolver == "sparse-cholesky";
+        bool pressureDriven = r.DemandModel == NetworkInput.PressureDriven;
 
         for (int c = 0; c < r.Cases.Count; c++)
         {
@@ -38,6 +39,14 @@ public static class NetworkSheet
                 sheet.Results.Add(new($"{tag}: status", k.Status, "", k.Reason));
                 sheet.Results.Add(new($"{tag}: total demand", F(k.TotalDemand), qu, "sum of the junction demands times the multiplier"));
                 sheet.Results.Add(new($"{tag}: total supply", F(k.TotalSupply), qu, "sum of the reservoirs' net outflows"));
+                if (pressureDriven)
+                {
+                    int shortJunctions = k.Junctions.Count(j => j.DeliveredDemand < j.Demand);
+                    sheet.Results.Add(new($"{tag}: total delivered demand", F(k.TotalDeliveredDemand), qu,
+                        "sum of what the junctions receive under pressure-driven demand" + Share(k.TotalDeliveredDemand, k.TotalDemand)));
+                    sheet.Results.Add(new($"{tag}: demand shortfall", F(k.DemandShortfall), qu,
+                        "requested minus delivered, over the junctions" + (r.Detail == "full" ? string.Create(C, $"; {shortJunctions} junction(s) short") : "")));
+                }
                 sheet.Results.Add(new($"{tag}: lowest pressure head", F(lowestHead), hu, k.Summary.LowestPressureHead is null ? "" : $"at junction '{lowest}'"));
                 if (k.Summary.HighestVelocity is { } fastest)
                     sheet.Results.Add(new($"{tag}: highest velocity", F(fastest.Value), vu, $"in pipe '{fastest.Element}'"));
@@ -55,8 +64,14 @@ public static class NetworkSheet
                 sheet.Tables.Add(Table($"pipes-{c + 1}", $"Pipes, {tag}", ["Pipe", $"Flow ({qu})", $"Velocity ({vu})", $"Head loss ({hu})", "Friction factor f", "Reynolds number", "Status"],
                     k.Pipes.Select(p => new[] { p.Id, F(p.Flow), F(p.Velocity), F(p.HeadLoss), F(p.FrictionFactor), F(p.Reynolds), p.Status }),
                     "Flow is positive from the pipe's 'from' node to its 'to' node; head loss is the head at 'from' minus the head at 'to'." + chosenNote));
-                sheet.Tables.Add(Table($"junctions-{c + 1}", $"Junctions, {tag}", ["Junction", $"Head ({hu})", $"Pressure head ({hu})", $"Demand ({qu})"],
-                    k.Junctions.Select(j => new[] { j.Id, F(j.Head), F(j.PressureHead), F(j.Demand) })));
+                if (pressureDriven)
+                    sheet.Tables.Add(Table($"junctions-{c + 1}", $"Junctions, {tag}",
+                        ["Junction", $"Head ({hu})", $"Pressure head ({hu})", $"Requested demand ({qu})", $"Delivered ({qu})", "Delivered / requested (%)"],
+                        k.Junctions.Select(j => new[] { j.Id, F(j.Head), F(j.PressureHead), F(j.Demand), F(j.DeliveredDemand), Percent(j.DeliveredDemand, j.Demand) }),
+                        "Pressure-driven demand: a junction with a positive demand receives demand x ((p - min)/(req - min))^exponent between the minimum and the required pressure head, nothing below, everything above (Wagner, Shamir and Marks 1988); an inflow (negative demand) in full."));
+                else
+                    sheet.Tables.Add(Table($"junctions-{c + 1}", $"Junctions, {tag}", ["Junction", $"Head ({hu})", $"Pressure head ({hu})", $"Demand ({qu})"],
+                        k.Junctions.Select(j => new[] { j.Id, F(j.Head), F(j.PressureHead), F(j.Demand) })));
                 if (k.Pumps.Count > 0)
                     sheet.Tables.Add(Table($"pumps-{c + 1}", $"Pumps, {tag}", ["Pump", $"Flow ({qu})", $"Head added ({hu})", "Status"],
                         k.Pumps.Select(p => new[] { p.Id, F(p.Flow), F(p.Head), p.Status })));
@@ -86,6 +101,13 @@ public static class NetworkSheet
     private static string Tag(int c, NetworkCaseDto k) => string.Create(C, $"case {c + 1} (demands x {k.DemandMultiplier:G6})");
 
     private static string F(double v) => SheetHtml.Fmt(v);
+
+    /// <summary>delivered / requested in percent, one decimal; a dash where nothing was requested.</summary>
+    private static string Percent(double delivered, double requested) =>
+        requested == 0 ? "-" : (100 * delivered / requested).ToString("F1", C);
+
+    private static string Share(double delivered, double requested) =>
+        requested > 0 ? string.Create(C, $" ({100 * delivered / requested:F1} % of the {F(requested)} requested)") : "";
 
     private static string E3(double v) => double.IsFinite(v) ? v.ToString("E3", C) : "not finite";
 
@@ -122,6 +144,14 @@ public static class NetworkSheet
             sheet.Inputs.Add(new("Kinematic viscosity nu", F(r.KinematicViscosity), r.Units == "us" ? "ft2/s" : "m2/s", "of water at that temperature (IAPWS)"));
         }
         sheet.Inputs.Add(new("Units", r.Units + ", flows in " + qu + ", heads and lengths in " + hu, "", q.Units is null ? "default" : "as given"));
+        if (r.DemandModel == NetworkInput.PressureDriven && q.DemandModel is { } dm)
+        {
+            sheet.Inputs.Add(new("Demand model", "pressure-driven", "", "deliveries limited by pressure (Wagner, Shamir and Marks 1988)"));
+            sheet.Inputs.Add(new("Minimum pressure head", SheetHtml.Fmt(dm.MinimumPressureHead ?? 0), hu, dm.MinimumPressureHead is null ? "default: nothing delivered at or below it" : "nothing delivered at or below it"));
+            sheet.Inputs.Add(new("Required pressure head", SheetHtml.Fmt(dm.RequiredPressureHead ?? double.NaN), hu, "the whole demand delivered at or above it"));
+            sheet.Inputs.Add(new("Exponent", SheetHtml.Fmt(dm.Exponent ?? 0.5), "-", dm.Exponent is null ? "default (an orifice)" : "as given"));
+        }
+        else sheet.Inputs.Add(new("Demand model", "demand-driven", "", q.DemandModel is null ? "default: every demand delivered whatever the pressure" : "every demand delivered whatever the pressure"));
 
         var nodes = junctions.Select(j => new[] { j.Id ?? "", "junction", F(j.Elevation ?? double.NaN), "", F(j.Demand ?? 0), Coord(j.X, j.Y) })
             .Concat(reservoirs.Select(x => new[] { x.Id ?? "", "reservoir", "", F(x.Head ?? double.NaN), "", Coord(x.X, x.Y) }));
@@ -175,6 +205,10 @@ public static class NetworkSheet
                 "Williams and Hazen (1905), from memory; the low-flow remedy: Elhay and Simpson (2011), J. Hydraul. Eng. 137(10)"));
         if ((q.Pumps ?? []).Count > 0)
             sheet.Methods.Add(new("Pumps", "H_s(Q) = s^2 H(Q/s) for speed ratio s; a pump driven backwards stops, one that cannot lift against the system answers 422", "affinity laws, common practice"));
+        if (r.DemandModel == NetworkInput.PressureDriven)
+            sheet.Methods.Add(new("Pressure-driven demand",
+                "q = d r(p), r = 0 for p <= min, ((p - min)/(req - min))^e between, 1 for p >= req; an inflow in full. Each junction with a positive demand is solved by its position u = s + x along the law's graph (s the scaled pressure, x = q/d), linearised along its tangent as a link to the level z + min on the junction's diagonal of the head equations; after five full steps each Newton step is safeguarded by a backtracking line search; converged only when the exact law and continuity hold at every junction",
+                "Wagner, J. M., Shamir, U. and Marks, D. H. (1988), J. Water Resour. Plann. Manage. 114(3), 276-294; gradient formulation: Todini (2003), Giustolisi, Savic and Kapelan (2008), J. Hydraul. Eng. 134(5); one solution: Elhay, Piller, Deuerlein and Simpson (2016), J. Water Resour. Plann. Manage. 142(2); all from memory"));
         if (pipes.Any(p => p.CheckValve == true))
             sheet.Methods.Add(new("Check valves", "closed under reverse flow, reopened under forward head; statuses re-examined between Newton solves until they settle", "common practice"));
     }

@@ -93,7 +93,8 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
         var response = new NetworkSolveResponse(cases, iterations, converged, input.Method,
             u.Code, u.FlowUnit, u.HeadUnit, u.IsUs ? "ft/s" : "m/s", u.IsUs ? nu / (Units.Foot * Units.Foot) : nu,
             validity.Report(input), input.Warnings, input.Assumptions,
-            NetworkDocs.HeadSolverCode(SolverOptions.LinearSolver), input.Detail);
+            NetworkDocs.HeadSolverCode(SolverOptions.LinearSolver), input.Detail,
+            input.Model.DemandModel is null ? NetworkInput.DemandDriven : NetworkInput.PressureDriven);
         if (!Finite(response)) return OutOfRange("The solve met values too large for double precision (the inputs are extreme in magnitude); rescale them.");
         return response;
     }
@@ -237,7 +238,7 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
         {
             if (j.PressureHead < pMin) { pMin = j.PressureHead; lowest = new NetworkExtremeDto(j.Id, u.Head(j.PressureHead)); }
             if (j.PressureHead > pMax) { pMax = j.PressureHead; highest = new NetworkExtremeDto(j.Id, u.Head(j.PressureHead)); }
-            if (Listed(j.Id)) junctions.Add(new(j.Id, u.Head(j.Head), u.Head(j.PressureHead), u.Flow(j.Demand)));
+            if (Listed(j.Id)) junctions.Add(new(j.Id, u.Head(j.Head), u.Head(j.PressureHead), u.Flow(j.Demand), u.Flow(j.DeliveredDemand)));
         }
         var pumps = new List<NetworkPumpResultDto>();
         foreach (var p in r.Pumps)
@@ -253,9 +254,11 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
         var warnings = new List<NetworkWarningDto>();
         if (!r.Converged)
             warnings.Add(new("not-converged", $"Load case {c + 1} (demand multiplier {r.DemandMultiplier.ToString("G6", CultureInfo.InvariantCulture)}) did not converge: {r.Status.Reason()}. The last iterate is reported; do not use it for design.", null));
-        warnings.AddRange(r.Warnings.Select(w => { var d = w.Describe(SolverOptions); return new NetworkWarningDto(d.Code, d.Message, w.ElementId); }));
+        // A warning about the whole case (demand-shortfall) has no element.
+        warnings.AddRange(r.Warnings.Select(w => { var d = w.Describe(SolverOptions); return new NetworkWarningDto(d.Code, d.Message, w.ElementId.Length == 0 ? null : w.ElementId); }));
         return new NetworkCaseDto(r.DemandMultiplier, r.Status.Code(), r.Status.Reason(), r.Converged, r.Iterations, r.StatusPasses,
-            pipes, junctions, pumps, reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply), record,
+            pipes, junctions, pumps, reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply),
+            u.Flow(r.TotalDeliveredDemand), u.Flow(r.DemandShortfall), record,
             CapPerCode(warnings, warningsPerCode, c + 1),
             new NetworkCaseSummaryDto(lowest, highest, fastest, transitional, closed));
     }
@@ -356,11 +359,11 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
         if (!double.IsFinite(r.KinematicViscosity)) return false;
         foreach (var c in r.Cases)
         {
-            if (!double.IsFinite(c.TotalDemand) || !double.IsFinite(c.TotalSupply)) return false;
+            if (!double.IsFinite(c.TotalDemand) || !double.IsFinite(c.TotalSupply) || !double.IsFinite(c.TotalDeliveredDemand) || !double.IsFinite(c.DemandShortfall)) return false;
             foreach (var p in c.Pipes)
                 if (!double.IsFinite(p.Flow) || !double.IsFinite(p.Velocity) || !double.IsFinite(p.HeadLoss) || !double.IsFinite(p.FrictionFactor) || !double.IsFinite(p.Reynolds)) return false;
             foreach (var j in c.Junctions)
-                if (!double.IsFinite(j.Head) || !double.IsFinite(j.PressureHead) || !double.IsFinite(j.Demand)) return false;
+                if (!double.IsFinite(j.Head) || !double.IsFinite(j.PressureHead) || !double.IsFinite(j.Demand) || !double.IsFinite(j.DeliveredDemand)) return false;
             foreach (var p in c.Pumps)
                 if (!double.IsFinite(p.Flow) || !double.IsFinite(p.Head)) return false;
             foreach (var x in c.Reservoirs)

@@ -45,7 +45,8 @@ public sealed record NetworkPump(string Id, string From, string To, PumpCurve Cu
 /// <param name="ElementId">Id of the offending element (empty for a problem of the whole model, such as the fluid).</param>
 /// <param name="Code">Stable kebab-case code: <c>empty-id</c>, <c>duplicate-id</c>, <c>unknown-node</c>, <c>self-loop</c>,
 /// <c>non-positive-length</c>, <c>non-positive-diameter</c>, <c>bad-roughness</c>, <c>bad-hazen-williams-c</c>,
-/// <c>bad-minor-loss</c>, <c>non-finite-value</c>, <c>bad-speed-ratio</c>, <c>missing-pump-curve</c>, <c>bad-viscosity</c>.</param>
+/// <c>bad-minor-loss</c>, <c>non-finite-value</c>, <c>bad-speed-ratio</c>, <c>missing-pump-curve</c>, <c>bad-viscosity</c>,
+/// <c>bad-demand-model</c>.</param>
 /// <param name="Message">A sentence for people that names the element.</param>
 public readonly record struct NetworkIssue(string ElementId, string Code, string Message);
 
@@ -73,6 +74,11 @@ public sealed record NetworkModel(
     IReadOnlyList<Junction> Junctions, IReadOnlyList<Reservoir> Reservoirs,
     IReadOnlyList<NetworkPipe> Pipes, IReadOnlyList<NetworkPump> Pumps, double KinematicViscosity)
 {
+    /// <summary>How the junctions' demands respond to pressure: null (the default) for demand-driven, where every
+    /// junction receives its whole demand whatever its pressure; a <see cref="PressureDrivenDemand"/> law for
+    /// pressure-driven demand, where a junction with a positive demand receives only what its pressure head allows.</summary>
+    public PressureDrivenDemand? DemandModel { get; init; }
+
     /// <summary>Checks the model and lists every problem, each naming the offending element by id (allocates).</summary>
     /// <returns>An empty list for a valid model.</returns>
     public IReadOnlyList<NetworkIssue> Validate()
@@ -81,6 +87,8 @@ public sealed record NetworkModel(
         var c = CultureInfo.InvariantCulture;
         if (!(KinematicViscosity > 0) || !double.IsFinite(KinematicViscosity))
             issues.Add(new("", "bad-viscosity", string.Format(c, "kinematicViscosity {0} must be finite and positive", KinematicViscosity)));
+
+        if (DemandModel is not null) issues.AddRange(DemandModel.Validate());
 
         var nodes = new HashSet<string>((Junctions?.Count ?? 0) + (Reservoirs?.Count ?? 0), StringComparer.Ordinal);
         void Node(string? id, string kind)

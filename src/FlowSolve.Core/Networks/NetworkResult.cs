@@ -173,6 +173,7 @@ public static class NetworkStatusExtensions
         NetworkWarningCode.PumpCannotLift => "pump-cannot-lift",
         NetworkWarningCode.PumpOutsideCurveRange => "pump-outside-curve-range",
         NetworkWarningCode.TransitionalFlow => "transitional-flow",
+        NetworkWarningCode.DemandShortfall => "demand-shortfall",
         _ => "unknown",
     };
 }
@@ -200,6 +201,11 @@ public enum NetworkWarningCode
     /// pipe, joined continuously to the neighbouring laws within 5 % of each limit (<see cref="Friction.TransitionalFriction"/>;
     /// value: the Reynolds number).</summary>
     TransitionalFlow,
+
+    /// <summary>A pressure-driven case delivers less than requested: <see cref="NetworkWarning.Count"/> junctions
+    /// receive less than their demand (value: the shortfall, requested minus delivered, summed over the junctions, in
+    /// m3/s). About the whole case: the element id is empty.</summary>
+    DemandShortfall,
 }
 
 /// <summary>A warning on one element; cheap to hold (no message until <see cref="Describe"/> is called).</summary>
@@ -208,6 +214,15 @@ public enum NetworkWarningCode
 /// <param name="Value">The figure behind it (see <see cref="NetworkWarningCode"/> for its unit).</param>
 public readonly record struct NetworkWarning(string ElementId, NetworkWarningCode Code, double Value)
 {
+    /// <summary>For <see cref="NetworkWarningCode.DemandShortfall"/>, the number of junctions that receive less than
+    /// their demand; else 0.</summary>
+    public int Count { get; init; }
+
+    /// <summary>True for a warning of a pressure-driven solve (<see cref="NetworkModel.DemandModel"/> set): a
+    /// negative-pressure warning then says that the junction's delivery is limited, else that the demand-driven answer
+    /// delivers it in full and points to the pressure-driven model.</summary>
+    public bool PressureDriven { get; init; }
+
     /// <summary>The coded message (allocates).</summary>
     /// <param name="options">The options of the solve, for the design range quoted; <see cref="NetworkOptions.Default"/> when omitted.</param>
     public CalculationWarning Describe(NetworkOptions? options = null)
@@ -223,8 +238,16 @@ public readonly record struct NetworkWarning(string ElementId, NetworkWarningCod
                 "Pipe '{0}': mean velocity {1:G4} m/s is above {2:G3} m/s, the high end of the usual design range (common practice).",
                 ElementId, Value, o.MaximumDesignVelocity),
             NetworkWarningCode.NegativePressure => string.Format(c,
-                "Junction '{0}': pressure head {1:G4} m is negative; the pipe would run below atmospheric pressure or empty.",
-                ElementId, Value),
+                "Junction '{0}': pressure head {1:G4} m is negative; the pipe would run below atmospheric pressure or empty. ",
+                ElementId, Value) + (PressureDriven
+                ? "Under pressure-driven demand the junction receives only what its pressure allows (deliveredDemand)."
+                : "A demand-driven solve delivers the whole demand whatever the pressure, which overstates what the junction can draw: "
+                  + "solve with pressure-driven demand (demandModel of type pressure-driven in the service, NetworkModel.DemandModel in the library) "
+                  + "to deliver only what the pressure allows."),
+            NetworkWarningCode.DemandShortfall => string.Format(c,
+                "{0} junction{1} receive{2} less than {3} demand under pressure-driven demand: {4:G4} m3/s in all is not delivered "
+                + "(requested minus delivered; see each junction's deliveredDemand).",
+                Count, Count == 1 ? "" : "s", Count == 1 ? "s" : "", Count == 1 ? "its" : "their", Value),
             NetworkWarningCode.PumpCannotLift => string.Format(c,
                 "Pump '{0}' is off: the head of {1:G4} m across it exceeds its shut-off head at its speed.", ElementId, Value),
             NetworkWarningCode.PumpOutsideCurveRange => string.Format(c,
@@ -262,8 +285,14 @@ public readonly record struct PumpResult(string Id, double Flow, double Head, Li
 /// <param name="Id">The junction's id.</param>
 /// <param name="Head">Total (piezometric) head H in m above the datum.</param>
 /// <param name="PressureHead">H - elevation in m.</param>
-/// <param name="Demand">The demand applied in m3/s (the model's demand times the load case's multiplier).</param>
-public readonly record struct JunctionResult(string Id, double Head, double PressureHead, double Demand);
+/// <param name="Demand">The demand applied (requested) in m3/s: the model's demand times the load case's multiplier.</param>
+public readonly record struct JunctionResult(string Id, double Head, double PressureHead, double Demand)
+{
+    /// <summary>The flow the junction receives in m3/s: <see cref="Demand"/> itself in a demand-driven solve (and for an
+    /// inflow); under pressure-driven demand d r(p) by the exact law of <see cref="PressureDrivenDemand"/> at
+    /// <see cref="PressureHead"/>; 0 where the network could not be solved (no path to a fixed head).</summary>
+    public double DeliveredDemand { get; init; }
+}
 
 /// <summary>One reservoir in a result.</summary>
 /// <param name="Id">The reservoir's id.</param>
@@ -275,8 +304,11 @@ public readonly record struct ReservoirResult(string Id, double Head, double Out
 /// <param name="Iteration">1-based, counted over all status passes.</param>
 /// <param name="StatusPass">1-based status pass the iteration belongs to.</param>
 /// <param name="MaxFlowChange">Largest |Q_new - Q_old| over the links in this step, in m3/s.</param>
-/// <param name="MaxHeadImbalance">Largest |H_from - H_to - h(Q)| over the open links after the step, in m.</param>
-/// <param name="MaxContinuityError">Largest |inflow - outflow - demand| over the junctions after the step, in m3/s.</param>
+/// <param name="MaxHeadImbalance">Largest |H_from - H_to - h(Q)| over the open links after the step, in m; under
+/// pressure-driven demand also each such junction's |H - z - min - (req - min) s(u)| (its head against its point on the
+/// law's graph).</param>
+/// <param name="MaxContinuityError">Largest |inflow - outflow - demand| over the junctions after the step, in m3/s; under
+/// pressure-driven demand with the delivery in place of the demand, both the iterate's and the exact law's d r(p).</param>
 /// <param name="LinearIterations">Conjugate-gradient iterations of this step's head solve; for the direct solve
 /// (<see cref="NetworkLinearSolver.SparseCholesky"/>), triangular solves with the factor (1, plus one per refinement step).</param>
 public readonly record struct NetworkIteration(
@@ -306,11 +338,18 @@ public sealed class NetworkResult
         Warnings = warnings;
         _linkIndex = linkIndex;
         _nodeIndex = nodeIndex;
-        double demand = 0, supply = 0;
-        foreach (var j in junctions) demand += j.Demand;
+        double demand = 0, supply = 0, delivered = 0, shortfall = 0;
+        foreach (var j in junctions)
+        {
+            demand += j.Demand;
+            delivered += j.DeliveredDemand;
+            shortfall += j.Demand - j.DeliveredDemand;
+        }
         foreach (var r in reservoirs) supply += r.Outflow;
         TotalDemand = demand;
         TotalSupply = supply;
+        TotalDeliveredDemand = delivered;
+        DemandShortfall = shortfall;
     }
 
     /// <summary>Why the solve stopped.</summary>
@@ -344,9 +383,20 @@ public sealed class NetworkResult
     /// <summary>Sum of the junction demands applied, in m3/s.</summary>
     public double TotalDemand { get; }
 
-    /// <summary>Sum of the reservoirs' net outflows, in m3/s (equals <see cref="TotalDemand"/> within the flow tolerance
-    /// times the number of junctions).</summary>
+    /// <summary>Sum of the reservoirs' net outflows, in m3/s (equals <see cref="TotalDeliveredDemand"/>, and in a
+    /// demand-driven solve <see cref="TotalDemand"/>, within the flow tolerance times the number of junctions).</summary>
     public double TotalSupply { get; }
+
+    /// <summary>Sum of the junctions' delivered demands (<see cref="JunctionResult.DeliveredDemand"/>), in m3/s; equal to
+    /// <see cref="TotalDemand"/> in a demand-driven solve.</summary>
+    public double TotalDeliveredDemand { get; }
+
+    /// <summary>Requested minus delivered demand summed over the junctions, in m3/s: 0 in a demand-driven solve, 0 or
+    /// more under pressure-driven demand.</summary>
+    public double DemandShortfall { get; }
+
+    /// <summary>The pressure-driven demand law of the solve, or null for demand-driven.</summary>
+    public PressureDrivenDemand? DemandModel { get; init; }
 
     /// <summary>One row per Newton iteration.</summary>
     public IReadOnlyList<NetworkIteration> Record { get; }

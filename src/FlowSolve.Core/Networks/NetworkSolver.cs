@@ -46,6 +46,26 @@ namespace FlowSolve.Core.Networks;
 /// it restarts, and the solve runs again from where it stood, up to
 /// <see cref="NetworkOptions.MaxStatusPasses"/> times. A closed link carries exactly zero flow; in the head system it
 /// keeps a vanishing conductance (1e-14 m2/s) so that a junction it isolates still has a defined head.</para>
+/// <para>Pressure-driven demand (<see cref="NetworkModel.DemandModel"/>): a junction with a positive demand d receives
+/// q = d r(p) (Wagner, Shamir and Marks 1988), and the problem has exactly one solution (Elhay, Piller, Deuerlein and
+/// Simpson 2016, J. Water Resour. Plann. Manage. 142(2), from memory). The law, flat parts included, is one increasing
+/// curve in the plane of the scaled pressure s = (p - min)/(req - min) and the fraction delivered x = q/d, and each such
+/// junction's unknown is its position u = s + x along that curve (<see cref="PressureDrivenDemand.GraphPoint"/>), in
+/// which both s and x move at rates between 0 and 1: nothing is unbounded, although r'(s) = e s^(e-1) is at s = 0 for
+/// e &lt; 1 and the inverse law's slope is at x = 0 for e &gt; 1, and the flat parts (nothing delivered, everything
+/// delivered) need no special states. The junction adds one equation, H - z - min = (req - min) s(u), and its delivery
+/// d x(u) enters continuity; linearised along the curve's tangent, the delivery is q + c (F + dH) with F the equation's
+/// imbalance and c = (d/(req - min)) dx/ds: a link from the junction to the fixed level z + min, which adds c to the
+/// junction's diagonal of the head equations (continuity's -dq/dH moved to the left-hand side), keeping them
+/// symmetric positive definite, as in the gradient formulation of Todini (2003) and Giustolisi, Savic and Kapelan
+/// (2008) (from memory); the position follows as du = (F + dH)/(req - min) + dq/d. A vertical tangent (e &lt; 1 at
+/// s = 0) is taken as dx/ds = 1e6: a bound of the Jacobian only, not of the law. The first <see cref="FreeSteps"/>
+/// steps of a solve are taken in full, as in a demand-driven solve; later ones are safeguarded by a backtracking line
+/// search (<see cref="LineSearch"/>), so that the iteration cannot cycle across the law's corners. Only a state that
+/// meets the tolerances with the exact law is reported converged: besides F, continuity is judged with d r(p) at the
+/// junction's head, which is the delivery reported. A closed link does not pull at the heads of its ends here (see
+/// <see cref="Step"/>). A demand-driven solve runs none of this and takes the same steps as before pressure-driven
+/// demand was added.</para>
 /// <para>An instance keeps its state between solves (warm start) and is not thread-safe; the static methods create
 /// their own instance. The results are engineering estimates to be checked by a qualified engineer.</para>
 /// </remarks>
@@ -82,6 +102,28 @@ public sealed class NetworkSolver
     private readonly double[] _imbalance;  // per link: H_from - H_to - h(Q) at the current iterate (closed: H_from - H_to)
     private readonly double[] _nodeScale;  // per junction: |demand| + sum of |Q| of its links, for the continuity floor
     private bool _outOfRange; // an iterate's Reynolds number left the friction relations' range
+
+    // Pressure-driven demand (null and empty arrays for a demand-driven model, whose _delivered is _demand itself).
+    private readonly PressureDrivenDemand? _law;
+    private readonly double[] _delivered;       // per junction: the flow drawn off in continuity
+    private readonly bool[] _onLaw;             // per junction: its delivery follows the law (a positive demand)
+    private readonly double[] _position;        // on-law junctions: u = s + x, the position along the law's graph
+    private readonly double[] _graphPressure;   // on-law junctions: s(u), the scaled pressure of the graph point
+    private readonly double[] _graphGood;       // on-law junctions: the graph point's coordinate solved for (x for e <= 1, s else)
+    private readonly double[] _outletConductance; // on-law junctions: dq/dH along the graph's tangent, m2/s (capped)
+    private readonly double[] _outletImbalance; // on-law junctions: H - z - min - (req - min) s(u), m
+    private readonly double[] _lawDelivery;     // per junction: d r(p) by the exact law at the current head
+    private readonly double[] _lawFloor;        // per junction: what rounding of the head can change in d r(p), m3/s
+    private readonly int[] _diagJunction;       // per junction: its diagonal's position in the head equations' values
+    // The line search: the step's start and the full step from it.
+    private readonly double[] _startHead, _startFlow, _startPosition, _stepHead, _stepFlow, _stepPosition;
+    private double _startMerit;
+    // Newton steps of each solve taken in full before the line search engages (the global gradient algorithm's early
+    // iterates are not monotone in any residual, and cutting them only slows it), the halvings of a step before the full
+    // step is taken after all, and Armijo's fraction of the decrease the step predicts (FlowSolve choices, from trials on
+    // generated networks: see docs/networks.md).
+    private const int FreeSteps = 5, LineSearchHalvings = 10;
+    private const double SufficientDecrease = 1e-4;
 
     private readonly SymmetricSparseSolver? _iterative;  // NetworkLinearSolver.ConjugateGradient
     private readonly SparseCholesky? _direct;            // NetworkLinearSolver.SparseCholesky
@@ -209,6 +251,25 @@ public sealed class NetworkSolver
         _imbalance = new double[_links];
         _nodeScale = new double[_junctions];
 
+        _law = model.DemandModel;
+        bool pdd = _law is not null;
+        int pj = pdd ? _junctions : 0;
+        _delivered = pdd ? new double[_junctions] : _demand;
+        _onLaw = new bool[pj];
+        _position = new double[pj];
+        _graphPressure = new double[pj];
+        _graphGood = new double[pj];
+        _outletConductance = new double[pj];
+        _outletImbalance = new double[pj];
+        _lawDelivery = new double[pj];
+        _lawFloor = new double[pj];
+        _startHead = new double[pj];
+        _startPosition = new double[pj];
+        _stepHead = new double[pj];
+        _stepPosition = new double[pj];
+        _startFlow = new double[pdd ? _links : 0];
+        _stepFlow = new double[pdd ? _links : 0];
+
         var (rowStart, columns) = BuildPattern();
         if (_options.LinearSolver == NetworkLinearSolver.ConjugateGradient)
             _iterative = new SymmetricSparseSolver(rowStart, columns);
@@ -216,6 +277,9 @@ public sealed class NetworkSolver
             _direct = new SparseCholesky(rowStart, columns);
         _residual = _direct is null ? [] : new double[_junctions];
         (_diagFrom, _diagTo, _offFromTo, _offToFrom) = EntryPositions(rowStart, columns);
+        _diagJunction = new int[pdd ? _junctions : 0];
+        for (int j = 0; j < _diagJunction.Length; j++)
+            _diagJunction[j] = Array.BinarySearch(columns, rowStart[j], rowStart[j + 1] - rowStart[j], j);
         _unsupplied = FindUnsupplied();
         Reset();
     }
@@ -288,6 +352,7 @@ public sealed class NetworkSolver
         if (_unsupplied.Length > 0)
             return Report(NetworkStatus.NoPathToFixedHead, demandMultiplier, [], 0);
         if (!_warm) Reset();
+        if (_law is not null) PlaceOnLaw();
 
         var record = new List<NetworkIteration>();
         var status = NetworkStatus.StatusesNotSettled;
@@ -313,17 +378,26 @@ public sealed class NetworkSolver
     }
 
     /// <summary>Newton iterations with the statuses fixed, until the tolerances are met or the cap is reached.</summary>
+    /// <remarks>Under pressure-driven demand, from step <see cref="FreeSteps"/> + 1 on, each step is followed by
+    /// <see cref="LineSearch"/>.</remarks>
     private NetworkStatus Newton(int pass, List<NetworkIteration> record)
     {
         var o = _options;
         double maxChange = double.PositiveInfinity;
-        int linear = 0;
-        bool stepped = false;
+        int linear = 0, steps = 0;
+        bool stepped = false, evaluated = false;
+        (double Imbalance, double Continuity, bool Met) measured = default;
         while (true)
         {
-            _outOfRange = false;
-            EvaluateLinks();
-            var (imbalance, continuity, met) = Measure();
+            if (!evaluated)
+            {
+                _outOfRange = false;
+                EvaluateLinks();
+                EvaluateOutlets();
+                measured = Measure();
+            }
+            evaluated = false;
+            var (imbalance, continuity, met) = measured;
             if (stepped) record.Add(new NetworkIteration(record.Count + 1, pass, maxChange, imbalance, continuity, linear));
             if (_outOfRange) return NetworkStatus.FlowsOutOfRange;
             if (!double.IsFinite(imbalance) || !double.IsFinite(continuity)) return NetworkStatus.LinearSolveFailed;
@@ -332,8 +406,144 @@ public sealed class NetworkSolver
             // Inexact Newton: the head solve need only be accurate to about the error the quadratic model leaves after the
             // step (of order the last flow change squared); the final steps run at a tenth of the flow tolerance.
             double linearTolerance = Math.Max(0.1 * o.FlowTolerance, Math.Min(1e-6, 1e-3 * maxChange * maxChange));
+            bool search = _law is not null && steps++ >= FreeSteps;
+            if (search)
+            {
+                Array.Copy(_head, _startHead, _junctions);
+                Array.Copy(_flow, _startFlow, _links);
+                Array.Copy(_position, _startPosition, _junctions);
+            }
             if (!Step(linearTolerance, out maxChange, out linear)) return NetworkStatus.LinearSolveFailed;
             stepped = true;
+            if (search)
+            {
+                measured = LineSearch(ref maxChange);
+                evaluated = true;
+            }
+        }
+    }
+
+    /// <summary>The line search's merit at the current point: the sum of squares of every junction's continuity error,
+    /// every open link's energy imbalance times its conductance at the step's start, and every on-law junction's
+    /// imbalance H - z - min - (req - min) s(u) times d/(req - min) (the law's mean slope), all in (m3/s)^2. The weights
+    /// are fixed during the search, so the Newton step is a descent direction of the merit.</summary>
+    private double Merit()
+    {
+        var law = _law!;
+        double span = law.RequiredPressureHead - law.MinimumPressureHead;
+        double sum = 0;
+        for (int j = 0; j < _junctions; j++)
+        {
+            double r = _continuity[j];
+            sum += r * r;
+            if (!_onLaw[j]) continue;
+            double f = _demand[j] / span * _outletImbalance[j];
+            sum += f * f;
+        }
+        for (int l = 0; l < _links; l++)
+        {
+            if (_status[l] != LinkStatus.Open) continue;
+            double e = _conductance[l] * _imbalance[l];
+            sum += e * e;
+        }
+        return double.IsNaN(sum) ? double.PositiveInfinity : sum;
+    }
+
+    /// <summary>Backtracking after the (possibly shortened) Newton step just taken: the step is halved until the merit
+    /// (<see cref="Merit"/>) falls below (1 - 1e-4 alpha) times its value at the start (Armijo's rule), or reaches the
+    /// level of the tolerances, or the tolerances are met; after <see cref="LineSearchHalvings"/> halvings without
+    /// that, the full step is taken after all (a corner of the law, or rounding at the tolerances). Leaves the accepted
+    /// point evaluated and measured.</summary>
+    private (double Imbalance, double Continuity, bool Met) LineSearch(ref double maxChange)
+    {
+        Array.Copy(_head, _stepHead, _junctions);
+        Array.Copy(_flow, _stepFlow, _links);
+        Array.Copy(_position, _stepPosition, _junctions);
+        double noise = (_junctions + _links) * _options.FlowTolerance * _options.FlowTolerance;
+        double alpha = 1;
+        for (int halving = 0; ; halving++)
+        {
+            _outOfRange = false;
+            EvaluateLinks();
+            EvaluateOutlets();
+            var measured = Measure();
+            double merit = _outOfRange ? double.PositiveInfinity : Merit();
+            if (measured.Met || !double.IsFinite(_startMerit) || merit <= (1 - SufficientDecrease * alpha) * _startMerit || merit <= noise)
+            {
+                maxChange *= alpha;
+                return measured;
+            }
+            if (halving == LineSearchHalvings)
+            {
+                SetStep(1);
+                _outOfRange = false;
+                EvaluateLinks();
+                EvaluateOutlets();
+                return Measure();
+            }
+            alpha *= 0.5;
+            SetStep(alpha);
+        }
+    }
+
+    /// <summary>Moves the iterate to the point <paramref name="alpha"/> along the step from the line search's start.</summary>
+    private void SetStep(double alpha)
+    {
+        for (int j = 0; j < _junctions; j++)
+        {
+            _head[j] = _startHead[j] + alpha * (_stepHead[j] - _startHead[j]);
+            _position[j] = _startPosition[j] + alpha * (_stepPosition[j] - _startPosition[j]);
+        }
+        for (int l = 0; l < _links; l++) _flow[l] = _startFlow[l] + alpha * (_stepFlow[l] - _startFlow[l]);
+    }
+
+    /// <summary>Places every junction with a positive demand on the law's graph at its present head (u = s + r(s), so
+    /// that it starts with no imbalance); the others draw their demand whatever the head.</summary>
+    private void PlaceOnLaw()
+    {
+        var law = _law!;
+        double min = law.MinimumPressureHead, span = law.RequiredPressureHead - min;
+        for (int j = 0; j < _junctions; j++)
+        {
+            double d = _demand[j];
+            _onLaw[j] = d > 0;
+            if (!_onLaw[j]) { _delivered[j] = d; continue; }
+            double s = (_head[j] - _elevation[j] - min) / span;
+            _position[j] = double.IsFinite(s) ? s + PressureDrivenDemand.Exact(s, law.Exponent) : 1;
+            _graphGood[j] = double.NaN; // no previous point to start the graph solve from
+        }
+    }
+
+    /// <summary>Under pressure-driven demand, at the current heads and positions: each on-law junction's graph point
+    /// (s(u), x(u)), its delivery d x(u), the imbalance H - z - min - (req - min) s(u) and the tangent's conductance;
+    /// and each junction's delivery by the exact law, d r(p), with what rounding of the head can change in it.</summary>
+    private void EvaluateOutlets()
+    {
+        var law = _law;
+        if (law is null) return;
+        double min = law.MinimumPressureHead, span = law.RequiredPressureHead - min, e = law.Exponent;
+        for (int j = 0; j < _junctions; j++)
+        {
+            double d = _demand[j];
+            if (!_onLaw[j])
+            {
+                _lawDelivery[j] = d;
+                _lawFloor[j] = 0;
+                continue;
+            }
+            var point = law.GraphPoint(_position[j], _graphGood[j]);
+            _graphGood[j] = point.Good;
+            _graphPressure[j] = point.S;
+            _delivered[j] = d * point.X;
+            _outletConductance[j] = d / span * point.Ratio;
+            double h = _head[j], p = h - _elevation[j], s = (p - min) / span;
+            _outletImbalance[j] = p - min - span * point.S;
+            _lawDelivery[j] = d * PressureDrivenDemand.Exact(s, e);
+            // The head holds 8 units in the last place of the numbers behind p; near the minimum pressure, where the
+            // law's slope is unbounded for e < 1, that alone can move d r(p) by more than the flow tolerance.
+            double eps = Resolution * (Math.Abs(h) + Math.Abs(_elevation[j]) + Math.Abs(min)) / span;
+            _lawFloor[j] = s <= -eps || s >= 1 + eps ? 0
+                : d * (PressureDrivenDemand.Exact(s + eps, e) - PressureDrivenDemand.Exact(s - eps, e));
         }
     }
 
@@ -429,7 +639,7 @@ public sealed class NetworkSolver
     /// <remarks>The stopping rule: a link's imbalance |H_from - H_to - h(Q)| must be at most the head tolerance or, when
     /// that is finer than the arithmetic can hold, <see cref="Resolution"/> times (|H_from| + |H_to| + |h| + |Q| dh/dQ);
     /// a junction's continuity error at most the flow tolerance or <see cref="Resolution"/> times (|demand| + the sum of
-    /// |Q| over its links). Ordinary networks never reach the second bounds (they are 1e-13 m and 1e-15 m3/s at heads
+    /// |Q| over its links), plus under pressure-driven demand what that rounding of its head changes in its delivery. Ordinary networks never reach the second bounds (they are 1e-13 m and 1e-15 m3/s at heads
     /// of 100 m and flows of 1 m3/s); without them a network with a very short or very wide pipe iterates to the cap.</remarks>
     private (double Imbalance, double Continuity, bool Met) Measure()
     {
@@ -438,7 +648,7 @@ public sealed class NetworkSolver
         double imbalance = 0;
         var c = _continuity;
         var scale = _nodeScale;
-        for (int j = 0; j < _junctions; j++) { c[j] = -_demand[j]; scale[j] = Math.Abs(_demand[j]); }
+        for (int j = 0; j < _junctions; j++) { c[j] = -_delivered[j]; scale[j] = Math.Abs(_delivered[j]); }
         for (int l = 0; l < _links; l++)
         {
             int f = _from[l], t = _to[l];
@@ -463,7 +673,34 @@ public sealed class NetworkSolver
             if (!(e <= continuity)) continuity = e;
             if (!(e <= Math.Max(o.FlowTolerance, Resolution * scale[j]))) met = false;
         }
+        if (_law is not null) met &= MeasureOutlets(ref imbalance, ref continuity);
         return (imbalance, continuity, met);
+    }
+
+    /// <summary>The stopping rule of the on-law junctions: the imbalance between the head and the graph point,
+    /// H - z - min - (req - min) s(u), within the head tolerance (or what a double resolves, as for a link), and
+    /// continuity with the exact law's delivery d r(p) in place of d x(u) within the flow tolerance (or what a double
+    /// resolves, plus what rounding of the head changes in d r(p)), so that the delivery reported, d r(p), meets
+    /// continuity.</summary>
+    private bool MeasureOutlets(ref double imbalance, ref double continuity)
+    {
+        var o = _options;
+        bool met = true;
+        var law = _law!;
+        double min = law.MinimumPressureHead, span = law.RequiredPressureHead - min;
+        for (int j = 0; j < _junctions; j++)
+        {
+            if (!_onLaw[j]) continue;
+            double f = _outletImbalance[j];
+            double a = Math.Abs(f);
+            if (!(a <= imbalance)) imbalance = a;
+            double floor = Resolution * (Math.Abs(_head[j]) + Math.Abs(_elevation[j] + min) + span * Math.Abs(_graphPressure[j]));
+            if (!(a <= Math.Max(o.HeadTolerance, floor))) met = false;
+            double lawError = Math.Abs(_continuity[j] + _delivered[j] - _lawDelivery[j]);
+            if (!(lawError <= continuity)) continuity = lawError;
+            if (!(lawError <= Math.Max(o.FlowTolerance, Resolution * _nodeScale[j] + _lawFloor[j]))) met = false;
+        }
+        return met;
     }
 
     /// <summary>One Newton step: assemble and solve the head equations, then update every flow.</summary>
@@ -487,11 +724,28 @@ public sealed class NetworkSolver
             double c = _status[l] == LinkStatus.Open ? 1.0 / _slope[l] : ClosedConductance;
             _conductance[l] = c;
             double ce = c * _imbalance[l];
+            // Under pressure-driven demand a closed link does not draw the heads at its ends together: a junction it cuts
+            // off with zero delivery may stand at any head at or below the minimum, and the pull of a vanishing
+            // conductance would only move it about (the head stays where the iteration left it).
+            if (_law is not null && _status[l] != LinkStatus.Open) ce = 0;
             int f = _from[l], t = _to[l];
             bool fj = f < _junctions, tj = t < _junctions;
             if (fj) { _rhs[f] -= ce; values[_diagFrom[l]] += c; }
             if (tj) { _rhs[t] += ce; values[_diagTo[l]] += c; }
             if (fj && tj) { values[_offFromTo[l]] -= c; values[_offToFrom[l]] -= c; }
+        }
+        if (_law is not null)
+        {
+            // The delivery linearised along the graph's tangent, q + c (F + dH): like a link from the junction to the
+            // fixed level z + min.
+            for (int j = 0; j < _junctions; j++)
+            {
+                if (!_onLaw[j]) continue;
+                double c = _outletConductance[j];
+                _rhs[j] -= c * _outletImbalance[j];
+                values[_diagJunction[j]] += c;
+            }
+            _startMerit = Merit(); // the conductances just set are the line search's weights
         }
         if (_direct is null)
         {
@@ -517,6 +771,18 @@ public sealed class NetworkSolver
         }
         if (!double.IsFinite(scale)) return false;
         for (int j = 0; j < _junctions; j++) _head[j] += scale * _x[j];
+        if (_law is not null)
+        {
+            // The position's step: along the tangent, du = ds + dx = (F + dH)/(req - min) + dq/d, with dq = c (F + dH).
+            double span = _law.RequiredPressureHead - _law.MinimumPressureHead;
+            for (int j = 0; j < _junctions; j++)
+            {
+                if (!_onLaw[j]) continue;
+                double lift = _outletImbalance[j] + _x[j];
+                double du = lift / span + _outletConductance[j] * lift / _demand[j];
+                _position[j] += scale * du;
+            }
+        }
         for (int l = 0; l < _links; l++)
         {
             double q = scale < 1 ? _flow[l] + scale * (_y[l] - _flow[l]) : _y[l];
@@ -659,13 +925,26 @@ public sealed class NetworkSolver
             }
         }
         var junctions = new JunctionResult[_junctions];
+        int shortJunctions = 0;
+        double shortfall = 0;
+        bool pdd = _law is not null;
         for (int j = 0; j < _junctions; j++)
         {
             string id = _model.Junctions[j].Id;
             double h = solved ? _head[j] : 0, p = solved ? h - _elevation[j] : 0;
-            junctions[j] = new JunctionResult(id, h, p, _demand[j]);
-            if (solved && p < 0) warnings.Add(new NetworkWarning(id, NetworkWarningCode.NegativePressure, p));
+            // The delivery by the exact law at the reported pressure (what the stopping rule judged), whatever stage the
+            // iteration stopped in.
+            double delivered = !solved ? 0 : pdd ? _law!.Delivered(_demand[j], p) : _demand[j];
+            junctions[j] = new JunctionResult(id, h, p, _demand[j]) { DeliveredDemand = delivered };
+            if (solved && p < 0) warnings.Add(new NetworkWarning(id, NetworkWarningCode.NegativePressure, p) { PressureDriven = pdd });
+            if (solved && pdd && delivered < _demand[j])
+            {
+                shortJunctions++;
+                shortfall += _demand[j] - delivered;
+            }
         }
+        if (shortJunctions > 0)
+            warnings.Add(new NetworkWarning("", NetworkWarningCode.DemandShortfall, shortfall) { Count = shortJunctions, PressureDriven = true });
         var outflow = new double[_reservoirs];
         if (solved)
         {
@@ -680,7 +959,7 @@ public sealed class NetworkSolver
             reservoirs[r] = new ReservoirResult(_model.Reservoirs[r].Id, _head[_junctions + r], outflow[r]);
         return new NetworkResult(status, multiplier, pipes, pumps, junctions, reservoirs, record, passes,
             status == NetworkStatus.NoPathToFixedHead ? _unsupplied : [], unable.ToArray(), warnings.ToArray(),
-            _linkIndex, _nodeIndex);
+            _linkIndex, _nodeIndex) { DemandModel = _law };
     }
 
     /// <summary>The sparsity pattern of the head equations (one row per junction) in CSR form, rows sorted.</summary>

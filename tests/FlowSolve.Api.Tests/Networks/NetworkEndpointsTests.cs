@@ -29,11 +29,11 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
         await api.PostRaw(Route, body.ToJsonString(), "application/json");
 
     /// <summary>Colebrook-White solved by Brent for f (independent of the Core's solver).</summary>
-    private static double ColebrookBrent(double re, double relativeRoughness) =>
+    internal static double ColebrookBrent(double re, double relativeRoughness) =>
         Brent.FindRoot(f => 1 / Math.Sqrt(f) + 2 * Math.Log10(relativeRoughness / 3.7 + 2.51 / (re * Math.Sqrt(f))), 1e-4, 0.2, 1e-15, 200);
 
     /// <summary>Darcy-Weisbach head loss of a turbulent pipe with Brent's Colebrook-White f; signed like the flow.</summary>
-    private static double DarcyHeadLoss(double q, double l, double d, double e, double k, double nu)
+    internal static double DarcyHeadLoss(double q, double l, double d, double e, double k, double nu)
     {
         double a = Math.PI * d * d / 4, v = Math.Abs(q) / a, re = v * d / nu;
         Assert.True(re > 4000, $"the independent check covers turbulent pipes only (Re {re})");
@@ -42,7 +42,7 @@ public sealed class NetworkEndpointsTests(ApiFixture api)
     }
 
     /// <summary>Hazen-Williams, SI velocity form V = 0.849 C R^0.63 S^0.54 (common practice), solved for S.</summary>
-    private static double HazenHeadLoss(double q, double l, double d, double c)
+    internal static double HazenHeadLoss(double q, double l, double d, double c)
     {
         double v = Math.Abs(q) / (Math.PI * d * d / 4);
         double s = Math.Pow(v / (0.849 * c * Math.Pow(d / 4, 0.63)), 1 / 0.54);

@@ -6,14 +6,28 @@ using FlowSolve.Core.Pumps;
 namespace FlowSolve.Core.Tests.Networks;
 
 /// <summary>Independent checks of a network result: continuity at every junction and energy on every link (so around
-/// every loop), each recomputed from the reported flows with the pipe relations of FlowSolve.Core.Pipes.</summary>
+/// every loop), each recomputed from the reported flows with the pipe relations of FlowSolve.Core.Pipes; and each
+/// junction's delivery: its whole demand in a demand-driven solve, under pressure-driven demand the law of Wagner,
+/// Shamir and Marks (1988) written out in <see cref="DenseNetworkReference.Delivered"/>, at the reported pressure, to
+/// 1e-9 of the demand.</summary>
 internal static class NetworkChecks
 {
     public static void AssertBalanced(NetworkModel model, NetworkResult result, double tolerance = 1e-9)
     {
         Assert.True(result.Converged, result.Status.Reason());
         var net = new Dictionary<string, double>();
-        foreach (var j in model.Junctions) net[j.Id] = -result.Junction(j.Id).Demand;
+        foreach (var j in model.Junctions)
+        {
+            var r = result.Junction(j.Id);
+            if (model.DemandModel is { } law)
+            {
+                double expected = DenseNetworkReference.Delivered(r.Demand, r.PressureHead, law.MinimumPressureHead, law.RequiredPressureHead, law.Exponent);
+                Assert.True(Math.Abs(r.DeliveredDemand - expected) <= 1e-9 * Math.Abs(r.Demand),
+                    $"law at {j.Id}: delivered {r.DeliveredDemand} at pressure head {r.PressureHead}, the law gives {expected}");
+            }
+            else Assert.Equal(r.Demand, r.DeliveredDemand);
+            net[j.Id] = -r.DeliveredDemand;
+        }
         void Flow(string from, string to, double q)
         {
             if (net.ContainsKey(from)) net[from] -= q;

@@ -515,19 +515,7 @@ public sealed class CalcExtensionTests(LiveService service) : IClassFixture<Live
                 if (v is null) start.Environment.Remove(k);
                 else start.Environment[k] = v;
             }
-            using var process = Process.Start(start)!;
-            var output = process.StandardOutput.ReadToEndAsync();
-            var errors = process.StandardError.ReadToEndAsync();
-            using var timeout = new CancellationTokenSource(limit);
-            bool timedOut = false;
-            try { await process.WaitForExitAsync(timeout.Token); }
-            catch (OperationCanceledException)
-            {
-                timedOut = true;
-                process.Kill(entireProcessTree: true);
-                await process.WaitForExitAsync();
-            }
-            return new ProgramRun(process.ExitCode, await output, await errors, timedOut);
+            return await SamplePrograms.Run(start, limit);
         }
 
         /// <summary>A program on PATH, or /usr/bin; soffice missing skips the test on a developer machine and fails it

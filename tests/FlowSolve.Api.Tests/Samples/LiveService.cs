@@ -115,6 +115,12 @@ public static class SamplePrograms
         };
         foreach (var a in arguments) start.ArgumentList.Add(a);
         start.Environment["FLOWSOLVE_URL"] = flowSolveUrl;
+        return await Run(start, limit);
+    }
+
+    /// <summary>Runs a prepared process (output and errors redirected), killed with its children past the limit.</summary>
+    public static async Task<ProgramRun> Run(ProcessStartInfo start, TimeSpan limit)
+    {
         using var process = Process.Start(start)!;
         var output = process.StandardOutput.ReadToEndAsync();
         var errors = process.StandardError.ReadToEndAsync();

@@ -118,4 +118,20 @@ public class AnswerBenchmarks
 
     private static readonly ResponseColumn FrictionColumn = new CalculationDescriptor("friction-factor", "frictionFactor", typeof(FrictionFactorRequest),
         typeof(FrictionFactorResponse), _ => null!).Columns.Single(c => c.Name == "frictionFactor");
+
+    /// <summary>The ETag of a GET (canonical request hashed with the build), computed on every cacheable GET.</summary>
+    [Benchmark]
+    public string CacheTag() => Cache.Tag(TagRequest);
+
+    private static readonly AnswerCache Cache = new("build/", 86400);
+
+    private static readonly Microsoft.AspNetCore.Http.HttpRequest TagRequest = MakeRequest();
+
+    private static Microsoft.AspNetCore.Http.HttpRequest MakeRequest()
+    {
+        var request = new Microsoft.AspNetCore.Http.DefaultHttpContext().Request;
+        request.Path = "/v1/friction-factor";
+        request.QueryString = new Microsoft.AspNetCore.Http.QueryString("?reynolds=75000&relativeRoughness=0.005&format=text");
+        return request;
+    }
 }

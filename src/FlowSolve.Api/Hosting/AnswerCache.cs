@@ -1,4 +1,5 @@
-using System.Security.Cryptography;
+using System.Buffers;
+using System.IO.Hashing;
 using System.Text;
 using Microsoft.Extensions.Options;
 
@@ -6,7 +7,7 @@ namespace FlowSolve.Api.Hosting;
 
 /// <summary>
 /// HTTP caching of GET calculation answers (JSON and text; not the sheet, which is stamped with the time it was made):
-/// a strong <c>ETag</c> from the canonical request and the build, and <c>Cache-Control: public, max-age=N</c>. A request
+/// a strong <c>ETag</c> (XXH128) of the canonical request and the build, and <c>Cache-Control: public, max-age=N</c>. A request
 /// whose <c>If-None-Match</c> holds the tag answers 304 with no body before anything is solved: an answer is
 /// deterministic for a given build and request, so the tag a client holds names the answer it holds.
 /// </summary>
@@ -39,18 +40,57 @@ public sealed class AnswerCache
     public static string BuildOf(params Type[] types) => string.Join("+", types.Select(t => t.Assembly.ManifestModule.ModuleVersionId.ToString("N")));
 
     /// <summary>The strong entity tag of a GET request's answer (quoted, as the header carries it).</summary>
+    /// <remarks>Computed on every cacheable GET, so it allocates only the tag: the pairs are sorted in a pooled array and
+    /// the canonical bytes written into a pooled buffer (names lower-cased in place: they are the routes' ASCII names).</remarks>
     public string Tag(HttpRequest request)
     {
         var query = request.Query;
-        var pairs = new List<(string Name, string Value)>(query.Count);
-        foreach (var (name, values) in query)
-            foreach (var value in values) pairs.Add((name.ToLowerInvariant(), value ?? ""));
-        pairs.Sort(static (a, b) => string.CompareOrdinal(a.Name, b.Name) is var c && c != 0 ? c : string.CompareOrdinal(a.Value, b.Value));
-        var canonical = new StringBuilder(_build.Length + 128).Append(_build).Append('\n').Append(request.Path.Value).Append('\n');
-        foreach (var (name, value) in pairs) canonical.Append(name).Append('=').Append(value).Append('\n');
-        Span<byte> hash = stackalloc byte[32];
-        SHA256.HashData(Encoding.UTF8.GetBytes(canonical.ToString()), hash);
-        return "\"" + Convert.ToHexStringLower(hash[..16]) + "\"";
+        int count = 0;
+        foreach (var (_, values) in query) count += Math.Max(values.Count, 1);
+        var pairs = ArrayPool<KeyValuePair<string, string>>.Shared.Rent(Math.Max(count, 1));
+        byte[]? buffer = null;
+        try
+        {
+            int n = 0, length = _build.Length + 2 + Encoding.UTF8.GetMaxByteCount(request.Path.Value?.Length ?? 0);
+            foreach (var (name, values) in query)
+            {
+                if (values.Count == 0) { pairs[n++] = new(name, ""); length += Encoding.UTF8.GetMaxByteCount(name.Length) + 2; continue; }
+                foreach (var value in values)
+                {
+                    pairs[n++] = new(name, value ?? "");
+                    length += Encoding.UTF8.GetMaxByteCount(name.Length + (value?.Length ?? 0)) + 2;
+                }
+            }
+            var span = pairs.AsSpan(0, n);
+            span.Sort(static (a, b) => string.Compare(a.Key, b.Key, StringComparison.OrdinalIgnoreCase) is var c && c != 0 ? c : string.CompareOrdinal(a.Value, b.Value));
+            buffer = ArrayPool<byte>.Shared.Rent(length);
+            int at = Encoding.UTF8.GetBytes(_build, buffer);
+            buffer[at++] = (byte)'\n';
+            at += Encoding.UTF8.GetBytes(request.Path.Value ?? "", buffer.AsSpan(at));
+            buffer[at++] = (byte)'\n';
+            foreach (var (name, value) in span)
+            {
+                int start = at;
+                at += Encoding.UTF8.GetBytes(name, buffer.AsSpan(at));
+                for (int i = start; i < at; i++) if (buffer[i] is >= (byte)'A' and <= (byte)'Z') buffer[i] |= 0x20;
+                buffer[at++] = (byte)'=';
+                at += Encoding.UTF8.GetBytes(value, buffer.AsSpan(at));
+                buffer[at++] = (byte)'\n';
+            }
+            // XXH128: a 128-bit non-cryptographic hash, deterministic across processes and machines (unlike string hash
+            // codes), so every replica of a build gives a request the same tag; a tag names, it does not protect.
+            UInt128 hash = XxHash128.HashToUInt128(buffer.AsSpan(0, at));
+            return string.Create(34, hash, static (chars, h) =>
+            {
+                chars[0] = chars[^1] = '"';
+                h.TryFormat(chars[1..^1], out _, "x32", System.Globalization.CultureInfo.InvariantCulture);
+            });
+        }
+        finally
+        {
+            ArrayPool<KeyValuePair<string, string>>.Shared.Return(pairs, clearArray: true);
+            if (buffer is not null) ArrayPool<byte>.Shared.Return(buffer);
+        }
     }
 
     /// <summary>True when an <c>If-None-Match</c> header names <paramref name="tag"/> (or is <c>*</c>), by the weak

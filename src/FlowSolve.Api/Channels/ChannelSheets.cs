@@ -16,6 +16,7 @@ internal static class ChannelSheetParts
     public sealed record Read(ChannelSection Section, ChannelUnits Units, string? UnitsText, double? ManningN, double Flow,
         double? Slope, SectionFields Fields);
 
+    /// <summary>The body the sheet was drawn for (a GET's query arrives as the body it stands for).</summary>
     public static Read ReadRequest(object request)
     {
         var errors = new FieldErrors();
@@ -23,8 +24,6 @@ internal static class ChannelSheetParts
         {
             NormalDepthRequest b => (SectionFields.From(b.Section!), "section.", b.Units, b.ManningN, b.Flow, b.Slope),
             CriticalDepthRequest b => (SectionFields.From(b.Section!), "section.", b.Units, b.ManningN, b.Flow, (double?)null),
-            NormalDepthQuery q => (Fields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter, q.Points, errors), "", q.Units, q.ManningN, q.Flow, q.Slope),
-            CriticalDepthQuery q => (Fields(q.Shape, q.BottomWidth, q.SideSlope, q.LeftSideSlope, q.RightSideSlope, q.Diameter, q.Points, errors), "", q.Units, q.ManningN, q.Flow, (double?)null),
             _ => throw new ArgumentException("not a channel request", nameof(request)),
         };
         var u = new ChannelUnits(UnitSystem.Parse(units, errors));
@@ -32,9 +31,6 @@ internal static class ChannelSheetParts
         var section = ChannelInput.Read(fields, prefix, u, errors, []) ?? throw new InvalidOperationException("the section did not read again");
         return new Read(section, u, units, n, flow!.Value, slope, fields);
     }
-
-    private static SectionFields Fields(string? shape, double? b, double? z, double? zl, double? zr, double? d, string? points, FieldErrors errors) =>
-        new(shape, b, z, zl, zr, d, ChannelInput.ParsePoints(points, errors));
 
     public static void Inputs(Sheet sheet, Read read, string shape)
     {

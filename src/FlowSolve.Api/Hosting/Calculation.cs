@@ -120,8 +120,9 @@ public interface ICalculation
     /// <summary>Maps the calculation's GET and POST routes.</summary>
     void Map(IEndpointRouteBuilder routes);
 
-    /// <summary>Runs the calculation on a bound request, reviewed by <see cref="CalculationGuard"/> as the routes are:
-    /// <c>Ok</c> with the answer, or a problem (for a batch row and a check).</summary>
+    /// <summary>Runs the calculation on a bound request: <c>Ok</c> with the answer, or a problem (for a batch row and a
+    /// check, whose <see cref="CalculationDescriptor.Invoke"/> puts it through <see cref="CalculationGuard"/> once, as
+    /// the routes do).</summary>
     IResult Run(object request, in CalculationContext context);
 }
 
@@ -167,11 +168,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
     /// <summary>The answer's scalar fields by wire name, for <c>format=text</c> (compiled once).</summary>
     private IReadOnlyDictionary<string, ResponseColumn> Columns => _columns ??= ResponseColumns.ByName(typeof(TResponse));
 
-    public IResult Run(object request, in CalculationContext context)
-    {
-        var outcome = Guarded(static (self, r, c) => self.Solve(r, c), (TRequest)request, context);
-        return outcome.Problem ?? CalculationGuard.Review(Info.Name, outcome.Answer!, strict: false) ?? TypedResults.Ok(outcome.Answer!);
-    }
+    public IResult Run(object request, in CalculationContext context) => Solve((TRequest)request, context).ToResult();
 
     public void Map(IEndpointRouteBuilder routes)
     {

@@ -25,13 +25,6 @@ public static class SolverMetrics
     public static readonly Counter BatchRows = Prometheus.Metrics.CreateCounter(
         "flowsolve_batch_rows_total", "Rows processed by batch requests.", "calculation", "outcome");
 
-    public static void Record(string calculation, object? value)
-    {
-        if (value is not ISolveSummary s) return;
-        Iterations.WithLabels(calculation).Observe(s.Iterations);
-        if (!s.Converged) NotConverged.WithLabels(calculation).Inc();
-    }
-
     /// <summary>One calculation's solver metrics, with the labelled series looked up once rather than per request.</summary>
     public sealed class For(string calculation)
     {

@@ -24,6 +24,7 @@ internal static class ChannelSheetParts
         {
             NormalDepthRequest b => (SectionFields.From(b.Section!), "section.", b.Units, b.ManningN, b.Flow, b.Slope),
             CriticalDepthRequest b => (SectionFields.From(b.Section!), "section.", b.Units, b.ManningN, b.Flow, (double?)null),
+            ChannelProfileRequest b => (SectionFields.From(b.Section!), "section.", b.Units, b.ManningN, b.Flow, b.Slope),
             _ => throw new ArgumentException("not a channel request", nameof(request)),
         };
         var u = new ChannelUnits(UnitSystem.Parse(units, errors));

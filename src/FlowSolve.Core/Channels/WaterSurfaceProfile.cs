@@ -63,7 +63,23 @@ public sealed record WaterSurfaceProfile
 
     /// <summary>Warnings with stable codes.</summary>
     public required IReadOnlyList<CalculationWarning> Warnings { get; init; }
+
+    /// <summary>The hydraulic jump joining a supercritical profile from an upstream control to a subcritical one from a
+    /// downstream control, or null (one control, or a jump that forms outside the reach).</summary>
+    public ProfileJump? Jump { get; init; }
 }
+
+/// <summary>A hydraulic jump located inside a reach between two controls.</summary>
+/// <param name="Distance">Where the jump stands, m from the downstream end.</param>
+/// <param name="UpstreamDepth">The supercritical depth just upstream of it, m.</param>
+/// <param name="SequentDepth">Its sequent depth, equal to the subcritical profile's depth there, m.</param>
+/// <param name="EnergyLoss">The specific energy lost in it, m.</param>
+/// <param name="UpstreamFroudeNumber">The Froude number just upstream of it.</param>
+/// <param name="JumpLength">Its length by the rectangular apron relation L = 6.1 y2 (Peterka 1958), m: an indication only.</param>
+/// <param name="Iterations">Newton steps of the root in distance.</param>
+/// <param name="Residual">|sequent depth of the supercritical profile - subcritical depth| at the distance returned, relative to the sequent depth.</param>
+public sealed record ProfileJump(double Distance, double UpstreamDepth, double SequentDepth, double EnergyLoss, double UpstreamFroudeNumber,
+    double JumpLength, int Iterations, double Residual);
 
 /// <summary>Why a profile cannot be computed from the control given.</summary>
 public enum ProfileProblem
@@ -129,16 +145,7 @@ public static class GraduallyVariedFlow
         ArgumentOutOfRangeException.ThrowIfLessThan(stations, 2);
         if (!double.IsFinite(slope)) throw new ArgumentOutOfRangeException(nameof(slope), slope, "must be finite");
 
-        double yc = CriticalFlow.CriticalDepth(section, flow).CriticalDepth;
-        double yn = double.NaN;
-        if (slope > 0)
-        {
-            var normal = ManningSolver.NormalDepth(section, flow, slope, manningN);
-            if (normal.Solution != DepthSolution.None && normal.Converged) yn = normal.NormalDepth;
-        }
-        var slopeClass = slope == 0 ? SlopeClass.Horizontal : slope < 0 ? SlopeClass.Adverse
-            : double.IsNaN(yn) ? SlopeClass.Mild
-            : Math.Abs(yn - yc) <= 1e-9 * yc ? SlopeClass.Critical : yn > yc ? SlopeClass.Mild : SlopeClass.Steep;
+        var (yn, yc, slopeClass) = Classes(section, flow, slope, manningN);
         string type = Classify(slopeClass, controlDepth, yn, yc);
 
         if (Math.Abs(controlDepth - yc) <= 1e-9 * yc)
@@ -154,19 +161,7 @@ public static class GraduallyVariedFlow
             };
         }
 
-        // s: distance from the control along the integration (upstream for a downstream control). ds/dy = phi(y).
-        var phi = new Slope(section, flow, slope, manningN, controlDownstream);
-        double direction = Math.Sign(1.0 / phi.At(controlDepth));
-        // Where the depth tends as s grows: the nearest of yn and yc in the direction of travel, else the section's top or 0.
-        double limit = direction > 0 ? section.MaximumDepth : 0.0;
-        bool limitIsCritical = false;
-        foreach (double candidate in new[] { yn, yc })
-        {
-            if (double.IsNaN(candidate)) continue;
-            bool ahead = direction > 0 ? candidate > controlDepth && candidate < limit : candidate < controlDepth && candidate > limit;
-            if (ahead) { limit = candidate; limitIsCritical = candidate == yc; }
-        }
-
+        var branch = new Branch(section, flow, slope, manningN, controlDepth, controlDownstream, yn, yc);
         var warnings = new List<CalculationWarning>();
         var list = new List<ProfileStation>(stations);
         double spacing = length / (stations - 1);
@@ -177,57 +172,32 @@ public static class GraduallyVariedFlow
         double? criticalAt = null;
         list.Add(Station(section, flow, manningN, controlDownstream ? 0 : length, controlDepth));
 
-        // How far the profile runs before it meets critical depth or the section's top, when it tends to either.
-        double sEnd = double.PositiveInfinity;
-        if (limitIsCritical || (!double.IsInfinity(limit) && limit > 0 && limit != yn))
-            sEnd = Integrate(phi, controlDepth, limit);
-
         for (int k = 1; k < stations; k++)
         {
             double s = k * spacing;
-            if (s > sEnd)
+            if (s > branch.End)
             {
-                double at = controlDownstream ? sEnd : length - sEnd;
-                if (limitIsCritical)
+                double at = controlDownstream ? branch.End : length - branch.End;
+                if (branch.LimitIsCritical)
                 {
                     criticalAt = at;
-                    warnings.Add(new("reaches-critical-depth", string.Create(CultureInfo.InvariantCulture,
-                        $"The profile reaches critical depth ({yc:G6} m) {at:G6} m from the downstream end, inside the reach: the gradually-varied-flow equation does not hold beyond it (a hydraulic jump or a drop forms there), so no stations are given past it.")));
+                    warnings.Add(ReachesCritical(yc, at));
                 }
                 else
                 {
                     warnings.Add(new("profile-leaves-section", string.Create(CultureInfo.InvariantCulture,
                         $"The profile reaches the top of the section ({section.MaximumDepth:G6} m) {at:G6} m from the downstream end: the channel would overflow or run full; no stations are given past it.")));
                 }
-                list.Add(Station(section, flow, manningN, at, limit));
+                list.Add(Station(section, flow, manningN, at, branch.Limit));
                 break;
             }
-            // The depth where s is reached lies between the last station's depth and the limit; with no finite limit
-            // ahead (an H2 or A2 profile rising upstream), double the step until it is passed.
-            double far = limit;
-            if (double.IsInfinity(far) || far <= 0)
-            {
-                far = yPrev;
-                double grow = Math.Max(yPrev, 1e-3);
-                for (int j = 0; j < 200; j++)
-                {
-                    double trial = direction > 0 ? far + grow : far / 2;
-                    if (sPrev + Integrate(phi, yPrev, trial) >= s) { far = trial; break; }
-                    far = trial;
-                    grow *= 2;
-                }
-            }
-            var function = new Distance(phi, yPrev, s - sPrev);
-            var bracket = direction > 0 ? Bracket.KnownIncreasing(yPrev, far) : Bracket.KnownDecreasing(far, yPrev);
-            var root = SafeguardedNewton.Solve(function, bracket, yPrev + (far - yPrev) * 0.5, Options);
-            iterations += root.Iterations;
-            converged &= root.Converged;
-            double y = root.Root;
-            double reached = sPrev + Integrate(phi, yPrev, y);
-            residual = Math.Max(residual, Math.Abs(reached - s) / length);
-            list.Add(Station(section, flow, manningN, controlDownstream ? s : length - s, y));
-            yPrev = y;
-            sPrev = reached;
+            var step = branch.DepthAt(s, yPrev, sPrev);
+            iterations += step.Iterations;
+            converged &= step.Converged;
+            residual = Math.Max(residual, Math.Abs(step.Reached - s) / length);
+            list.Add(Station(section, flow, manningN, controlDownstream ? s : length - s, step.Depth));
+            yPrev = step.Depth;
+            sPrev = step.Reached;
         }
         if (!controlDownstream) list.Reverse();
         if (!converged) warnings.Add(new("not-converged", "A station's depth did not meet its tolerance."));
@@ -236,6 +206,219 @@ public static class GraduallyVariedFlow
             NormalDepth = yn, CriticalDepth = yc, SlopeClass = slopeClass, ProfileType = type, Stations = list,
             CriticalDepthDistance = criticalAt, Iterations = iterations, Converged = converged, Residual = residual, Warnings = warnings,
         };
+    }
+
+    /// <summary>
+    /// The water surface between two controls: a supercritical depth held at the upstream end (below a gate) and a
+    /// subcritical depth held at the downstream end (a weir, a lake). The supercritical profile runs downstream from the
+    /// upstream control and the subcritical one upstream from the downstream control; the hydraulic jump stands where
+    /// the supercritical depth's sequent depth (equal momentum function, <see cref="HydraulicJump"/>) equals the
+    /// subcritical depth. That distance is a root of F(x) = y2*(y1(x)) - y2(x), found by safeguarded Newton with
+    /// dF/dx = (dy2*/dy1) dy1/dx - dy2/dx, where dy2*/dy1 = A1 (1 - Fr1^2) / (A2 (1 - Fr2^2)) (both sides keep the
+    /// momentum function equal) and each dy/dx comes from the gradually-varied-flow equation; the bracket is the first
+    /// sign change of F scanning downstream from the upstream end (F &gt; 0 there means the supercritical flow still
+    /// holds, Chow 1959, Open-Channel Hydraulics, section 15-4, from memory). Without a sign change in the reach, one
+    /// profile holds over the whole reach and a warning says which: a jump drowned against the upstream control, or
+    /// swept past the downstream end.
+    /// </summary>
+    /// <param name="section">The cross-section.</param>
+    /// <param name="flow">Discharge Q, m3/s; greater than 0.</param>
+    /// <param name="slope">Bed slope S0, m/m; 0 or negative allowed.</param>
+    /// <param name="manningN">Manning n.</param>
+    /// <param name="length">Reach length, m; greater than 0.</param>
+    /// <param name="upstreamDepth">The supercritical depth held at the upstream end, m; below critical depth.</param>
+    /// <param name="downstreamDepth">The subcritical depth held at the downstream end, m; above critical depth.</param>
+    /// <param name="stations">How many equally spaced stations to report, 2 or more (the jump adds two at its distance).</param>
+    public static WaterSurfaceProfile ProfileBetween(ChannelSection section, double flow, double slope, double manningN, double length,
+        double upstreamDepth, double downstreamDepth, int stations)
+    {
+        ArgumentNullException.ThrowIfNull(section);
+        ChannelGuard.Positive(flow, nameof(flow));
+        ChannelGuard.Positive(manningN, nameof(manningN));
+        ChannelGuard.Positive(length, nameof(length));
+        ChannelGuard.Depth(upstreamDepth, section.MaximumDepth, nameof(upstreamDepth));
+        ChannelGuard.Depth(downstreamDepth, section.MaximumDepth, nameof(downstreamDepth));
+        ArgumentOutOfRangeException.ThrowIfLessThan(stations, 2);
+        if (!double.IsFinite(slope)) throw new ArgumentOutOfRangeException(nameof(slope), slope, "must be finite");
+        if (Check(section, flow, upstreamDepth, controlDownstream: false) != ProfileProblem.None)
+            throw new ArgumentOutOfRangeException(nameof(upstreamDepth), upstreamDepth, "must be supercritical (below critical depth)");
+        if (Check(section, flow, downstreamDepth, controlDownstream: true) != ProfileProblem.None)
+            throw new ArgumentOutOfRangeException(nameof(downstreamDepth), downstreamDepth, "must be subcritical (above critical depth)");
+
+        var (yn, yc, slopeClass) = Classes(section, flow, slope, manningN);
+        var upper = new Branch(section, flow, slope, manningN, upstreamDepth, controlDownstream: false, yn, yc);
+        var lower = new Branch(section, flow, slope, manningN, downstreamDepth, controlDownstream: true, yn, yc);
+        string upperType = upper.Uniform ? "uniform" : Classify(slopeClass, upstreamDepth, yn, yc);
+        string lowerType = lower.Uniform ? "uniform" : Classify(slopeClass, downstreamDepth, yn, yc);
+
+        // Where both profiles exist: the supercritical one from the upstream end down to where it reaches critical depth,
+        // the subcritical one from the downstream end up to where it reaches critical depth (or the section's top).
+        double lo = Math.Max(0, length - upper.End), hi = Math.Min(length, lower.End);
+        var jumpFunction = new JumpFunction(section, flow, length, upper, lower, yc);
+        int iterations = 0;
+        double found = double.NaN, previous = double.NaN;
+        if (lo < hi)
+        {
+            double fHi = jumpFunction.Value(hi);
+            if (fHi > 0)
+            {
+                const int Scan = 64;
+                previous = hi;
+                for (int k = 1; k <= Scan; k++)
+                {
+                    double x = hi - (hi - lo) * k / Scan;
+                    if (jumpFunction.Value(x) <= 0) { found = x; break; }
+                    previous = x;
+                }
+            }
+        }
+        if (double.IsNaN(found) || double.IsNaN(previous))
+        {
+            // No jump in the reach: one profile holds all along.
+            bool drowned = !(lo < hi) || jumpFunction.Value(hi) <= 0;
+            var single = drowned
+                ? Profile(section, flow, slope, manningN, length, downstreamDepth, controlDownstream: true, stations)
+                : Profile(section, flow, slope, manningN, length, upstreamDepth, controlDownstream: false, stations);
+            var warnings = new List<CalculationWarning>(single.Warnings)
+            {
+                drowned
+                    ? new("jump-drowned", "The subcritical profile from the downstream control stands at or above the sequent depth of the supercritical flow all the way to the upstream control: no free jump forms in the reach (the downstream control drowns the upstream one, a submerged gate say), and the profile from the downstream control is given over the whole reach.")
+                    : new("jump-beyond-reach", "The sequent depth of the supercritical flow stays above the subcritical profile down to the downstream end: the jump is swept out of the reach, and the profile from the upstream control is given over the whole reach."),
+            };
+            return single with { Warnings = warnings };
+        }
+
+        double xj;
+        int jumpIterations = 0;
+        if (jumpFunction.Value(found) == 0)
+        {
+            xj = found;
+        }
+        else
+        {
+            var root = SafeguardedNewton.Solve(jumpFunction, Bracket.KnownIncreasing(found, previous), 0.5 * (found + previous),
+                new SolverOptions(1e-13 * length, 1e-13, 0.0, 100));
+            jumpIterations = root.Iterations;
+            xj = root.Root;
+        }
+        var at = jumpFunction.At(xj);
+        var jump = HydraulicJump.Solve(section, flow, at.Upper);
+        double jumpResidual = Math.Abs(jump.SequentDepth - at.Lower) / jump.SequentDepth;
+        bool converged = jump.Converged && jumpResidual <= 1e-8;
+        iterations += jumpIterations + at.Iterations;
+
+        // Stations: the subcritical profile from the downstream end to the jump, the jump's two depths, the supercritical
+        // profile from the jump to the upstream end; each profile walked from its own control.
+        var list = new List<ProfileStation>(stations + 2);
+        double spacing = length / (stations - 1);
+        double residual = 0;
+        double yPrev = downstreamDepth, sPrev = 0;
+        for (int k = 0; k < stations; k++)
+        {
+            double x = k == stations - 1 ? length : k * spacing;
+            if (x >= xj) break;
+            var step = lower.DepthAt(x, yPrev, sPrev);
+            iterations += step.Iterations;
+            converged &= step.Converged;
+            residual = Math.Max(residual, Math.Abs(step.Reached - x) / length);
+            list.Add(Station(section, flow, manningN, x, step.Depth));
+            (yPrev, sPrev) = (step.Depth, step.Reached);
+        }
+        list.Add(Station(section, flow, manningN, xj, at.Lower));
+        list.Add(Station(section, flow, manningN, xj, at.Upper));
+        var upstreamPart = new List<ProfileStation>();
+        yPrev = upstreamDepth;
+        sPrev = 0;
+        for (int k = stations - 1; k >= 0; k--)
+        {
+            double x = k == stations - 1 ? length : k * spacing;
+            if (x <= xj) break;
+            double s = length - x;
+            var step = upper.DepthAt(s, yPrev, sPrev);
+            iterations += step.Iterations;
+            converged &= step.Converged;
+            residual = Math.Max(residual, Math.Abs(step.Reached - s) / length);
+            upstreamPart.Add(Station(section, flow, manningN, x, step.Depth));
+            (yPrev, sPrev) = (step.Depth, step.Reached);
+        }
+        upstreamPart.Reverse();
+        list.AddRange(upstreamPart);
+
+        var jumpWarnings = jump.Warnings.Where(w => w.Code != "not-converged").ToList();
+        if (!converged) jumpWarnings.Add(new("not-converged", "The jump's distance or a station's depth did not meet its tolerance."));
+        return new WaterSurfaceProfile
+        {
+            NormalDepth = yn, CriticalDepth = yc, SlopeClass = slopeClass, ProfileType = upperType + "+" + lowerType, Stations = list,
+            CriticalDepthDistance = null, Iterations = iterations, Converged = converged, Residual = Math.Max(residual, jumpResidual),
+            Warnings = jumpWarnings,
+            Jump = new ProfileJump(xj, at.Upper, jump.SequentDepth, jump.EnergyLoss, jump.UpstreamFroudeNumber, jump.JumpLength,
+                jumpIterations, jumpResidual),
+        };
+    }
+
+    /// <summary>F(x) = sequent depth of the supercritical profile's depth at x minus the subcritical profile's depth at x,
+    /// x from the downstream end, and dF/dx.</summary>
+    private readonly struct JumpFunction(ChannelSection section, double flow, double length, Branch upper, Branch lower, double yc) : IDifferentiableFunction
+    {
+        /// <summary>Both profiles' depths at x (each from its own control).</summary>
+        public (double Upper, double Lower, int Iterations) At(double x)
+        {
+            double s1 = length - x;
+            var a = s1 >= upper.End ? (Depth: upper.Limit, Reached: upper.End, Iterations: 0, Converged: true) : upper.DepthAt(s1, upper.ControlDepth, 0);
+            var b = x >= lower.End ? (Depth: lower.Limit, Reached: lower.End, Iterations: 0, Converged: true) : lower.DepthAt(x, lower.ControlDepth, 0);
+            return (a.Depth, b.Depth, a.Iterations + b.Iterations);
+        }
+
+        private double Sequent(double y1)
+        {
+            if (y1 >= yc) return yc;
+            var jump = HydraulicJump.Solve(section, flow, y1);
+            return jump.Status switch
+            {
+                JumpStatus.Solved or JumpStatus.NotConverged => jump.SequentDepth,
+                JumpStatus.AboveSection => double.PositiveInfinity, // no subcritical depth in the section balances it
+                _ => yc,
+            };
+        }
+
+        public double Value(double x)
+        {
+            var (y1, y2, _) = At(x);
+            return Sequent(y1) - y2;
+        }
+
+        public (double Value, double Derivative) Evaluate(double x)
+        {
+            var (y1, y2, _) = At(x);
+            double seq = Sequent(y1);
+            if (!double.IsFinite(seq)) return (double.MaxValue, 0);
+            var g1 = section.Evaluate(y1, fromBelow: true);
+            var g2 = section.Evaluate(seq, fromBelow: true);
+            double fr1 = flow * flow * g1.TopWidth / (G * g1.Area * g1.Area * g1.Area);
+            double fr2 = flow * flow * g2.TopWidth / (G * g2.Area * g2.Area * g2.Area);
+            double dSeq = g1.Area * (1 - fr1) / (g2.Area * (1 - fr2));
+            double dy1dx = -1 / upper.DsDy(y1), dy2dx = 1 / lower.DsDy(y2);
+            return (seq - y2, dSeq * dy1dx - dy2dx);
+        }
+    }
+
+    private static CalculationWarning ReachesCritical(double yc, double at) => new("reaches-critical-depth", string.Create(CultureInfo.InvariantCulture,
+        $"The profile reaches critical depth ({yc:G6} m) {at:G6} m from the downstream end, inside the reach: the gradually-varied-flow equation does not hold beyond it (a hydraulic jump or a drop forms there), so no stations are given past it."));
+
+    /// <summary>Normal depth (NaN where there is none), critical depth and the slope's class.</summary>
+    private static (double NormalDepth, double CriticalDepth, SlopeClass SlopeClass) Classes(ChannelSection section, double flow, double slope, double manningN)
+    {
+        double yc = CriticalFlow.CriticalDepth(section, flow).CriticalDepth;
+        double yn = double.NaN;
+        if (slope > 0)
+        {
+            var normal = ManningSolver.NormalDepth(section, flow, slope, manningN);
+            if (normal.Solution != DepthSolution.None && normal.Converged) yn = normal.NormalDepth;
+        }
+        var slopeClass = slope == 0 ? SlopeClass.Horizontal : slope < 0 ? SlopeClass.Adverse
+            : double.IsNaN(yn) ? SlopeClass.Mild
+            : Math.Abs(yn - yc) <= 1e-9 * yc ? SlopeClass.Critical : yn > yc ? SlopeClass.Mild : SlopeClass.Steep;
+        return (yn, yc, slopeClass);
     }
 
     /// <summary>The usual class letters and zone numbers (Chow 1959, chapter 9, from memory).</summary>
@@ -257,6 +440,85 @@ public static class GraduallyVariedFlow
         double k = ManningSolver.Discharge(section, y, 1.0, n);
         return new ProfileStation(distance, y, v, flow * Math.Sqrt(g.TopWidth / (G * g.Area * g.Area * g.Area)),
             y + v * v / (2 * G), flow * flow / (k * k));
+    }
+
+    /// <summary>One profile from one control: where its depth tends, how far it runs before it reaches critical depth
+    /// or the section's top, and its depth at a distance from the control.</summary>
+    private sealed class Branch
+    {
+        private readonly Slope _phi;
+        private readonly double _direction;
+
+        public Branch(ChannelSection section, double flow, double slope, double manningN, double controlDepth, bool controlDownstream, double yn, double yc)
+        {
+            ControlDepth = controlDepth;
+            _phi = new Slope(section, flow, slope, manningN, controlDownstream);
+            if (!double.IsNaN(yn) && Math.Abs(controlDepth - yn) <= 1e-12 * yn)
+            {
+                // Uniform flow: the depth stays at the control's all along.
+                Uniform = true;
+                Limit = controlDepth;
+                End = double.PositiveInfinity;
+                return;
+            }
+            _direction = Math.Sign(1.0 / _phi.At(controlDepth));
+            // Where the depth tends as s grows: the nearest of yn and yc in the direction of travel, else the section's top or 0.
+            Limit = _direction > 0 ? section.MaximumDepth : 0.0;
+            foreach (double candidate in new[] { yn, yc })
+            {
+                if (double.IsNaN(candidate)) continue;
+                bool ahead = _direction > 0 ? candidate > controlDepth && candidate < Limit : candidate < controlDepth && candidate > Limit;
+                if (ahead) { Limit = candidate; LimitIsCritical = candidate == yc; }
+            }
+            // How far the profile runs before it meets critical depth or the section's top, when it tends to either.
+            End = double.PositiveInfinity;
+            if (LimitIsCritical || (!double.IsInfinity(Limit) && Limit > 0 && Limit != yn))
+                End = Integrate(_phi, controlDepth, Limit);
+        }
+
+        public double ControlDepth { get; }
+
+        /// <summary>True when the control holds normal depth: the profile is uniform.</summary>
+        public bool Uniform { get; }
+
+        /// <summary>The depth the profile tends to: normal or critical depth, the section's top (infinite when open), or 0.</summary>
+        public double Limit { get; }
+
+        /// <summary>True when the profile runs into critical depth at <see cref="End"/>.</summary>
+        public bool LimitIsCritical { get; }
+
+        /// <summary>The distance from the control at which the profile reaches critical depth or the section's top; infinite when it does not.</summary>
+        public double End { get; }
+
+        /// <summary>ds/dy at a depth.</summary>
+        public double DsDy(double y) => Uniform ? double.PositiveInfinity : _phi.At(y);
+
+        /// <summary>The depth at distance <paramref name="s"/> (below <see cref="End"/>) from the control, found from a
+        /// known point of the profile (<paramref name="yFrom"/> at <paramref name="sFrom"/>, sFrom at most s).</summary>
+        public (double Depth, double Reached, int Iterations, bool Converged) DepthAt(double s, double yFrom, double sFrom)
+        {
+            if (s == sFrom || Uniform) return (yFrom, s, 0, true);
+            // The depth where s is reached lies between the known depth and the limit; with no finite limit ahead (an H2
+            // or A2 profile rising upstream), double the step until it is passed.
+            double far = Limit;
+            if (double.IsInfinity(far) || far <= 0)
+            {
+                far = yFrom;
+                double grow = Math.Max(yFrom, 1e-3);
+                for (int j = 0; j < 200; j++)
+                {
+                    double trial = _direction > 0 ? far + grow : far / 2;
+                    if (sFrom + Integrate(_phi, yFrom, trial) >= s) { far = trial; break; }
+                    far = trial;
+                    grow *= 2;
+                }
+            }
+            var function = new Distance(_phi, yFrom, s - sFrom);
+            var bracket = _direction > 0 ? Bracket.KnownIncreasing(yFrom, far) : Bracket.KnownDecreasing(far, yFrom);
+            var root = SafeguardedNewton.Solve(function, bracket, yFrom + (far - yFrom) * 0.5, Options);
+            double y = root.Root;
+            return (y, sFrom + Integrate(_phi, yFrom, y), root.Iterations, root.Converged);
+        }
     }
 
     /// <summary>ds/dy along the integration: (1 - Fr^2)/(Sf - S0) upstream from a downstream control, its negative downstream.</summary>

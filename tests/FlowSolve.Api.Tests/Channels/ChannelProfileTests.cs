@@ -71,4 +71,109 @@ public sealed class ChannelProfileTests(ApiFixture api)
             TestContext.Current.CancellationToken);
         Assert.Equal(System.Net.HttpStatusCode.BadRequest, text.StatusCode);
     }
+
+    private static double Belanger(double y1, double q, double b)
+    {
+        // Belanger (1828): in a rectangle, y2 / y1 = (sqrt(1 + 8 Fr1^2) - 1) / 2.
+        double fr1 = q / (b * y1 * Math.Sqrt(G * y1));
+        return y1 * (Math.Sqrt(1 + 8 * fr1 * fr1) - 1) / 2;
+    }
+
+    [Fact]
+    public async Task Post_TwoControls_LocateTheJump_WithBelangersSequentDepth_AndBothProfilesAroundIt()
+    {
+        var body = new
+        {
+            section = new { shape = "rectangular", bottomWidth = 4 }, manningN = 0.015, slope = 0.0005, flow = 12, length = 300,
+            upstreamControlDepth = 0.35, downstreamControlDepth = 1.9, stations = 11,
+        };
+        var r = await api.PostJson(Profile, body);
+        Assert.Equal(200, r.Status);
+        Assert.True(r.Body.GetProperty("converged").GetBoolean());
+        // Upstream a gate's M3 (below critical depth); downstream M1 above normal depth or M2 between the two.
+        string lower = 1.9 > r.Body.GetProperty("normalDepth").GetDouble() ? "M1" : "M2";
+        Assert.Equal("M3+" + lower, r.Body.GetProperty("profileType").GetString());
+        var jump = r.Body.GetProperty("jump");
+        double xj = jump.GetProperty("distance").GetDouble(), y1 = jump.GetProperty("upstreamDepth").GetDouble();
+        double y2 = jump.GetProperty("sequentDepth").GetDouble();
+        Assert.InRange(xj, 0, 300);
+        Assert.Equal(Belanger(y1, 12, 4), y2, 1e-9 * y2);
+        double e1 = y1 + Math.Pow(12 / (4 * y1), 2) / (2 * G), e2 = y2 + Math.Pow(12 / (4 * y2), 2) / (2 * G);
+        Assert.Equal(e1 - e2, jump.GetProperty("energyLoss").GetDouble(), 1e-9 * (e1 - e2));
+        Assert.Equal(6.1 * y2, jump.GetProperty("jumpLength").GetDouble(), 1e-12 * y2);
+
+        // Each side against the single-control profile from its own end, asked at the same stations (the stations of the
+        // two-control answer, other than the jump's two rows, lie on the same grid of 11).
+        var st = r.Body.GetProperty("stations").EnumerateArray().ToArray();
+        Assert.Equal(13, st.Length);
+        var below = await api.PostJson(Profile, new
+        {
+            section = new { shape = "rectangular", bottomWidth = 4 }, manningN = 0.015, slope = 0.0005, flow = 12, length = 300,
+            controlDepth = 1.9, stations = 11,
+        });
+        var above = await api.PostJson(Profile, new
+        {
+            section = new { shape = "rectangular", bottomWidth = 4 }, manningN = 0.015, slope = 0.0005, flow = 12, length = 300,
+            controlDepth = 0.35, controlAt = "upstream", stations = 11,
+        });
+        var sub = below.Body.GetProperty("stations").EnumerateArray().ToDictionary(s => s.GetProperty("distance").GetDouble(), s => s.GetProperty("depth").GetDouble());
+        var sup = above.Body.GetProperty("stations").EnumerateArray().ToDictionary(s => s.GetProperty("distance").GetDouble(), s => s.GetProperty("depth").GetDouble());
+        foreach (var s in st)
+        {
+            double x = s.GetProperty("distance").GetDouble(), y = s.GetProperty("depth").GetDouble();
+            if (x == xj) continue;
+            double expected = x < xj ? sub[x] : sup[x];
+            Assert.Equal(expected, y, 1e-9 * expected);
+            Assert.True(x < xj ? s.GetProperty("froudeNumber").GetDouble() < 1 : s.GetProperty("froudeNumber").GetDouble() > 1);
+        }
+        var atJump = st.Where(s => s.GetProperty("distance").GetDouble() == xj).Select(s => s.GetProperty("depth").GetDouble()).ToArray();
+        Assert.Equal([y2, y1], atJump);
+
+        // The same reach in US units answers the same jump, converted exactly.
+        var us = await api.PostJson(Profile, new
+        {
+            section = new { shape = "rectangular", bottomWidth = 4 / 0.3048 }, manningN = 0.015, slope = 0.0005, flow = 12 / Math.Pow(0.3048, 3),
+            length = 300 / 0.3048, upstreamControlDepth = 0.35 / 0.3048, downstreamControlDepth = 1.9 / 0.3048, stations = 11, units = "us",
+        });
+        Assert.Equal(200, us.Status);
+        Assert.Equal(xj, us.Body.GetProperty("jump").GetProperty("distance").GetDouble() * 0.3048, 1e-8 * 300);
+        Assert.Equal(y2, us.Body.GetProperty("jump").GetProperty("sequentDepth").GetDouble() * 0.3048, 1e-9 * y2);
+    }
+
+    [Fact]
+    public async Task Get_TwoControls_WithAHighTailwater_DrownsTheJump_AndSaysSo_AndTheSheetDrawsTheLongSection()
+    {
+        const string Query = "shape=rectangular&bottomWidth=4&manningN=0.015&slope=0.0005&flow=12&length=300&upstreamControlDepth=0.35";
+        var drowned = await api.GetJson($"{Profile}?{Query}&downstreamControlDepth=4");
+        Assert.Equal(200, drowned.Status);
+        Assert.Contains(drowned.Body.GetProperty("warnings").EnumerateArray(), w => w.GetProperty("code").GetString() == "jump-drowned");
+        Assert.Equal(System.Text.Json.JsonValueKind.Null, drowned.Body.TryGetProperty("jump", out var j) ? j.ValueKind : System.Text.Json.JsonValueKind.Null);
+        // Drowned: the subcritical depth at the gate stands above the sequent depth of the gate's depth.
+        double atGate = drowned.Body.GetProperty("stations").EnumerateArray().Last().GetProperty("depth").GetDouble();
+        Assert.True(atGate > Belanger(0.35, 12, 4));
+
+        var html = await api.Client.GetAsync($"{Profile}?{Query}&downstreamControlDepth=1.9&format=html", TestContext.Current.CancellationToken);
+        Assert.Equal(System.Net.HttpStatusCode.OK, html.StatusCode);
+        string page = await html.Content.ReadAsStringAsync(TestContext.Current.CancellationToken);
+        Assert.Contains("plot-profile", page);
+        Assert.Contains("Sequent depth y2", page);
+        Assert.Contains("table-stations", page);
+    }
+
+    [Fact]
+    public async Task Two_controls_refuse_a_wrong_regime_or_a_single_controlDepth_beside_them()
+    {
+        const string Base = "shape=rectangular&bottomWidth=4&manningN=0.015&slope=0.0005&flow=12&length=300";
+        ProblemAssert.NamesField(await api.GetJson($"{Profile}?{Base}&upstreamControlDepth=1.5&downstreamControlDepth=1.9"), 400, "upstreamControlDepth");
+        ProblemAssert.NamesField(await api.GetJson($"{Profile}?{Base}&upstreamControlDepth=0.35&downstreamControlDepth=0.5"), 400, "downstreamControlDepth");
+        ProblemAssert.NamesField(await api.GetJson($"{Profile}?{Base}&upstreamControlDepth=0.35&downstreamControlDepth=1.9&controlDepth=1.9"), 400, "controlDepth");
+        ProblemAssert.NamesField(await api.GetJson($"{Profile}?{Base}&upstreamControlDepth=0.35&downstreamControlDepth=1.9&controlAt=upstream"), 400, "controlAt");
+        ProblemAssert.NamesField(await api.GetJson($"{Profile}?{Base}&upstreamControlDepth=-1&downstreamControlDepth=1.9"), 400, "upstreamControlDepth");
+        ProblemAssert.NamesField(await api.GetJson($"{Profile}?{Base}"), 400, "controlDepth");
+        // One of the two alone is the single control at that end: the same answer as controlDepth with controlAt.
+        var one = await api.GetJson($"{Profile}?{Base}&upstreamControlDepth=0.35");
+        var single = await api.GetJson($"{Profile}?{Base}&controlDepth=0.35&controlAt=upstream");
+        Assert.Equal(200, one.Status);
+        Assert.Equal(single.Body.GetProperty("stations").GetRawText(), one.Body.GetProperty("stations").GetRawText());
+    }
 }

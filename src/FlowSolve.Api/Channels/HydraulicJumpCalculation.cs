@@ -74,8 +74,11 @@ public sealed record HydraulicJumpResponse(
     double UpstreamVelocity, double DownstreamVelocity, double UpstreamSpecificEnergy, double DownstreamSpecificEnergy,
     double EnergyLoss, double MomentumFunction, double JumpLength, string Shape, string Units,
     int Iterations, bool Converged, double Residual, string Status, string Method,
-    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary
+    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary, ISensitive
 {
+    /// <summary>Present only with sensitivities=true: d(sequentDepth, energyLoss)/d(flow, upstreamDepth), SI, by implicit differentiation of the momentum equation.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+
     /// <summary>Present only with trace=true: the per-iteration record of the sequent-depth solve (solve variable: the depth y, m).</summary>
     public IReadOnlyList<TraceStepDto>? Trace { get; init; }
 }
@@ -100,10 +103,8 @@ public sealed class HydraulicJumpCalculation : Calculation<HydraulicJumpQuery, H
         "above the top of a pipe or survey answers 422. SI by default; units=us takes and returns ft, ft2, ft3/s, ft/s. Section " +
         "fields as for the normal depth (in a GET at the top level of the query). Gravity is standard gravity, 9.80665 m/s2. Not " +
         "covered: jumps on sloping aprons, forced jumps with baffles, air entrainment, and the design of stilling basins, which " +
-        "follows its own standards.\n\n" + OpenApiSetup.Cautions)
-    {
-        Options = [],
-    };
+        "follows its own standards. sensitivities=true adds d(sequentDepth, energyLoss)/d(flow, upstreamDepth) by implicit " +
+        "differentiation of the momentum equation.\n\n" + OpenApiSetup.Cautions);
 
     public override IReadOnlyList<(string Name, string Value)> QueryExample { get; } =
         [("shape", "rectangular"), ("bottomWidth", "3"), ("flow", "15"), ("upstreamDepth", "0.6")];
@@ -170,6 +171,16 @@ public sealed class HydraulicJumpCalculation : Calculation<HydraulicJumpQuery, H
         {
             Trace = TraceStepDto.From(trace),
         };
+        if (context.Sensitivities && r.Converged)
+        {
+            var d = HydraulicJump.Sensitivities(section, qSi, y1Si, r.SequentDepth);
+            var b = new SensitivityBuilder();
+            b.Add("sequentDepth", r.SequentDepth, "flow", qSi, d.SequentByFlow);
+            b.Add("sequentDepth", r.SequentDepth, "upstreamDepth", y1Si, d.SequentByUpstreamDepth);
+            b.Add("energyLoss", r.EnergyLoss, "flow", qSi, d.LossByFlow);
+            b.Add("energyLoss", r.EnergyLoss, "upstreamDepth", y1Si, d.LossByUpstreamDepth);
+            response = response with { Sensitivities = b.Build() };
+        }
         return response;
     }
 }

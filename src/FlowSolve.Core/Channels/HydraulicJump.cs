@@ -211,6 +211,32 @@ public static class HydraulicJump
         return Result(section, flow, upstreamDepth, y2, m1, root.Iterations, residual, root.Status, status, warnings);
     }
 
+    /// <summary>
+    /// Sensitivities of the sequent depth y2 and the energy loss to the flow Q and the upstream depth y1, by implicit
+    /// differentiation of M(y2, Q) - M(y1, Q) = 0 with M_y = A (1 - Fr^2) (the derivative the Newton solve used) and
+    /// M_Q = 2 Q/(g A): dy2/dy1 = M_y(y1)/M_y(y2), dy2/dQ = -(M_Q(y2) - M_Q(y1))/M_y(y2); the loss E(y1) - E(y2) with
+    /// E_y = 1 - Fr^2 and E_Q = Q/(g A^2) follows by the chain rule.
+    /// </summary>
+    /// <param name="section">The cross-section.</param>
+    /// <param name="flow">Discharge Q, m3/s.</param>
+    /// <param name="upstreamDepth">y1, m.</param>
+    /// <param name="sequentDepth">y2 as solved, m.</param>
+    public static (double SequentByFlow, double SequentByUpstreamDepth, double LossByFlow, double LossByUpstreamDepth) Sensitivities(
+        ChannelSection section, double flow, double upstreamDepth, double sequentDepth)
+    {
+        ArgumentNullException.ThrowIfNull(section);
+        var g1 = section.At(upstreamDepth);
+        var g2 = section.At(sequentDepth);
+        double fr1 = flow * flow * g1.TopWidth / (G * g1.Area * g1.Area * g1.Area);
+        double fr2 = flow * flow * g2.TopWidth / (G * g2.Area * g2.Area * g2.Area);
+        double my1 = g1.Area * (1 - fr1), my2 = g2.Area * (1 - fr2);
+        double dY2dY1 = my1 / my2;
+        double dY2dQ = -(2 * flow / G) * (1 / g2.Area - 1 / g1.Area) / my2;
+        double dLossdY1 = (1 - fr1) - (1 - fr2) * dY2dY1;
+        double dLossdQ = flow / (G * g1.Area * g1.Area) - flow / (G * g2.Area * g2.Area) - (1 - fr2) * dY2dQ;
+        return (dY2dQ, dY2dY1, dLossdQ, dLossdY1);
+    }
+
     private static double Froude(in SectionGeometry g, double flow) => flow * Math.Sqrt(g.TopWidth / (G * g.Area * g.Area * g.Area));
 
     private static HydraulicJumpResult Result(ChannelSection section, double flow, double y1, double y2, double m1, int iterations,

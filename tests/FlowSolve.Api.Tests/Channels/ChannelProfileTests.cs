@@ -176,4 +176,19 @@ public sealed class ChannelProfileTests(ApiFixture api)
         Assert.Equal(200, one.Status);
         Assert.Equal(single.Body.GetProperty("stations").GetRawText(), one.Body.GetProperty("stations").GetRawText());
     }
+
+    [Fact]
+    public async Task A_textbook_backwater_curve_behind_a_dam_in_US_units()
+    {
+        // Chow (1959), Open-Channel Hydraulics, Example 10-1 (from memory): a trapezoidal channel, b = 20 ft, z = 2,
+        // S0 = 0.0016, n = 0.025, Q = 400 ft3/s, backed up to 5 ft by a dam; the book gives yn = 3.36 ft (to its two
+        // decimals) and an M1 curve. (Its critical depth is not recalled reliably enough to assert.) The book's step
+        // method is not exact; the exact profile must rise monotonically from near normal depth upstream to the dam's 5 ft.
+        var r = await api.GetJson($"{Profile}?shape=trapezoidal&bottomWidth=20&sideSlope=2&manningN=0.025&slope=0.0016&flow=400&length=3000&controlDepth=5&units=us");
+        Assert.Equal(200, r.Status);
+        Assert.Equal(3.36, r.Body.GetProperty("normalDepth").GetDouble(), 0.005);
+        Assert.Equal("M1", r.Body.GetProperty("profileType").GetString());
+        var depths = r.Body.GetProperty("stations").EnumerateArray().Select(s => s.GetProperty("depth").GetDouble()).ToArray();
+        for (int k = 1; k < depths.Length; k++) Assert.True(depths[k] < depths[k - 1] && depths[k] > 3.36 - 0.005);
+    }
 }

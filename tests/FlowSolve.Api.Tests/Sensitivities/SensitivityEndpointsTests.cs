@@ -110,6 +110,18 @@ public sealed class SensitivityEndpointsTests(ApiFixture api)
     public Task CriticalDepth_EveryEntryMatchesCentralDifference(bool post, string json, int atLeast) =>
         Check("/v1/channels/critical-depth", post, json, atLeast);
 
+    public static TheoryData<bool, string, int> Jump => new()
+    {
+        { false, """{"shape": "rectangular", "bottomWidth": 3.0, "flow": 15.0, "upstreamDepth": 0.6}""", 4 },
+        { true, """{"section": {"shape": "trapezoidal", "bottomWidth": 2.0, "sideSlope": 1.5}, "flow": 10.0, "upstreamDepth": 0.3}""", 4 },
+        { false, """{"shape": "circular", "diameter": 1.5, "flow": 1.2, "upstreamDepth": 0.3}""", 4 },
+    };
+
+    [Theory]
+    [MemberData(nameof(Jump))]
+    public Task HydraulicJump_EveryEntryMatchesCentralDifference(bool post, string json, int atLeast) =>
+        Check("/v1/channels/hydraulic-jump", post, json, atLeast);
+
     public static TheoryData<bool, string, int> Duty => new()
     {
         { false, """{"c0": 40.0, "c1": 10.0, "c2": -5000.0, "staticHead": 15.0, "resistance": 3000.0, "speedRatio": 0.95, "kinematicViscosity": 1e-6, "density": 998.0}""", 12 },

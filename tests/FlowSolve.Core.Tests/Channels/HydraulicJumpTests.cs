@@ -129,4 +129,25 @@ public class HydraulicJumpTests
         Assert.Equal(JumpStatus.AboveSection, full.Status);
         Assert.False(full.Converged);
     }
+
+    [Theory]
+    [InlineData("rectangular", 15.0, 0.6)]
+    [InlineData("trapezoidal", 10.0, 0.3)]
+    [InlineData("circular", 1.2, 0.3)]
+    public void Sensitivities_MatchCentralDifferencesOfTheSolve(string shape, double flow, double y1)
+    {
+        ChannelSection section = shape switch
+        {
+            "rectangular" => new RectangularSection(3),
+            "trapezoidal" => new TrapezoidalSection(2, 1.5),
+            _ => new CircularSection(1.5),
+        };
+        var r = HydraulicJump.Solve(section, flow, y1);
+        Assert.True(r.Converged);
+        var d = HydraulicJump.Sensitivities(section, flow, y1, r.SequentDepth);
+        CentralDifference.Check("dy2/dQ", d.SequentByFlow, q => HydraulicJump.Solve(section, q, y1).SequentDepth, flow);
+        CentralDifference.Check("dy2/dy1", d.SequentByUpstreamDepth, y => HydraulicJump.Solve(section, flow, y).SequentDepth, y1);
+        CentralDifference.Check("dLoss/dQ", d.LossByFlow, q => HydraulicJump.Solve(section, q, y1).EnergyLoss, flow);
+        CentralDifference.Check("dLoss/dy1", d.LossByUpstreamDepth, y => HydraulicJump.Solve(section, flow, y).EnergyLoss, y1);
+    }
 }

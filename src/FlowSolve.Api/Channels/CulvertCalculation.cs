@@ -310,9 +310,9 @@ public static class CulvertSheet
         sheet.Results.Add(new("HW/D", SheetHtml.Fmt(r.HeadwaterRatio), "-", ""));
         sheet.Results.Add(new("Outlet velocity", SheetHtml.Fmt(r.OutletVelocity), vu, string.Create(C, $"at depth {r.OutletDepth:G6} {lu}")));
         sheet.Results.Add(new("Flow parameter X", SheetHtml.Fmt(r.FlowParameter), "ft^0.5/s", r.InletRegime));
-        sheet.Results.Add(new("Critical depth dc", SheetHtml.Fmt(r.CriticalDepth), lu, "capped at D"));
+        sheet.Results.Add(new("Critical depth dc", SheetHtml.Fmt(r.CriticalDepth), lu, r.CriticalDepth >= rise ? "capped at D" : ""));
         sheet.Results.Add(new("Critical head Hc", SheetHtml.Fmt(r.CriticalHead), lu, ""));
-        sheet.Results.Add(new("Normal depth", SheetHtml.Fmt(r.NormalDepth), lu, r.NormalDepth is null ? "none (flat or adverse slope, or above part-full capacity)" : ""));
+        sheet.Results.Add(new("Normal depth", r.NormalDepth is double yn ? SheetHtml.Fmt(yn) : "none", lu, r.NormalDepth is null ? "none (flat or adverse slope, or above part-full capacity)" : ""));
         sheet.Results.Add(new("Full-barrel velocity V", SheetHtml.Fmt(r.BarrelVelocity), vu, ""));
 
         string Mark(string control) => r.Control == control ? "governs" : "";

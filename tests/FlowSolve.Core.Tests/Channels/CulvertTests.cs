@@ -173,6 +173,44 @@ public class CulvertTests
     }
 
     [Fact]
+    public void SteepBarrel_UnderInletControl_WarnsOfAHighOutletVelocity_AtBrentsNormalDepth()
+    {
+        double d = 1.2, q = 3.0, s = 0.05, n = 0.012;
+        var r = Culvert.Solve(CulvertBarrel.Circular(d), 30, s, n, 0.5, SquareEdge, q, 0.2);
+        double v = q / Circle(d, CircleNormal(d, q, s, n)).A;
+        Assert.Equal(CulvertControl.Inlet, r.Control);
+        Assert.Equal(v, r.OutletVelocity, 1e-8);
+        Assert.True(v > 4.5);
+        Assert.Contains(r.Warnings, w => w.Code == "outlet-velocity-high");
+    }
+
+    [Fact]
+    public void AdverseBarrel_UnderInletControl_TakesTheOutletVelocityAtCriticalDepth_AndSaysSo()
+    {
+        // Explicit form-2 coefficients with a large K so that the inlet governs on an adverse slope.
+        var inlet = new CulvertInletCoefficients(2, 0.8, 0.667, 0.0314, 0.82, -0.5);
+        double b = 2, rise = 1.5, q = 4;
+        var r = Culvert.Solve(CulvertBarrel.Box(b, rise), 5, -0.005, 0.015, 0.2, inlet, q, 0.3);
+        Assert.Equal(CulvertControl.Inlet, r.Control);
+        Assert.True(double.IsNaN(r.NormalDepth));
+        double dc = Math.Cbrt(q * q / (b * b * G)); // rectangle, closed form
+        Assert.Equal(q / (b * dc), r.OutletVelocity, 1e-12);
+        Assert.Contains(r.Warnings, w => w.Code == "no-normal-depth");
+    }
+
+    [Fact]
+    public void PartlyFullBarrel_UnderOutletControl_BelowThreeQuartersOfTheRise_IsWarned()
+    {
+        double d = 1.0, q = 0.1, len = 100, s = 0.002;
+        var r = Culvert.Solve(CulvertBarrel.Circular(d), len, s, 0.024, 0.5, SquareEdge, q, 0.0);
+        double h0 = (CircleCritical(d, q) + d) / 2;
+        Assert.Equal(h0, r.OutletControlTailwater, 1e-10);
+        Assert.Equal(CulvertControl.Outlet, r.Control);
+        Assert.True(r.OutletControlHeadwater < 0.75 * d);
+        Assert.Contains(r.Warnings, w => w.Code == "outlet-control-partly-full");
+    }
+
+    [Fact]
     public void UsUnits_AreOnlyAChangeOfUnits()
     {
         // The same culvert stated in feet gives the same flow parameter: the exact Ku makes the answers unit-free.

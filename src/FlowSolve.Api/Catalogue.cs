@@ -30,6 +30,7 @@ public static class Catalogue
         new CriticalDepthCalculation(),
         new HydraulicJumpCalculation(),
         new ChannelProfileCalculation(),
+        new ReachProfileCalculation(),
         new DutyPointCalculation(),
         new PumpCurvesCalculation(),
         new NetworkSolveCalculation(),
@@ -78,6 +79,8 @@ public static class Catalogue
 [JsonSerializable(typeof(HydraulicJumpResponse))]
 [JsonSerializable(typeof(ChannelProfileRequest))]
 [JsonSerializable(typeof(ChannelProfileResponse))]
+[JsonSerializable(typeof(ReachProfileRequest))]
+[JsonSerializable(typeof(ReachProfileResponse))]
 [JsonSerializable(typeof(DutyPointRequest))]
 [JsonSerializable(typeof(DutyPointResponse))]
 [JsonSerializable(typeof(PumpCurvesResponse))]

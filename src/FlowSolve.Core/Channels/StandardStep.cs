@@ -30,7 +30,7 @@ public enum ReachStart
 /// <param name="FroudeNumber">Q sqrt(T/(g A^3)).</param>
 /// <param name="EnergyElevation">The energy grade line: elevation + V^2/(2g), m (energy coefficient 1).</param>
 /// <param name="FrictionSlope">Manning's friction slope (Q/K)^2, m/m (Horton-Einstein composite n where segments carry their own).</param>
-/// <param name="CriticalElevation">The lowest point plus the (lowest) critical depth, m; NaN where the section has none below its top.</param>
+/// <param name="CriticalElevation">The lowest point plus the (lowest) critical depth, m; NaN where the section has none below its top (or its solve did not converge).</param>
 /// <param name="FrictionLoss">The step's friction loss from the section before it in the computation, m: the distance times the mean of the two friction slopes; 0 at the start.</param>
 /// <param name="TransitionLoss">The step's expansion or contraction loss, m: the coefficient times the change of velocity head; 0 at the start.</param>
 /// <param name="Iterations">Newton steps of this section's energy equation (0 at the start and where critical depth was taken).</param>
@@ -138,13 +138,15 @@ public static class StandardStep
         ChannelGuard.Positive(flow, nameof(flow));
         var s = start.Section;
         double depth = startElevation - s.InvertElevation;
-        double yc = CriticalFlow.CriticalDepth(s, flow).CriticalDepth;
-        double critical = s.InvertElevation + yc;
+        var solved = CriticalFlow.CriticalDepth(s, flow);
+        // An unconverged critical depth cannot judge the regime: the start is then taken as given.
+        double yc = solved.Converged || double.IsNaN(solved.CriticalDepth) ? solved.CriticalDepth : 0.0;
+        double critical = yc > 0 ? s.InvertElevation + yc : double.NaN;
         if (!(depth > 0)) return (ReachStartProblem.BelowBed, critical);
         if (depth > s.MaximumDepth) return (ReachStartProblem.AboveSection, critical);
         if (from == ReachStart.Downstream && (double.IsNaN(yc) || depth < yc * (1 - StartCriticalTolerance)))
             return (ReachStartProblem.DownstreamStartSupercritical, critical);
-        if (from == ReachStart.Upstream && !double.IsNaN(yc) && depth > yc * (1 + StartCriticalTolerance))
+        if (from == ReachStart.Upstream && yc > 0 && depth > yc * (1 + StartCriticalTolerance))
             return (ReachStartProblem.UpstreamStartSubcritical, critical);
         return (ReachStartProblem.None, critical);
     }
@@ -249,9 +251,12 @@ public static class StandardStep
     {
         var s = reach.Section;
         double top = s.MaximumDepth;
-        double yc = CriticalFlow.CriticalDepth(s, flow).CriticalDepth;
+        var critical = CriticalFlow.CriticalDepth(s, flow);
+        double yc = critical.CriticalDepth;
         // A section that cannot pass the flow at critical depth below its top needs water above it.
         if (double.IsNaN(yc)) return new(default, double.NaN, false, true);
+        // Without a trustworthy critical depth there is no bracket of the regime: the step is reported unconverged.
+        if (!critical.Converged) return new(new RootResult(yc, 0, 0, double.NaN, yc, yc, 0, critical.Status), double.NaN, false, false);
         if (upstreamSteps && f.Value(top) < 0) return new(default, double.NaN, false, true);
 
         // Subcritical: from the top down to critical depth. Supercritical: from a depth where the residual is provably
@@ -347,7 +352,8 @@ public static class StandardStep
         var g = s.Evaluate(depth);
         double v = flow / g.Area;
         double k = g.Conveyance(reach.ManningN);
-        double yc = CriticalFlow.CriticalDepth(s, flow).CriticalDepth;
+        var critical = CriticalFlow.CriticalDepth(s, flow);
+        double yc = critical.Converged ? critical.CriticalDepth : double.NaN;
         return new ReachStation(reach.Distance, s.InvertElevation, elevation, depth, g.Area, g.TopWidth, v,
             flow * Math.Sqrt(g.TopWidth / (G * g.Area * g.Area * g.Area)), elevation + v * v / (2 * G), flow * flow / (k * k),
             s.InvertElevation + yc, frictionLoss, transitionLoss, iterations, residual, atCritical);

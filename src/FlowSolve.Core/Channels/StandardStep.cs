@@ -183,7 +183,7 @@ public static class StandardStep
 
         var stations = new ReachStation[sections.Count];
         var warnings = new List<CalculationWarning>();
-        var known = Station(sections[first], flow, startElevation, 0, 0, 0, 0, false);
+        var known = Station(sections[first], flow, CriticalDepthOf(sections[first].Section, flow), startElevation, 0, 0, 0, 0, false);
         stations[first] = known;
         int iterations = 0, done = 1;
         bool converged = true;
@@ -196,7 +196,10 @@ public static class StandardStep
             var prior = sections[upstreamSteps ? index - 1 : index + 1];
             var f = new EnergyResidual(section, known, flow, Math.Abs(section.Distance - prior.Distance),
                 unknownUpstream: upstreamSteps, expansionCoefficient, contractionCoefficient);
-            var outcome = Step(f, section, flow, upstreamSteps);
+            // One critical-depth solve per section serves the bracket and the answer.
+            var critical = CriticalFlow.CriticalDepth(section.Section, flow);
+            double yc = critical.Converged ? critical.CriticalDepth : double.NaN;
+            var outcome = Step(f, section, critical, upstreamSteps);
             if (outcome.Overtops)
             {
                 overtops = index;
@@ -207,7 +210,7 @@ public static class StandardStep
             {
                 double z = section.Section.InvertElevation + outcome.Depth;
                 var (_, hf, ho) = f.Terms(outcome.Depth);
-                station = Station(section, flow, z, hf, ho, 0, 0, true);
+                station = Station(section, flow, yc, z, hf, ho, 0, 0, true);
                 warnings.Add(new(upstreamSteps ? "no-subcritical-solution" : "no-supercritical-solution", string.Create(CultureInfo.InvariantCulture,
                     $"sections[{index}] (distance {section.Distance:G6} m): the energy equation from the section before has no {(upstreamSteps ? "subcritical" : "supercritical")} root, so critical depth ({outcome.Depth:G6} m, elevation {z:G6} m) is taken there. The flow passes through critical depth near this section (a drop, a jump or a control); the elevations next to it are estimates only.")));
             }
@@ -220,7 +223,7 @@ public static class StandardStep
                 double r = f.Evaluate(root.Root).Value;
                 residual = Math.Max(residual, Math.Abs(r));
                 var (_, hf, ho) = f.Terms(root.Root);
-                station = Station(section, flow, z, hf, ho, root.Iterations, r, false);
+                station = Station(section, flow, yc, z, hf, ho, root.Iterations, r, false);
                 if (!root.Converged)
                     warnings.Add(new("not-converged", $"sections[{index}]: the energy equation did not meet its tolerance ({root.Reason})."));
             }
@@ -247,11 +250,10 @@ public static class StandardStep
     private readonly record struct StepOutcome(RootResult Root, double Depth, bool Critical, bool Overtops);
 
     /// <summary>Brackets the root of the regime asked and solves it; or critical depth; or overtopping.</summary>
-    private static StepOutcome Step(in EnergyResidual f, ReachSection reach, double flow, bool upstreamSteps)
+    private static StepOutcome Step(in EnergyResidual f, ReachSection reach, CriticalDepthResult critical, bool upstreamSteps)
     {
         var s = reach.Section;
         double top = s.MaximumDepth;
-        var critical = CriticalFlow.CriticalDepth(s, flow);
         double yc = critical.CriticalDepth;
         // A section that cannot pass the flow at critical depth below its top needs water above it.
         if (double.IsNaN(yc)) return new(default, double.NaN, false, true);
@@ -344,7 +346,14 @@ public static class StandardStep
         return null;
     }
 
-    private static ReachStation Station(ReachSection reach, double flow, double elevation, double frictionLoss, double transitionLoss,
+    /// <summary>The (lowest) critical depth, or NaN where there is none below the top or its solve did not converge.</summary>
+    private static double CriticalDepthOf(SurveyedSection s, double flow)
+    {
+        var critical = CriticalFlow.CriticalDepth(s, flow);
+        return critical.Converged ? critical.CriticalDepth : double.NaN;
+    }
+
+    private static ReachStation Station(ReachSection reach, double flow, double yc, double elevation, double frictionLoss, double transitionLoss,
         int iterations, double residual, bool atCritical)
     {
         var s = reach.Section;
@@ -352,8 +361,6 @@ public static class StandardStep
         var g = s.Evaluate(depth);
         double v = flow / g.Area;
         double k = g.Conveyance(reach.ManningN);
-        var critical = CriticalFlow.CriticalDepth(s, flow);
-        double yc = critical.Converged ? critical.CriticalDepth : double.NaN;
         return new ReachStation(reach.Distance, s.InvertElevation, elevation, depth, g.Area, g.TopWidth, v,
             flow * Math.Sqrt(g.TopWidth / (G * g.Area * g.Area * g.Area)), elevation + v * v / (2 * G), flow * flow / (k * k),
             s.InvertElevation + yc, frictionLoss, transitionLoss, iterations, residual, atCritical);

@@ -212,7 +212,8 @@ public sealed class ReachProfileCalculation : Calculation<ReachProfileRequest, R
 
             var fields = new SectionFields("surveyed", null, null, null, null, null, s.Points);
             var section = ChannelInput.Read(fields, path + ".", units, errors, []) as SurveyedSection;
-            bool own = fields.HasOwnRoughness;
+            // Every segment (every point but the last) with its own n; null points are reported by the section reader.
+            bool own = s.Points is { Count: >= 2 } pts && pts.Take(pts.Count - 1).All(p => p?.ManningN is not null);
             composite |= s.Points?.Any(p => p?.ManningN is not null) == true;
             double n = 0;
             if (s.ManningN is null)

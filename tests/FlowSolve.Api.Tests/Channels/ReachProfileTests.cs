@@ -185,6 +185,7 @@ public sealed class ReachProfileTests(ApiFixture api)
             flow = 5, startElevation = 102,
         }, "sections[1].points[1].station");
         await Refused(new { sections = new object[] { Section(0, 100), new { distance = 100.0, points = new[] { Point(0, 103), Point(1, 100) }, manningN = 0.03 } }, flow = 5, startElevation = 102 }, "sections[1].points");
+        await Refused(new { sections = new object[] { Section(0, 100), new { distance = 100.0, points = new[] { Point(0, 103), null, Point(1, 100), Point(4, 103) } } }, flow = 5, startElevation = 102 }, "sections[1].points[1]");
         // A downstream start below critical depth: supercritical flow is controlled from upstream.
         await Refused(new { sections = new[] { Section(0, 100), Section(100, 100.1) }, flow = 12, startElevation = 100.5 }, "startElevation");
     }

@@ -133,6 +133,23 @@ public class StandardStepTests
     }
 
     [Fact]
+    public void Solve_SupercriticalIntoARaisedBed_TakesCriticalDepthWithAWarning()
+    {
+        // Supercritical flow 0.5 m deep at the upstream end (Q = 12 m3/s, 4 m rectangle) meets a section 20 m
+        // downstream whose bed stands 1.2 m higher: the energy (about 0.5 + 1.84 m above the upstream bed) is short of
+        // that bed's critical energy (1.5 yc = 1.46 m above 101.2 m), so no supercritical root; critical depth
+        // (q^2/g)^(1/3), q = 3 m2/s, is taken there.
+        const double q = 12, n = 0.015;
+        var sections = new[] { new ReachSection(0, Rectangle(4, 101.2), n), new ReachSection(20, Rectangle(4, 100), n) };
+        var p = StandardStep.Solve(sections, q, 100.5, ReachStart.Upstream);
+        var down = p.Stations[0];
+        Assert.True(down.AtCriticalDepth);
+        Assert.Equal(101.2 + Math.Cbrt(9 / G), down.Elevation, 1e-9);
+        Assert.Contains(p.Warnings, w => w.Code == "no-supercritical-solution" && w.Message.Contains("sections[0]"));
+        Assert.Equal(100.5, p.Stations[1].Elevation);
+    }
+
+    [Fact]
     public void Solve_WaterAboveTheUpstreamSurvey_StopsAtThatSection()
     {
         // 3.5 m of water downstream cannot pass into an upstream section whose walls stand 1 m high.

@@ -185,7 +185,7 @@ public static class StandardStep
         var warnings = new List<CalculationWarning>();
         var known = Station(sections[first], flow, CriticalDepthOf(sections[first].Section, flow), startElevation, 0, 0, 0, 0, false);
         stations[first] = known;
-        int iterations = 0, done = 1;
+        int iterations = 0;
         bool converged = true;
         double residual = 0;
         int? overtops = null;
@@ -229,7 +229,6 @@ public static class StandardStep
             }
             stations[index] = station;
             known = station;
-            done++;
         }
 
         IReadOnlyList<ReachStation> list = stations;

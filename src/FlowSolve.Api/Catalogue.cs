@@ -31,6 +31,7 @@ public static class Catalogue
         new HydraulicJumpCalculation(),
         new ChannelProfileCalculation(),
         new CulvertCalculation(),
+        new ReachProfileCalculation(),
         new DutyPointCalculation(),
         new PumpCurvesCalculation(),
         new NetworkSolveCalculation(),
@@ -81,6 +82,8 @@ public static class Catalogue
 [JsonSerializable(typeof(ChannelProfileResponse))]
 [JsonSerializable(typeof(CulvertRequest))]
 [JsonSerializable(typeof(CulvertResponse))]
+[JsonSerializable(typeof(ReachProfileRequest))]
+[JsonSerializable(typeof(ReachProfileResponse))]
 [JsonSerializable(typeof(DutyPointRequest))]
 [JsonSerializable(typeof(DutyPointResponse))]
 [JsonSerializable(typeof(PumpCurvesResponse))]

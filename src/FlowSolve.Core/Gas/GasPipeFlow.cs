@@ -118,9 +118,10 @@ public readonly record struct GasFlowResult(
         if (Warnings.HasFlag(GasWarnings.NearIsothermalLimit))
             list.Add(new("near-isothermal-limit", string.Format(c,
                 "The line runs near its isothermal limit: the mass flow is {0:G4} times the largest ({1:G4} kg/s) and the outlet velocity " +
-                "{2:G4} m/s is {3:G3} times the limit velocity sqrt(Z R T / M) = {4:G4} m/s (warned above 0.9 and 0.5 respectively). Near " +
-                "the limit the heat the gas must take up to stay at constant temperature grows quickly, and a real line may run closer " +
-                "to adiabatic flow, whose capacity differs (common practice): keep a margin to largestMassFlow.",
+                "{2:G4} m/s is {3:G3} times the limit velocity sqrt(Z R T / M) = {4:G4} m/s (warned above 0.9 and 0.5 respectively, " +
+                "common practice). Close to the largest flow the outlet pressure falls steeply for a small gain in flow, so a small error " +
+                "in f, Z or the temperature moves the answer a long way; and as the outlet velocity nears the limit, the heat the gas " +
+                "must take up to stay at constant temperature grows, and a real line runs closer to adiabatic flow, whose capacity differs.",
                 MassFlux / Limit.MassFlux, LargestMassFlow, OutletVelocity, OutletVelocity / Gas.LimitVelocity, Gas.LimitVelocity)));
         if (Warnings.HasFlag(GasWarnings.AtRegimeLimit))
             list.Add(new("at-regime-limit", string.Format(c,

@@ -19,10 +19,7 @@ public sealed class GasPipeFlowCalculation : Calculation<GasPipeFlowRequest, Gas
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
     public override CalculationInfo Info { get; } = new("gas/pipe-flow", "Gas", "GasPipeFlow", "result",
-        "Gas line: steady isothermal flow in a horizontal pipe", GasDocs.Description)
-    {
-        Options = [],
-    };
+        "Gas line: steady isothermal flow in a horizontal pipe", GasDocs.Description);
 
     public override IReadOnlyList<(string Name, string Value)> QueryExample { get; } =
         [("inletPressure", "5000000"), ("massFlow", "15"), ("temperature", "15"), ("specificGravity", "0.6"),
@@ -141,7 +138,30 @@ public sealed class GasPipeFlowCalculation : Calculation<GasPipeFlowRequest, Gas
             r.Validity().Select(ValidityDto.From).ToArray(), r.DescribeWarnings().Select(WarningDto.From).ToArray(), assumptions)
         {
             Trace = TraceStepDto.From(trace),
+            Sensitivities = context.Sensitivities && r.Status == GasFlowStatus.Solved ? Sensitivities(r, givenFlow, request) : null,
         };
+    }
+
+    /// <summary>d(solved output)/d(input) in SI by implicit differentiation (<see cref="GasSensitivity"/>).</summary>
+    private static IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities(in GasFlowResult r, bool outletSolved,
+        GasPipeFlowRequest request)
+    {
+        var d = GasSensitivity.Of(r, outletSolved);
+        var b = new SensitivityBuilder();
+        string output = outletSolved ? "outletPressure" : "massFlow";
+        double y = outletSolved ? r.OutletPressure : r.MassFlow;
+        b.Add(output, y, "inletPressure", r.InletPressure, d.InletPressure);
+        if (outletSolved) b.Add(output, y, "massFlow", r.MassFlow, d.Given);
+        else b.Add(output, y, "outletPressure", r.OutletPressure, d.Given);
+        b.Add(output, y, "length", r.Line.Length, d.Length);
+        b.Add(output, y, "diameter", r.Line.Diameter, d.Diameter);
+        b.Add(output, y, "roughness", r.Line.Roughness, d.Roughness);
+        b.Add(output, y, "temperature", r.Gas.Temperature, d.Temperature); // the field as given (degrees C), as the pipe answers do
+        b.Add(output, y, "dynamicViscosity", r.Gas.DynamicViscosity, d.DynamicViscosity);
+        if (request.CompressibilityFactor is not null) b.Add(output, y, "compressibilityFactor", r.Gas.CompressibilityFactor, d.CompressibilityFactor);
+        if (request.MolarMass is not null) b.Add(output, y, "molarMass", r.Gas.MolarMass, d.MolarMass);
+        else b.Add(output, y, "specificGravity", r.Gas.MolarMass / GasConstants.MolarMassOfAir, d.MolarMass * GasConstants.MolarMassOfAir);
+        return b.Build();
     }
 
     /// <summary>The 422 of a flow beyond the isothermal limit, with the largest mass flow (and its outlet pressure) in the body.</summary>

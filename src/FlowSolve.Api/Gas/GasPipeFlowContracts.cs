@@ -76,8 +76,11 @@ public sealed record GasPipeFlowResponse(
     double Reynolds, double FrictionFactor, string FrictionRelation, double RelativeRoughness, double StandardVolumeFlow,
     double? LargestMassFlow, double? OutletPressureAtLimit, double LimitVelocity, double SpeedOfSound, double MolarMass, string Units,
     int Iterations, bool Converged, double Residual, string Status, string SolveVariable, string Method,
-    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary
+    IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions) : ISolveSummary, ISensitive
 {
+    /// <summary>Present only with sensitivities=true: the solved field (outletPressure or massFlow), then each numeric input field, then {derivative, elasticity}; see the sensitivities query parameter. Derivatives in SI units whatever the request's units (per Pa, per kg/s, per m, per kelvin, per Pa s, per kg/mol); elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+
     /// <summary>Present only with trace=true: the per-iteration record of the main solve (see solveVariable).</summary>
     public IReadOnlyList<TraceStepDto>? Trace { get; init; }
 }

@@ -228,3 +228,38 @@ public class GasPipeFlowTests
         Assert.Throws<ArgumentOutOfRangeException>(() => GasPipeFlow.LargestMassFlux(Trunk, NaturalGas with { HeatCapacityRatio = 0.9 }, 5e6));
     }
 }
+
+/// <summary><see cref="GasSensitivity"/> against central differences of the same solves (the stated property of
+/// <see cref="CentralDifference"/>).</summary>
+public class GasSensitivityTests
+{
+    private static readonly GasProperties Gas = new(0.6 * 0.0289647, 15, 0.9, 1.1e-5, 1.3);
+
+    [Theory]
+    [InlineData(true, 50_000.0, 0.3, 20.0, 0.0)]       // turbulent trunk line, outlet pressure from the mass flow
+    [InlineData(false, 50_000.0, 0.3, 0.0, 3.5e6)]     // the same line, mass flow from the outlet pressure
+    [InlineData(true, 300.0, 0.05, 0.002, 0.0)]        // laminar
+    [InlineData(false, 2_000.0, 0.1, 0.0, 2.5e5)]      // a distribution main, large relative drop
+    public void Partials_MatchCentralDifferences(bool outletSolved, double length, double diameter, double massFlow, double outlet)
+    {
+        double p1 = outletSolved && length < 1000 ? 2e5 : outletSolved ? 5e6 : outlet > 1e6 ? 5e6 : 4e5;
+        var line = new GasLine(length, diameter, 4.5e-5);
+        GasFlowResult Solve(GasLine l, GasProperties g, double inlet, double given) => outletSolved
+            ? GasPipeFlow.SolveOutletPressure(l, g, inlet, given)
+            : GasPipeFlow.SolveMassFlow(l, g, inlet, given);
+        double Out(GasFlowResult r) => outletSolved ? r.OutletPressure : r.MassFlow;
+        double givenValue = outletSolved ? massFlow : outlet;
+        var r = Solve(line, Gas, p1, givenValue);
+        Assert.Equal(GasFlowStatus.Solved, r.Status);
+        var d = GasSensitivity.Of(r, outletSolved);
+        CentralDifference.Check("d/dp1", d.InletPressure, x => Out(Solve(line, Gas, x, givenValue)), p1, step: 1e-4 * p1);
+        CentralDifference.Check("d/dgiven", d.Given, x => Out(Solve(line, Gas, p1, x)), givenValue, step: 1e-4 * givenValue);
+        CentralDifference.Check("d/dL", d.Length, x => Out(Solve(line with { Length = x }, Gas, p1, givenValue)), length);
+        CentralDifference.Check("d/dD", d.Diameter, x => Out(Solve(line with { Diameter = x }, Gas, p1, givenValue)), diameter);
+        CentralDifference.Check("d/de", d.Roughness, x => Out(Solve(line with { Roughness = x }, Gas, p1, givenValue)), 4.5e-5);
+        CentralDifference.Check("d/dT", d.Temperature, x => Out(Solve(line, Gas with { Temperature = x }, p1, givenValue)), 15, step: 0.5);
+        CentralDifference.Check("d/dmu", d.DynamicViscosity, x => Out(Solve(line, Gas with { DynamicViscosity = x }, p1, givenValue)), 1.1e-5);
+        CentralDifference.Check("d/dZ", d.CompressibilityFactor, x => Out(Solve(line, Gas with { CompressibilityFactor = x }, p1, givenValue)), 0.9);
+        CentralDifference.Check("d/dM", d.MolarMass, x => Out(Solve(line, Gas with { MolarMass = x }, p1, givenValue)), Gas.MolarMass);
+    }
+}

@@ -359,7 +359,8 @@ public static class GasPipeFlow
         delta < 0.5 ? -2 * Log1P(-delta) : 2 * (Math.Log(p1) - Math.Log(p2));
 
     /// <summary>ln(1 + x) to a few ulps for small x (Goldberg 1991, "What every computer scientist should know about
-    /// floating-point arithmetic", ACM Computing Surveys 23(1), theorem 4): the BCL's LogP1 is Log(1 + x).</summary>
+    /// floating-point arithmetic", ACM Computing Surveys 23(1), theorem 4): the BCL's double.LogP1 evaluates Log(1 + x)
+    /// (it gives 0 for 1e-20), which loses the digits of a small drop.</summary>
     internal static double Log1P(double x)
     {
         double u = 1.0 + x;

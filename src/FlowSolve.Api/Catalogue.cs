@@ -5,6 +5,7 @@ using FlowSolve.Api.Check;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Networks;
 using FlowSolve.Api.Friction;
+using FlowSolve.Api.Gas;
 using FlowSolve.Api.Pipes;
 using FlowSolve.Api.Pumps;
 using FlowSolve.Api.Hosting;
@@ -35,6 +36,7 @@ public static class Catalogue
         new DutyPointCalculation(),
         new PumpCurvesCalculation(),
         new NetworkSolveCalculation(),
+        new GasPipeFlowCalculation(),
     ];
 
     /// <summary>Maps every calculation (after the generated JSON metadata is registered, so answers use it from the first).</summary>
@@ -90,4 +92,6 @@ public static class Catalogue
 [JsonSerializable(typeof(CheckResponse))]
 [JsonSerializable(typeof(NetworkSolveRequest))]
 [JsonSerializable(typeof(NetworkSolveResponse))]
+[JsonSerializable(typeof(GasPipeFlowRequest))]
+[JsonSerializable(typeof(GasPipeFlowResponse))]
 public sealed partial class ApiJsonContext : JsonSerializerContext;

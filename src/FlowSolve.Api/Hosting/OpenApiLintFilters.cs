@@ -34,6 +34,7 @@ public static class OpenApiLint
         ["Channels"] = "Open channels: normal depth by Manning's equation, and critical depth.",
         ["Check"] = "Claimed outputs of a calculation compared with the exact values, with the likely cause of a deviation.",
         ["Fluids"] = "Properties of liquid water at atmospheric pressure.",
+        ["Gas"] = "Gas lines: steady isothermal flow of a gas in a horizontal pipe, with the largest mass flow the line passes.",
         ["Friction factor"] = "The Darcy friction factor from the Reynolds number and relative roughness.",
         ["Networks"] = "Steady flows and heads of a looped pipe network with pumps, junctions and reservoirs, for one or more load cases.",
         ["Pipes"] = "Head loss, flow and diameter of a single pipe, and the tables of sizes, materials and fittings behind them.",

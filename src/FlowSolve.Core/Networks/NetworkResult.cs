@@ -11,7 +11,7 @@ namespace FlowSolve.Core.Networks;
 /// m3/s (default 1e-10 m3/s), or 8 units in the last place of |demand| plus the |Q| of its links where that is larger.
 /// The final linear solves are driven to a tenth of it.</param>
 /// <param name="MaxIterations">Cap on Newton iterations over all status passes together (default 100).</param>
-/// <param name="MaxStatusPasses">Cap on passes of the status check (check valves, pumps) after which the statuses must
+/// <param name="MaxStatusPasses">Cap on passes of the status check (check valves, pumps, control valves) after which the statuses must
 /// have settled (default 10).</param>
 /// <param name="MaxLinearIterations">Cap on conjugate-gradient iterations per Newton iteration (default 5000), for
 /// <see cref="NetworkLinearSolver.ConjugateGradient"/>; the direct solve takes at most 4 refinement steps.</param>
@@ -89,7 +89,7 @@ public enum NetworkStatus
     /// <summary>The Newton iteration cap was reached before the tolerances were met; the last iterate is reported.</summary>
     IterationCapReached,
 
-    /// <summary>The check valves and pumps kept changing status after the last permitted status pass.</summary>
+    /// <summary>The check valves, pumps and control valves kept changing status after the last permitted status pass.</summary>
     StatusesNotSettled,
 
     /// <summary>The head equations could not be solved (a non-finite value, or a failed factorisation).</summary>
@@ -148,7 +148,7 @@ public static class NetworkStatusExtensions
         NetworkStatus.PumpCannotLift => "converged, with at least one pump stopped because it cannot lift against the system",
         NetworkStatus.NoPathToFixedHead => "not solved: some junctions have no path to a reservoir",
         NetworkStatus.IterationCapReached => "stopped: the iteration cap was reached before convergence",
-        NetworkStatus.StatusesNotSettled => "stopped: check valves or pumps kept changing status",
+        NetworkStatus.StatusesNotSettled => "stopped: check valves, pumps or control valves kept changing status",
         NetworkStatus.LinearSolveFailed => "stopped: the head equations could not be solved",
         NetworkStatus.FlowsOutOfRange => "stopped: the flows left the range of the friction relations (Reynolds number above 1e15)",
         NetworkStatus.StatusCycle => "stopped: the valve states came back to a set already solved (a cycle), so the status search cannot settle",

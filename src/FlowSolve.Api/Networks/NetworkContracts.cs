@@ -108,7 +108,9 @@ public sealed record NetworkSolveRequest(
     [property: Description("How much of each load case to list: {\"detail\": \"summary\"} for the totals and extremes only, or {\"elements\": [ids]} for chosen elements; every element when omitted. Bounds the answer: the element rows times the load cases may not exceed FlowSolve:Limits:NetworkMaxElementCases.")]
     NetworkOutputInput? Output = null,
     [property: Description("How junction demands respond to pressure: {\"type\": \"pressure-driven\", \"minimumPressureHead\": 0, \"requiredPressureHead\": 20, \"exponent\": 0.5} delivers d r(p) at each junction with a positive demand (Wagner, Shamir and Marks 1988); demand-driven (every demand in full, whatever the pressure) when omitted. Each junction's answer then carries deliveredDemand, and each case totalDeliveredDemand and demandShortfall.")]
-    NetworkDemandModelInput? DemandModel = null);
+    NetworkDemandModelInput? DemandModel = null,
+    [property: Description("Control valves (id, from, to, diameter, type, setting, minorLossCoefficient): pressure-reducing, pressure-sustaining, flow-control or throttle; optional, at most 64. Each load case answers each valve's flow, headLoss and status (active, open or closed) in cases[k].valves.")]
+    IReadOnlyList<NetworkValveInput>? Valves = null);
 
 /// <summary>One pipe in a load case's answer.</summary>
 /// <param name="Id">The pipe's id.</param>
@@ -152,7 +154,7 @@ public sealed record NetworkReservoirResultDto(string Id, double Head, double Ou
 public sealed record NetworkIterationDto(int Iteration, int StatusPass, double MaxFlowChange, double MaxHeadImbalance, double MaxContinuityError, int LinearIterations);
 
 /// <summary>A warning about one element of the network, or the summary of the rest of one code's warnings.</summary>
-/// <param name="Code">Stable kebab-case code: velocity-below-design-range, velocity-above-design-range, negative-pressure, pump-cannot-lift, pump-outside-curve-range, transitional-flow (a Darcy-Weisbach pipe's Reynolds number between 2000 and 4000, where the friction factor is Churchill's 1977 interpolation, as for a single pipe), demand-shortfall (pressure-driven only: how many junctions receive less than their demand and the shortfall in all; about the whole case, without element), not-converged.</param>
+/// <param name="Code">Stable kebab-case code: velocity-below-design-range, velocity-above-design-range, negative-pressure, pump-cannot-lift, pump-outside-curve-range, transitional-flow (a Darcy-Weisbach pipe's Reynolds number between 2000 and 4000, where the friction factor is Churchill's 1977 interpolation, as for a single pipe), demand-shortfall (pressure-driven only: how many junctions receive less than their demand and the shortfall in all; about the whole case, without element), valve-state-cycle (a control valve that changed state within a cycle of the status search), not-converged.</param>
 /// <param name="Message">What it means, naming the element (figures in SI).</param>
 /// <param name="Element">The id of the pipe, pump or junction it is about; omitted for the whole case and for a summary.</param>
 /// <param name="MoreElements">Only on a summary: a load case lists at most FlowSolve:Limits:NetworkWarningsPerCode
@@ -162,11 +164,11 @@ public sealed record NetworkWarningDto(string Code, string Message, string? Elem
 
 /// <summary>The answer for one load case.</summary>
 /// <param name="DemandMultiplier">The multiplier applied to every demand.</param>
-/// <param name="Status">solved, iteration-cap-reached or statuses-not-settled (no-path-to-fixed-head, pump-cannot-lift, linear-solve-failed and flows-out-of-range answer 422).</param>
+/// <param name="Status">solved, iteration-cap-reached, statuses-not-settled or status-cycle (the control valves' states came back to a set already solved; each valve of the cycle has a valve-state-cycle warning) (no-path-to-fixed-head, pump-cannot-lift, linear-solve-failed and flows-out-of-range answer 422).</param>
 /// <param name="Reason">What the status means.</param>
 /// <param name="Converged">True when continuity and energy balance are met within the tolerances (1e-10 m3/s and 1e-10 m).</param>
 /// <param name="Iterations">Newton iterations over all status passes.</param>
-/// <param name="StatusPasses">Status passes run (1 when no check valve or pump changed state).</param>
+/// <param name="StatusPasses">Status passes run (1 when no check valve, pump or control valve changed state).</param>
 /// <param name="Pipes">Every pipe, in request order.</param>
 /// <param name="Junctions">Every junction, in request order.</param>
 /// <param name="Pumps">Every pump, in request order.</param>
@@ -178,13 +180,14 @@ public sealed record NetworkWarningDto(string Code, string Message, string? Elem
 /// <param name="Convergence">The convergence record, one row per Newton iteration.</param>
 /// <param name="Warnings">Warnings with stable codes, each naming its element; at most FlowSolve:Limits:NetworkWarningsPerCode (50 by default) of one code, then one summary of that code with moreElements.</param>
 /// <param name="Summary">The extremes of the load case over every element, whether listed or not.</param>
+/// <param name="Valves">Every control valve, in request order (or the chosen ones with output.elements; none with detail summary); present only when the request has valves.</param>
 public sealed record NetworkCaseDto(
     double DemandMultiplier, string Status, string Reason, bool Converged, int Iterations, int StatusPasses,
     IReadOnlyList<NetworkPipeResultDto> Pipes, IReadOnlyList<NetworkJunctionResultDto> Junctions,
     IReadOnlyList<NetworkPumpResultDto> Pumps, IReadOnlyList<NetworkReservoirResultDto> Reservoirs,
     double TotalDemand, double TotalSupply, double TotalDeliveredDemand, double DemandShortfall,
     IReadOnlyList<NetworkIterationDto> Convergence, IReadOnlyList<NetworkWarningDto> Warnings,
-    NetworkCaseSummaryDto Summary);
+    NetworkCaseSummaryDto Summary, IReadOnlyList<NetworkValveResultDto>? Valves = null);
 
 /// <summary>One extreme value of a load case and the element where it occurs.</summary>
 /// <param name="Element">The id of the junction or pipe.</param>
@@ -197,9 +200,10 @@ public sealed record NetworkExtremeDto(string Element, double Value);
 /// <param name="HighestVelocity">The pipe of largest mean speed |V| (m/s, or ft/s); omitted without pipes.</param>
 /// <param name="TransitionalPipes">How many open Darcy-Weisbach pipes run with a Reynolds number between 2000 and 4000 (each has a transitional-flow warning).</param>
 /// <param name="ClosedLinks">How many pipes and pumps carry no flow: closed, check valve shut, or pump off.</param>
+/// <param name="ValveStates">How many control valves are active, open and closed; present only when the request has valves.</param>
 public sealed record NetworkCaseSummaryDto(
     NetworkExtremeDto? LowestPressureHead, NetworkExtremeDto? HighestPressureHead, NetworkExtremeDto? HighestVelocity,
-    int TransitionalPipes, int ClosedLinks);
+    int TransitionalPipes, int ClosedLinks, NetworkValveStatesDto? ValveStates = null);
 
 /// <summary>The solved network: one answer per load case, with the method, units and defaults.</summary>
 /// <param name="Cases">One answer per demand multiplier, in the order given.</param>

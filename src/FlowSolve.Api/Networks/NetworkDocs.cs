@@ -34,6 +34,14 @@ public static class NetworkDocs
         "by Newton's method and reported converged only when that law and continuity hold; each junction then reports deliveredDemand " +
         "beside demand, each case totalDeliveredDemand and demandShortfall, and a demand-shortfall warning says how many junctions " +
         "receive less than their demand and how much in all. " +
+        "valves lists control valves (id, from, to, diameter, type, setting, minorLossCoefficient; the open valve's loss is " +
+        "minorLossCoefficient x V^2/2g with V from diameter): pressure-reducing (setting: the pressure head held at 'to'), " +
+        "pressure-sustaining (the pressure head held at 'from'), flow-control (the most flow passed, in the flow unit) and throttle " +
+        "(a loss coefficient K in place of minorLossCoefficient); the first three pass flow only from 'from' to 'to', and a node may " +
+        "be an end of one valve only. Each case's valves report flow, headLoss and status: active (holding its setting), open " +
+        "(cannot reach it and acts as a fitting) or closed (would pass reverse flow); the states are searched between Newton " +
+        "solves (statusPasses counts the passes), and a set of states met before ends the search as status-cycle, not converged, " +
+        "with a valve-state-cycle warning on each valve of the cycle. " +
         "Flows are positive from a pipe's 'from' node to its 'to' node. Each load case reports every pipe (flow, velocity, head " +
         "loss, friction factor, Reynolds number, status), junction (head, pressure head, demand), pump and reservoir, the supply " +
         "and demand totals, iterations, the convergence record per iteration (largest flow change, head imbalance and continuity " +

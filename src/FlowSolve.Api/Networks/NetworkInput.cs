@@ -35,7 +35,7 @@ internal static class NetworkInput
     {
         if (r.Output?.Elements is { } chosen) return chosen.Count;
         if (r.Output?.Detail is string d && d.Equals(SummaryDetail, StringComparison.OrdinalIgnoreCase)) return 0;
-        return (long)(r.Pipes?.Count ?? 0) + (r.Pumps?.Count ?? 0) + (r.Junctions?.Count ?? 0) + (r.Reservoirs?.Count ?? 0);
+        return (long)(r.Pipes?.Count ?? 0) + (r.Pumps?.Count ?? 0) + (r.Junctions?.Count ?? 0) + (r.Reservoirs?.Count ?? 0) + (r.Valves?.Count ?? 0);
     }
 
     /// <summary>The element ids named by the errors (for the problem's <c>elements</c> list).</summary>
@@ -235,6 +235,8 @@ internal static class NetworkInput
             if (ok && pump is not null) pumps.Add(pump);
         }
 
+        var valves = NetworkValveReader.Read(request.Valves, errors, u, nodeAt, linkAt);
+
         // What the answer lists.
         string detail = FullDetail;
         HashSet<string>? chosen = null;
@@ -259,7 +261,7 @@ internal static class NetworkInput
                     {
                         string? id = ids[i];
                         if (string.IsNullOrEmpty(id) || !(nodeAt.ContainsKey(id) || linkAt.ContainsKey(id)))
-                            fields.Add($"output.elements[{i}]", $"'{Short(id)}' is not the id of a pipe, pump, junction or reservoir of this network");
+                            fields.Add($"output.elements[{i}]", $"'{Short(id)}' is not the id of a pipe, pump, valve, junction or reservoir of this network");
                         else if (!chosen.Add(id))
                             fields.Add($"output.elements[{i}]", $"'{Short(id)}' is listed more than once");
                     }
@@ -269,7 +271,7 @@ internal static class NetworkInput
 
         if (errors.Any || !double.IsFinite(nu)) return null;
 
-        var model = new NetworkModel(junctions, reservoirs, pipes, pumps, nu) { DemandModel = law };
+        var model = new NetworkModel(junctions, reservoirs, pipes, pumps, nu) { DemandModel = law, Valves = valves };
         // The Core's own checks, as a backstop: they find nothing the reading above let through, but a rule added
         // there must still answer 400 naming the element rather than fail the solve.
         foreach (var issue in model.Validate())
@@ -279,6 +281,7 @@ internal static class NetworkInput
         if (darcy) method.Add("pipes with roughness by Darcy-Weisbach, hf = f (L/D) V^2/(2g), with the exact Colebrook-White friction factor (1939) from Re 4000, 64/Re below Re 2000 and Churchill's (1977) interpolation between, as for a single pipe (/v1/pipes/...), joined to the neighbouring laws by a cubic within 5 % of each limit so that the head loss has no jump, each such pipe with a transitional-flow warning; minor losses K V^2/(2g); g = 9.80665 m/s2");
         if (hazen) method.Add("pipes with hazenWilliamsC by Hazen-Williams, V = 0.849 C R^0.63 S^0.54 (SI), made linear below 1 mm/s so that its slope never vanishes (Elhay and Simpson 2011)");
         if (pumps.Count > 0) method.Add("pumps by their curves and the affinity laws, H_s(Q) = s^2 H(Q/s); a pump driven backwards stops");
+        if (valves.Count > 0) method.Add(NetworkValveReader.Method);
         if (pipes.Any(p => p.CheckValve)) method.Add("check valves close under reverse flow and reopen under forward head, re-examined between Newton solves");
         return new NetworkProblem(u, model, multipliers, string.Join("; ", method), waterCelsius, assumptions, warnings, detail, chosen);
     }
@@ -340,7 +343,7 @@ internal static class NetworkInput
         return new PressureDrivenDemand(minSi, reqSi, e);
     }
 
-    private static double Length(FieldErrors e, string field, double? value, PumpUnits u, string unit)
+    internal static double Length(FieldErrors e, string field, double? value, PumpUnits u, string unit)
     {
         double v = e.Required(field, value, 0, double.PositiveInfinity, minExclusive: true, unit: unit);
         double si = u.HeadToSi(v);
@@ -356,7 +359,7 @@ internal static class NetworkInput
     }
 
     /// <summary>Checks an id: present, not too long, unique among the nodes (or the links).</summary>
-    private static bool Id(Errors errors, string at, string label, string? id, string kind, Dictionary<string, string> seen)
+    internal static bool Id(Errors errors, string at, string label, string? id, string kind, Dictionary<string, string> seen)
     {
         if (string.IsNullOrEmpty(id))
         {
@@ -379,7 +382,7 @@ internal static class NetworkInput
     }
 
     /// <summary>Checks a link's ends: both named nodes, and not the same node.</summary>
-    private static bool Ends(Errors errors, string at, string label, string? id, string? from, string? to, Dictionary<string, string> nodes)
+    internal static bool Ends(Errors errors, string at, string label, string? id, string? from, string? to, Dictionary<string, string> nodes)
     {
         bool ok = true;
         foreach (var (field, node, end) in new[] { (".from", from, "from"), (".to", to, "to") })
@@ -404,6 +407,7 @@ internal static class NetworkInput
         if ((k = Index(r.Reservoirs, x => x?.Id, id)) >= 0) return $"reservoirs[{k}]";
         if ((k = Index(r.Pipes, x => x?.Id, id)) >= 0) return $"pipes[{k}]";
         if ((k = Index(r.Pumps, x => x?.Id, id)) >= 0) return $"pumps[{k}]";
+        if ((k = Index(r.Valves, x => x?.Id, id)) >= 0) return $"valves[{k}]";
         return "network";
     }
 

@@ -52,6 +52,9 @@ public static class NetworkSheet
                     sheet.Results.Add(new($"{tag}: highest velocity", F(fastest.Value), vu, $"in pipe '{fastest.Element}'"));
                 if (k.Summary.TransitionalPipes > 0)
                     sheet.Results.Add(new($"{tag}: pipes in the transition zone", k.Summary.TransitionalPipes.ToString(C), "", "Reynolds number 2000 to 4000: friction factor by Churchill (1977), as for a single pipe"));
+                if (k.Summary.ValveStates is { } vs)
+                    sheet.Results.Add(new($"{tag}: control valves", string.Create(C, $"{vs.Active} active, {vs.Open} open, {vs.Closed} closed"), "",
+                        "active: holding its setting; open: cannot reach it, acts as a fitting; closed: would pass reverse flow"));
                 sheet.Results.Add(new($"{tag}: iterations", k.Iterations.ToString(C), "", $"{k.StatusPasses} status pass(es); converged: {(k.Converged ? "yes" : "no")}"));
             }
             if (r.Detail == "summary")
@@ -75,6 +78,13 @@ public static class NetworkSheet
                 if (k.Pumps.Count > 0)
                     sheet.Tables.Add(Table($"pumps-{c + 1}", $"Pumps, {tag}", ["Pump", $"Flow ({qu})", $"Head added ({hu})", "Status"],
                         k.Pumps.Select(p => new[] { p.Id, F(p.Flow), F(p.Head), p.Status })));
+                if (k.Valves is { Count: > 0 } valveRows)
+                {
+                    var given = (request.Valves ?? []).Where(v => v?.Id is not null).GroupBy(v => v!.Id!, StringComparer.Ordinal).ToDictionary(g => g.Key, g => g.First()!, StringComparer.Ordinal);
+                    sheet.Tables.Add(Table($"valves-{c + 1}", $"Control valves, {tag}", ["Valve", "Type", "Setting", $"Flow ({qu})", $"Head loss ({hu})", "Status"],
+                        valveRows.Select(v => new[] { v.Id, given.TryGetValue(v.Id, out var g) ? g.Type ?? "" : "", given.TryGetValue(v.Id, out var h) ? Setting(h, r) : "", F(v.Flow), F(v.HeadLoss), v.Status }),
+                        "Head loss is the head at 'from' minus the head at 'to': the open valve's loss, plus the throttling of an active one; for a closed valve the head held across it. Status: active (holding its setting), open (cannot reach its setting and acts as a fitting), closed (would pass reverse flow)."));
+                }
                 sheet.Tables.Add(Table($"reservoirs-{c + 1}", $"Reservoirs, {tag}", ["Reservoir", $"Head ({hu})", $"Outflow ({qu})"],
                     k.Reservoirs.Select(x => new[] { x.Id, F(x.Head), F(x.Outflow) })));
             }
@@ -133,6 +143,8 @@ public static class NetworkSheet
         sheet.Inputs.Add(new("Reservoirs", reservoirs.Count.ToString(C), "", "nodes of fixed head"));
         sheet.Inputs.Add(new("Pipes", pipes.Count.ToString(C), "", pipes.Count(p => p.HazenWilliamsC is not null).ToString(C) + " by Hazen-Williams, the rest by Darcy-Weisbach"));
         sheet.Inputs.Add(new("Pumps", pumps.Count.ToString(C), "", ""));
+        var valves = q.Valves ?? [];
+        if (valves.Count > 0) sheet.Inputs.Add(new("Control valves", valves.Count.ToString(C), "", "pressure-reducing, pressure-sustaining, flow-control or throttle"));
         sheet.Inputs.Add(new("Demand multipliers", string.Join(", ", r.Cases.Select(k => k.DemandMultiplier.ToString("G6", C))), "-",
             q.DemandMultipliers is null ? "default: one load case" : "one load case each"));
         if (q.KinematicViscosity is not null)
@@ -166,6 +178,11 @@ public static class NetworkSheet
             .Concat(pumps.Select(p => new[]
             {
                 p.Id ?? "", "pump", p.From ?? "", p.To ?? "", "", "", PumpCurve(p), "speed ratio " + (p.SpeedRatio ?? 1).ToString("G6", C),
+            }))
+            .Concat(valves.Where(v => v is not null).Select(v => new[]
+            {
+                v.Id ?? "", "valve, " + (v.Type ?? ""), v.From ?? "", v.To ?? "", "", F(v.Diameter ?? double.NaN), "setting " + Setting(v, r),
+                F(v.MinorLossCoefficient ?? v.Setting ?? double.NaN),
             }));
         sheet.Tables.Add(Table("links", "Links", ["Link", "Kind", "From", "To", $"Length ({hu})", $"Diameter ({hu})", "Roughness or C; pump curve", "K; pump speed"], links, inputs: true));
     }
@@ -175,6 +192,18 @@ public static class NetworkSheet
         if (p.Curve?.Coefficients is { } c) return "H = " + string.Join(" + ", c.Select((v, i) => v.ToString("G6", C) + (i == 0 ? "" : i == 1 ? " Q" : $" Q^{i}")));
         if (p.Curve?.Points is { } pts) return pts.Count.ToString(C) + " catalogue points, " + (p.Curve.CurveDegree ?? "quadratic") + " fit";
         return "";
+    }
+
+    /// <summary>A valve's setting with its unit, as given in the request.</summary>
+    private static string Setting(NetworkValveInput v, NetworkSolveResponse r)
+    {
+        string value = F(v.Setting ?? double.NaN);
+        return (v.Type ?? "").ToLowerInvariant() switch
+        {
+            NetworkValveReader.PressureReducing or NetworkValveReader.PressureSustaining => value + " " + r.HeadUnit + " pressure head",
+            NetworkValveReader.FlowControl => value + " " + r.FlowUnit,
+            _ => "K " + value,
+        };
     }
 
     private static string Coord(double? x, double? y) => x is double a && y is double b ? a.ToString("G6", C) + ", " + b.ToString("G6", C) : "";
@@ -209,6 +238,10 @@ public static class NetworkSheet
             sheet.Methods.Add(new("Pressure-driven demand",
                 "q = d r(p), r = 0 for p <= min, ((p - min)/(req - min))^e between, 1 for p >= req; an inflow in full. Each junction with a positive demand is solved by its position u = s + x along the law's graph (s the scaled pressure, x = q/d), linearised along its tangent as a link to the level z + min on the junction's diagonal of the head equations; after five full steps each Newton step is safeguarded by a backtracking line search; converged only when the exact law and continuity hold at every junction",
                 "Wagner, J. M., Shamir, U. and Marks, D. H. (1988), J. Water Resour. Plann. Manage. 114(3), 276-294; gradient formulation: Todini (2003), Giustolisi, Savic and Kapelan (2008), J. Hydraul. Eng. 134(5); one solution: Elhay, Piller, Deuerlein and Simpson (2016), J. Water Resour. Plann. Manage. 142(2); all from memory"));
+        if ((q.Valves ?? []).Count > 0)
+            sheet.Methods.Add(new("Control valves",
+                "open: a fitting, K V^2/(2g) on the valve's bore; active: a pressure-reducing valve holds head - elevation at its 'to' junction at the setting, a pressure-sustaining valve at its 'from' junction, a flow-control valve passes the setting; closed: no flow; a throttle is a fitting of K = setting either way. The held junction leaves the head equations like a reservoir and the valve's flow, by continuity there, enters each Newton step as a rank-one term solved with the same Cholesky factor; the states are re-examined between Newton solves until they settle, and a set of states met before ends the search as not converged (status-cycle)",
+                "states and their rules: common practice; the rank-one correction: Sherman and Morrison (1950), Woodbury (1950), from memory"));
         if (pipes.Any(p => p.CheckValve == true))
             sheet.Methods.Add(new("Check valves", "closed under reverse flow, reopened under forward head; statuses re-examined between Newton solves until they settle", "common practice"));
     }
@@ -249,6 +282,14 @@ public static class NetworkSheet
             bool off = listedPumps.TryGetValue(p.Id!, out var pr) ? pr.Status != "open" : (p.SpeedRatio ?? 1) == 0;
             plot.Segment(p.Id!, a.X, a.Y, b.X, b.Y, p.Id + " (pump)", role: "pump", dashed: true, grey: off);
         }
+        var listedValves = (k.Valves ?? []).ToDictionary(v => v.Id, StringComparer.Ordinal);
+        foreach (var v in q.Valves ?? [])
+        {
+            if (v?.Id is null || v.From is null || v.To is null || !at.ContainsKey(v.From) || !at.ContainsKey(v.To)) continue;
+            var (a, b) = (at[v.From], at[v.To]);
+            bool shut = listedValves.TryGetValue(v.Id, out var vr) && vr.Status == "closed";
+            plot.Segment(v.Id, a.X, a.Y, b.X, b.Y, v.Id + (vr is null ? " (valve)" : " (valve, " + vr.Status + ")"), role: "valve", dashed: true, grey: shut);
+        }
         foreach (var v in q.Reservoirs ?? []) plot.Square(v.Id!, v.X!.Value, v.Y!.Value, v.Id!);
         string? lowest = k.Summary.LowestPressureHead?.Element;
         foreach (var j in q.Junctions ?? [])
@@ -267,7 +308,7 @@ public static class NetworkSheet
             plot.Marker(v.Id!, v.X!.Value, v.Y!.Value, "", role: "case");
         }
         return new SheetFigure("schematic", plot.Render(), string.Create(C,
-            $"The network drawn from the node coordinates (equal scale); each pipe is labelled with its flow in {r.FlowUnit} in {Tag(design, k)}, positive from its 'from' node to its 'to' node{(r.Detail == "full" ? "" : " (only the pipes the answer lists carry a flow)")}. Squares are reservoirs, dashed lines pumps, grey lines closed links; the junction of lowest pressure head is marked in the accent colour."));
+            $"The network drawn from the node coordinates (equal scale); each pipe is labelled with its flow in {r.FlowUnit} in {Tag(design, k)}, positive from its 'from' node to its 'to' node{(r.Detail == "full" ? "" : " (only the pipes the answer lists carry a flow)")}. Squares are reservoirs, dashed lines pumps and control valves (labelled with their state), grey lines closed links; the junction of lowest pressure head is marked in the accent colour."));
     }
 
     /// <summary>The three convergence measures per iteration on a log scale for the slowest load case, the head

@@ -249,6 +249,21 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
         var reservoirs = new List<NetworkReservoirResultDto>();
         foreach (var x in r.Reservoirs)
             if (Listed(x.Id)) reservoirs.Add(new(x.Id, u.Head(x.Head), u.Flow(x.Outflow)));
+        List<NetworkValveResultDto>? valves = null;
+        NetworkValveStatesDto? valveStates = null;
+        if (model.Valves.Count > 0)
+        {
+            valves = [];
+            int active = 0, open = 0, shut = 0;
+            foreach (var v in r.Valves)
+            {
+                if (v.State == ValveState.Active) active++;
+                else if (v.State == ValveState.Open) open++;
+                else shut++;
+                if (Listed(v.Id)) valves.Add(new(v.Id, u.Flow(v.Flow), u.Head(v.HeadLoss), v.State.Code()));
+            }
+            valveStates = new NetworkValveStatesDto(active, open, shut);
+        }
         var record = r.Record.Select(t => new NetworkIterationDto(t.Iteration, t.StatusPass, u.Flow(t.MaxFlowChange),
             u.Head(t.MaxHeadImbalance), u.Flow(t.MaxContinuityError), t.LinearIterations)).ToArray();
         var warnings = new List<NetworkWarningDto>();
@@ -260,7 +275,7 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
             pipes, junctions, pumps, reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply),
             u.Flow(r.TotalDeliveredDemand), u.Flow(r.DemandShortfall), record,
             CapPerCode(warnings, warningsPerCode, c + 1),
-            new NetworkCaseSummaryDto(lowest, highest, fastest, transitional, closed));
+            new NetworkCaseSummaryDto(lowest, highest, fastest, transitional, closed, valveStates), valves);
     }
 
     /// <summary>At most <paramref name="cap"/> warnings of each code, in their order; in place of the first one over the
@@ -368,6 +383,8 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
                 if (!double.IsFinite(p.Flow) || !double.IsFinite(p.Head)) return false;
             foreach (var x in c.Reservoirs)
                 if (!double.IsFinite(x.Outflow)) return false;
+            foreach (var v in c.Valves ?? [])
+                if (!double.IsFinite(v.Flow) || !double.IsFinite(v.HeadLoss)) return false;
             foreach (var e in new[] { c.Summary.LowestPressureHead, c.Summary.HighestPressureHead, c.Summary.HighestVelocity })
                 if (e is not null && !double.IsFinite(e.Value)) return false;
             foreach (var t in c.Convergence)

@@ -46,7 +46,8 @@ public sealed record NetworkPump(string Id, string From, string To, PumpCurve Cu
 /// <param name="Code">Stable kebab-case code: <c>empty-id</c>, <c>duplicate-id</c>, <c>unknown-node</c>, <c>self-loop</c>,
 /// <c>non-positive-length</c>, <c>non-positive-diameter</c>, <c>bad-roughness</c>, <c>bad-hazen-williams-c</c>,
 /// <c>bad-minor-loss</c>, <c>non-finite-value</c>, <c>bad-speed-ratio</c>, <c>missing-pump-curve</c>, <c>bad-viscosity</c>,
-/// <c>bad-demand-model</c>.</param>
+/// <c>bad-demand-model</c>; for valves also <c>too-many-valves</c>, <c>shared-valve-node</c>, <c>bad-valve-type</c>,
+/// <c>bad-valve-setting</c>, <c>controlled-node-not-junction</c>.</param>
 /// <param name="Message">A sentence for people that names the element.</param>
 public readonly record struct NetworkIssue(string ElementId, string Code, string Message);
 
@@ -78,6 +79,10 @@ public sealed record NetworkModel(
     /// junction receives its whole demand whatever its pressure; a <see cref="PressureDrivenDemand"/> law for
     /// pressure-driven demand, where a junction with a positive demand receives only what its pressure head allows.</summary>
     public PressureDrivenDemand? DemandModel { get; init; }
+
+    /// <summary>Control valves (pressure-reducing, pressure-sustaining, flow-control, throttle); empty by default. Their
+    /// ids share the links' namespace; see <see cref="ControlValve"/> for the rules on their nodes.</summary>
+    public IReadOnlyList<ControlValve> Valves { get; init; } = [];
 
     /// <summary>Checks the model and lists every problem, each naming the offending element by id (allocates).</summary>
     /// <returns>An empty list for a valid model.</returns>
@@ -147,6 +152,7 @@ public sealed record NetworkModel(
             if (!(p.SpeedRatio >= 0 && p.SpeedRatio <= PumpArrangement.MaximumSpeedRatio))
                 issues.Add(new(id, "bad-speed-ratio", string.Format(c, "pump '{0}': speedRatio {1} must lie in [0, {2}]", id, p.SpeedRatio, PumpArrangement.MaximumSpeedRatio)));
         }
+        ControlValve.ValidateAll(this, nodes, links, issues);
         return issues;
     }
 }

@@ -11,7 +11,7 @@ namespace FlowSolve.Core.Networks;
 /// m3/s (default 1e-10 m3/s), or 8 units in the last place of |demand| plus the |Q| of its links where that is larger.
 /// The final linear solves are driven to a tenth of it.</param>
 /// <param name="MaxIterations">Cap on Newton iterations over all status passes together (default 100).</param>
-/// <param name="MaxStatusPasses">Cap on passes of the status check (check valves, pumps) after which the statuses must
+/// <param name="MaxStatusPasses">Cap on passes of the status check (check valves, pumps, control valves) after which the statuses must
 /// have settled (default 10).</param>
 /// <param name="MaxLinearIterations">Cap on conjugate-gradient iterations per Newton iteration (default 5000), for
 /// <see cref="NetworkLinearSolver.ConjugateGradient"/>; the direct solve takes at most 4 refinement steps.</param>
@@ -89,7 +89,7 @@ public enum NetworkStatus
     /// <summary>The Newton iteration cap was reached before the tolerances were met; the last iterate is reported.</summary>
     IterationCapReached,
 
-    /// <summary>The check valves and pumps kept changing status after the last permitted status pass.</summary>
+    /// <summary>The check valves, pumps and control valves kept changing status after the last permitted status pass.</summary>
     StatusesNotSettled,
 
     /// <summary>The head equations could not be solved (a non-finite value, or a failed factorisation).</summary>
@@ -99,6 +99,11 @@ public enum NetworkStatus
     /// (<see cref="Friction.DarcyFriction.MaximumReynolds"/>), so there is no answer within it (demands absurd for the pipe
     /// sizes and viscosity, most often a misplaced unit or exponent). The last iterate is reported.</summary>
     FlowsOutOfRange,
+
+    /// <summary>Stopped: the status search of a network with control valves came back to a set of valve, check-valve and
+    /// pump states it had already solved, so it would cycle for ever; the valves that changed within the cycle carry a
+    /// <see cref="NetworkWarningCode.ValveStateCycle"/> warning. The last iterate is reported.</summary>
+    StatusCycle,
 }
 
 /// <summary>The state of one link (pipe or pump) in a result.</summary>
@@ -131,6 +136,7 @@ public static class NetworkStatusExtensions
         NetworkStatus.StatusesNotSettled => "statuses-not-settled",
         NetworkStatus.LinearSolveFailed => "linear-solve-failed",
         NetworkStatus.FlowsOutOfRange => "flows-out-of-range",
+        NetworkStatus.StatusCycle => "status-cycle",
         _ => "unknown",
     };
 
@@ -142,9 +148,10 @@ public static class NetworkStatusExtensions
         NetworkStatus.PumpCannotLift => "converged, with at least one pump stopped because it cannot lift against the system",
         NetworkStatus.NoPathToFixedHead => "not solved: some junctions have no path to a reservoir",
         NetworkStatus.IterationCapReached => "stopped: the iteration cap was reached before convergence",
-        NetworkStatus.StatusesNotSettled => "stopped: check valves or pumps kept changing status",
+        NetworkStatus.StatusesNotSettled => "stopped: check valves, pumps or control valves kept changing status",
         NetworkStatus.LinearSolveFailed => "stopped: the head equations could not be solved",
         NetworkStatus.FlowsOutOfRange => "stopped: the flows left the range of the friction relations (Reynolds number above 1e15)",
+        NetworkStatus.StatusCycle => "stopped: the valve states came back to a set already solved (a cycle), so the status search cannot settle",
         _ => "unknown",
     };
 
@@ -174,6 +181,7 @@ public static class NetworkStatusExtensions
         NetworkWarningCode.PumpOutsideCurveRange => "pump-outside-curve-range",
         NetworkWarningCode.TransitionalFlow => "transitional-flow",
         NetworkWarningCode.DemandShortfall => "demand-shortfall",
+        NetworkWarningCode.ValveStateCycle => "valve-state-cycle",
         _ => "unknown",
     };
 }
@@ -206,6 +214,10 @@ public enum NetworkWarningCode
     /// receive less than their demand (value: the shortfall, requested minus delivered, summed over the junctions, in
     /// m3/s). About the whole case: the element id is empty.</summary>
     DemandShortfall,
+
+    /// <summary>A control valve changed state within a cycle of the status search (<see cref="NetworkStatus.StatusCycle"/>;
+    /// value: the number of status passes run).</summary>
+    ValveStateCycle,
 }
 
 /// <summary>A warning on one element; cheap to hold (no message until <see cref="Describe"/> is called).</summary>
@@ -248,6 +260,9 @@ public readonly record struct NetworkWarning(string ElementId, NetworkWarningCod
                 "{0} junction{1} receive{2} less than {3} demand under pressure-driven demand: {4:G4} m3/s in all is not delivered "
                 + "(requested minus delivered; see each junction's deliveredDemand).",
                 Count, Count == 1 ? "" : "s", Count == 1 ? "s" : "", Count == 1 ? "its" : "their", Value),
+            NetworkWarningCode.ValveStateCycle => string.Format(c,
+                "Valve '{0}' changed state within a cycle of the status search ({1:G4} passes): the valve states came back to a set already solved, so no consistent set was found and the case is not converged. Check the settings of the valves named for conflicts (a pressure-reducing valve set above the head that reaches it, valves in series fighting each other).",
+                ElementId, Value),
             NetworkWarningCode.PumpCannotLift => string.Format(c,
                 "Pump '{0}' is off: the head of {1:G4} m across it exceeds its shut-off head at its speed.", ElementId, Value),
             NetworkWarningCode.PumpOutsideCurveRange => string.Format(c,
@@ -397,6 +412,18 @@ public sealed class NetworkResult
 
     /// <summary>The pressure-driven demand law of the solve, or null for demand-driven.</summary>
     public PressureDrivenDemand? DemandModel { get; init; }
+
+    /// <summary>Control valves in model order (empty without valves).</summary>
+    public IReadOnlyList<ValveResult> Valves { get; init; } = [];
+
+    /// <summary>The control valve with this id.</summary>
+    /// <param name="id">A valve id of the model.</param>
+    /// <exception cref="KeyNotFoundException">No valve has this id.</exception>
+    public ValveResult Valve(string id)
+    {
+        foreach (var v in Valves) if (v.Id == id) return v;
+        throw new KeyNotFoundException($"no valve '{id}'");
+    }
 
     /// <summary>One row per Newton iteration.</summary>
     public IReadOnlyList<NetworkIteration> Record { get; }

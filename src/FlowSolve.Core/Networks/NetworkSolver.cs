@@ -69,7 +69,7 @@ namespace FlowSolve.Core.Networks;
 /// <para>An instance keeps its state between solves (warm start) and is not thread-safe; the static methods create
 /// their own instance. The results are engineering estimates to be checked by a qualified engineer.</para>
 /// </remarks>
-public sealed class NetworkSolver
+public sealed partial class NetworkSolver
 {
     private const double ClosedConductance = 1e-14;
     private const double InitialVelocity = 0.3; // m/s, a usual start for the global gradient algorithm (common practice)
@@ -78,11 +78,11 @@ public sealed class NetworkSolver
     // design maximum, so a well-posed network never meets the limit after its first steps (a FlowSolve choice).
     private const double StepVelocity = 30;
 
-    private enum Kind : byte { Darcy, Hazen, Pump }
+    private enum Kind : byte { Darcy, Hazen, Pump, Valve }
 
     private readonly NetworkModel _model;
     private readonly NetworkOptions _options;
-    private readonly int _junctions, _reservoirs, _pipes, _links;
+    private readonly int _junctions, _reservoirs, _pipes, _pumpEnd, _links; // links: pipes, then pumps up to _pumpEnd, then valves
 
     private readonly int[] _from, _to;
     private readonly Kind[] _kind;
@@ -150,7 +150,8 @@ public sealed class NetworkSolver
         _junctions = model.Junctions.Count;
         _reservoirs = model.Reservoirs.Count;
         _pipes = model.Pipes.Count;
-        _links = _pipes + model.Pumps.Count;
+        _pumpEnd = _pipes + model.Pumps.Count;
+        _links = _pumpEnd + model.Valves.Count;
         int nodes = _junctions + _reservoirs;
 
         var nodeIndex = new Dictionary<string, int>(nodes, StringComparer.Ordinal);
@@ -239,6 +240,7 @@ public sealed class NetworkSolver
             _stepLimit[l] = Math.Max(p.SpeedRatio, 1e-3) * qRef;
         }
         _linkIndex = linkIndex;
+        _valveOf = PrepareValves(model, Node);
 
         _flow = new double[_links];
         _headLoss = new double[_links];
@@ -277,10 +279,11 @@ public sealed class NetworkSolver
             _direct = new SparseCholesky(rowStart, columns);
         _residual = _direct is null ? [] : new double[_junctions];
         (_diagFrom, _diagTo, _offFromTo, _offToFrom) = EntryPositions(rowStart, columns);
-        _diagJunction = new int[pdd ? _junctions : 0];
+        _diagJunction = new int[pdd || _valveOf.Length > 0 ? _junctions : 0];
         for (int j = 0; j < _diagJunction.Length; j++)
             _diagJunction[j] = Array.BinarySearch(columns, rowStart[j], rowStart[j + 1] - rowStart[j], j);
         _unsupplied = FindUnsupplied();
+        PrepareValveNeighbours();
         Reset();
     }
 
@@ -330,12 +333,18 @@ public sealed class NetworkSolver
                 _status[l] = _speed[l] > 0 ? LinkStatus.Open : LinkStatus.PumpOff;
                 _flow[l] = _status[l] == LinkStatus.Open ? 0.5 * _speed[l] * (_curve[l].ZeroHeadFlow ?? _curve[l].SearchLimit) : 0;
             }
+            else if (_kind[l] == Kind.Valve)
+            {
+                _status[l] = LinkStatus.Open;
+                _flow[l] = InitialVelocity * _area[l];
+            }
             else
             {
                 _status[l] = _model.Pipes[l].Closed ? LinkStatus.Closed : LinkStatus.Open;
                 _flow[l] = _status[l] == LinkStatus.Open ? InitialVelocity * _area[l] : 0;
             }
         }
+        ResetValves();
         _warm = false;
     }
 
@@ -357,17 +366,20 @@ public sealed class NetworkSolver
         var record = new List<NetworkIteration>();
         var status = NetworkStatus.StatusesNotSettled;
         int pass = 0;
+        var seen = _valveOf.Length > 0 ? new List<byte[]> { StateSnapshot() } : null;
+        _cycle = [];
         while (pass < _options.MaxStatusPasses)
         {
             pass++;
             var newton = Newton(pass, record);
             if (newton != NetworkStatus.Solved) { status = newton; break; }
             if (UpdateStatuses() == 0) { status = NetworkStatus.Solved; break; }
+            if (seen is not null && SeenBefore(seen)) { status = NetworkStatus.StatusCycle; break; }
         }
         bool converged = status == NetworkStatus.Solved;
         if (converged)
         {
-            for (int l = _pipes; l < _links; l++)
+            for (int l = _pipes; l < _pumpEnd; l++)
                 if (_status[l] == LinkStatus.PumpOff && _speed[l] > 0) { status = NetworkStatus.PumpCannotLift; break; }
         }
         // Report the final iterate first; a failed solve then leaves the default start for the next one.
@@ -564,6 +576,9 @@ public sealed class NetworkSolver
                 case Kind.Hazen:
                     (_headLoss[l], _slope[l]) = HazenLoss(l, q);
                     break;
+                case Kind.Valve:
+                    (_headLoss[l], _slope[l]) = ValveLoss(l, q);
+                    break;
                 default:
                 {
                     double s = _speed[l], x = q / s;
@@ -730,6 +745,14 @@ public sealed class NetworkSolver
             if (_law is not null && _status[l] != LinkStatus.Open) ce = 0;
             int f = _from[l], t = _to[l];
             bool fj = f < _junctions, tj = t < _junctions;
+            if (_valveOf.Length > 0)
+            {
+                // A junction whose head an active valve holds is a fixed head for this step, like a reservoir; an active
+                // valve's own flow follows from continuity (or its setting), not from a conductance.
+                if (fj && _fixedHead[f]) fj = false;
+                if (tj && _fixedHead[t]) tj = false;
+                if (_kind[l] == Kind.Valve && _valveState[_valveOf[l]] == ValveState.Active && _status[l] != LinkStatus.Open) ce = 0;
+            }
             if (fj) { _rhs[f] -= ce; values[_diagFrom[l]] += c; }
             if (tj) { _rhs[t] += ce; values[_diagTo[l]] += c; }
             if (fj && tj) { values[_offFromTo[l]] -= c; values[_offToFrom[l]] -= c; }
@@ -740,13 +763,14 @@ public sealed class NetworkSolver
             // fixed level z + min.
             for (int j = 0; j < _junctions; j++)
             {
-                if (!_onLaw[j]) continue;
+                if (!_onLaw[j] || (_valveOf.Length > 0 && _fixedHead[j])) continue;
                 double c = _outletConductance[j];
                 _rhs[j] -= c * _outletImbalance[j];
                 values[_diagJunction[j]] += c;
             }
             _startMerit = Merit(); // the conductances just set are the line search's weights
         }
+        if (_valveOf.Length > 0) AssembleValves(values);
         if (_direct is null)
         {
             if (!_iterative!.Factorise()) return false;
@@ -756,6 +780,7 @@ public sealed class NetworkSolver
             if (!double.IsFinite(residual)) return false;
         }
         else if (!SolveDirect(linearTolerance, out linearIterations)) return false;
+        if (_valveOf.Length > 0 && !CorrectForValves(linearTolerance, ref linearIterations)) return false;
         // The Newton flows into _y, and the step length: a step that would move a link's flow by more than its limit is
         // shortened, flows and heads alike, so that no iterate runs away (a pump near shut-off, whose slope is floored,
         // can ask for enormous flows). Continuity then holds to the shortened fraction; full steps restore it.
@@ -764,7 +789,8 @@ public sealed class NetworkSolver
         {
             int f = _from[l], t = _to[l];
             double df = f < _junctions ? _x[f] : 0.0, dt = t < _junctions ? _x[t] : 0.0;
-            double q = _status[l] == LinkStatus.Open ? _flow[l] + _conductance[l] * (_imbalance[l] + (df - dt)) : 0.0;
+            double q = _status[l] == LinkStatus.Open ? _flow[l] + _conductance[l] * (_imbalance[l] + (df - dt))
+                : _kind[l] == Kind.Valve ? ActiveValveFlow(l) : 0.0;
             _y[l] = q;
             double change = Math.Abs(q - _flow[l]), limit = Math.Max(_stepLimit[l], 2 * Math.Abs(_flow[l]));
             if (change > limit && limit < scale * change) scale = limit / change;
@@ -864,6 +890,7 @@ public sealed class NetworkSolver
                 }
             }
         }
+        if (_valveOf.Length > 0) changes += UpdateValveStates(headMargin);
         return changes;
     }
 
@@ -904,9 +931,9 @@ public sealed class NetworkSolver
             else if (speed > o.MaximumDesignVelocity)
                 warnings.Add(new NetworkWarning(id, NetworkWarningCode.VelocityAboveDesignRange, speed));
         }
-        var pumps = new PumpResult[_links - _pipes];
+        var pumps = new PumpResult[_pumpEnd - _pipes];
         var unable = new List<string>();
-        for (int l = _pipes; l < _links; l++)
+        for (int l = _pipes; l < _pumpEnd; l++)
         {
             string id = _model.Pumps[l - _pipes].Id;
             double added = solved ? _head[_to[l]] - _head[_from[l]] : 0;
@@ -957,9 +984,10 @@ public sealed class NetworkSolver
         var reservoirs = new ReservoirResult[_reservoirs];
         for (int r = 0; r < _reservoirs; r++)
             reservoirs[r] = new ReservoirResult(_model.Reservoirs[r].Id, _head[_junctions + r], outflow[r]);
+        var valves = ReportValves(solved, passes, warnings);
         return new NetworkResult(status, multiplier, pipes, pumps, junctions, reservoirs, record, passes,
             status == NetworkStatus.NoPathToFixedHead ? _unsupplied : [], unable.ToArray(), warnings.ToArray(),
-            _linkIndex, _nodeIndex) { DemandModel = _law };
+            _linkIndex, _nodeIndex) { DemandModel = _law, Valves = valves };
     }
 
     /// <summary>The sparsity pattern of the head equations (one row per junction) in CSR form, rows sorted.</summary>
@@ -1041,7 +1069,7 @@ public sealed class NetworkSolver
         }
         for (int l = 0; l < _links; l++)
         {
-            if (_kind[l] == Kind.Pump ? !(_speed[l] > 0) : _model.Pipes[l].Closed) continue;
+            if (_kind[l] == Kind.Pump ? !(_speed[l] > 0) : _kind[l] != Kind.Valve && _model.Pipes[l].Closed) continue;
             int a = Find(_from[l]), b = Find(_to[l]);
             if (a != b) parent[a] = b;
         }

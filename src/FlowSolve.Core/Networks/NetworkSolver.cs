@@ -69,7 +69,7 @@ namespace FlowSolve.Core.Networks;
 /// <para>An instance keeps its state between solves (warm start) and is not thread-safe; the static methods create
 /// their own instance. The results are engineering estimates to be checked by a qualified engineer.</para>
 /// </remarks>
-public sealed class NetworkSolver
+public sealed partial class NetworkSolver
 {
     private const double ClosedConductance = 1e-14;
     private const double InitialVelocity = 0.3; // m/s, a usual start for the global gradient algorithm (common practice)
@@ -649,6 +649,7 @@ public sealed class NetworkSolver
         var c = _continuity;
         var scale = _nodeScale;
         for (int j = 0; j < _junctions; j++) { c[j] = -_delivered[j]; scale[j] = Math.Abs(_delivered[j]); }
+        if (_drawOffJunction >= 0) AddDrawOff(c, scale); // fire flow: a fixed draw-off on top (NetworkSolver.DrawOff.cs)
         for (int l = 0; l < _links; l++)
         {
             int f = _from[l], t = _to[l];

@@ -33,6 +33,7 @@ public static class Catalogue
         new DutyPointCalculation(),
         new PumpCurvesCalculation(),
         new NetworkSolveCalculation(),
+        new FireFlowCalculation(),
     ];
 
     /// <summary>Maps every calculation (after the generated JSON metadata is registered, so answers use it from the first).</summary>
@@ -84,4 +85,6 @@ public static class Catalogue
 [JsonSerializable(typeof(CheckResponse))]
 [JsonSerializable(typeof(NetworkSolveRequest))]
 [JsonSerializable(typeof(NetworkSolveResponse))]
+[JsonSerializable(typeof(FireFlowRequest))]
+[JsonSerializable(typeof(FireFlowResponse))]
 public sealed partial class ApiJsonContext : JsonSerializerContext;

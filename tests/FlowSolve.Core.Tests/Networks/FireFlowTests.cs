@@ -179,6 +179,24 @@ public sealed class FireFlowTests
         Assert.Equal(10, bound.LimitingPressureHead, 1e-6);
     }
 
+    [Theory]
+    [InlineData("j4")]
+    [InlineData("j2")]
+    public void Solve_PressureDrivenWhereTheBackgroundDeliversEverything_GivesAtLeastTheDemandDrivenFlow(string junction)
+    {
+        // With the law from 0 to 5 m every background demand is delivered (j3, the lowest, has about 12 m); as the fire
+        // draws the pressures down the deliveries shrink, which leaves more water for the fire: a stated property.
+        var law = new PressureDrivenDemand(0, 5, 0.5);
+        var ct = TestContext.Current.CancellationToken;
+        var pdd = FireFlow.Solve(Looped(law), [junction], cancellation: ct);
+        Assert.Equal(0, pdd.Background.DemandShortfall, 1e-12);
+        var demandDriven = Assert.Single(FireFlow.Solve(Looped(), [junction], cancellation: ct).Junctions);
+        var pressureDriven = Assert.Single(pdd.Junctions);
+        Assert.True(pressureDriven.Converged && demandDriven.Converged);
+        Assert.True(pressureDriven.AvailableFlow >= demandDriven.AvailableFlow * (1 - 1e-9),
+            $"{pressureDriven.AvailableFlow} against {demandDriven.AvailableFlow}");
+    }
+
     [Fact]
     public void Solve_JunctionBelowTheResidualWithNoDrawOff_IsAStatusNotAnException()
     {

@@ -226,6 +226,15 @@ public sealed class FireFlowTests
         Assert.Throws<ArgumentOutOfRangeException>(() => FireFlow.Solve(model, ["a"], new FireFlowOptions(double.NaN), cancellation: TestContext.Current.CancellationToken));
     }
 
+    [Fact]
+    public void Solve_Cancelled_StopsWithOperationCanceled()
+    {
+        // The service's time budget: a cancelled token stops the analysis before its next network solve.
+        using var cancelled = new CancellationTokenSource();
+        cancelled.Cancel();
+        Assert.ThrowsAny<OperationCanceledException>(() => FireFlow.Solve(Looped(), ["j4"], cancellation: cancelled.Token));
+    }
+
     [Theory]
     [InlineData(false)]
     [InlineData(true)]

@@ -1,4 +1,7 @@
 using BenchmarkDotNet.Attributes;
+using BenchmarkDotNet.Configs;
+using BenchmarkDotNet.Jobs;
+using BenchmarkDotNet.Toolchains.InProcess.Emit;
 using FlowSolve.Core.Networks;
 
 namespace FlowSolve.Benchmarks;
@@ -9,8 +12,18 @@ namespace FlowSolve.Benchmarks;
 /// of the whole grid's. Each junction's search is a few warm-started network solves (one factorisation each, the
 /// first Newton step taken along the tangent), plus one triangular solve for dp/dQ.</summary>
 [MemoryDiagnoser]
+[Config(typeof(LongRunConfig))]
 public class NetworkFireFlowBenchmarks
 {
+    /// <summary>One cold run, in process, with a 30-minute limit: one analysis takes about a minute and a half of CPU time,
+    /// beyond the in-process toolchain's default limit on a shared machine, and the out-of-process build of the generated
+    /// project timed out there. Run with <c>--filter '*NetworkFireFlowBenchmarks*'</c> alone (no --job).</summary>
+    private sealed class LongRunConfig : ManualConfig
+    {
+        public LongRunConfig() =>
+            AddJob(Job.Dry.WithToolchain(new InProcessEmitToolchain(TimeSpan.FromMinutes(30), logOutput: false)));
+    }
+
     private NetworkModel _model = null!;
     private string[] _junctions = null!;
 

@@ -176,7 +176,9 @@ public sealed class FireFlowCalculation : Calculation<FireFlowRequest, FireFlowR
         if (asked.Count > limits.NetworkMaxFireFlowJunctions)
             return LimitExceeded(asked.Count, limits.NetworkMaxFireFlowJunctions);
 
-        var options = new FireFlowOptions(u.HeadToSi(residual), minimum is double m ? u.HeadToSi(m) : null, input.Multipliers[0]);
+        // A head at the bound in feet can round a unit in the last place above 10 000 m once converted: clamp it there.
+        static double Si(Pumps.PumpUnits u, double h) => Math.Min(u.HeadToSi(h), FireFlowOptions.MaximumPressureHead);
+        var options = new FireFlowOptions(Si(u, residual), minimum is double m ? Si(u, m) : null, input.Multipliers[0]);
         FireFlowReport report;
         try
         {

@@ -37,6 +37,7 @@ public static class Catalogue
         new PumpCurvesCalculation(),
         new NetworkSolveCalculation(),
         new GasPipeFlowCalculation(),
+        new FireFlowCalculation(),
     ];
 
     /// <summary>Maps every calculation (after the generated JSON metadata is registered, so answers use it from the first).</summary>
@@ -94,4 +95,6 @@ public static class Catalogue
 [JsonSerializable(typeof(NetworkSolveResponse))]
 [JsonSerializable(typeof(GasPipeFlowRequest))]
 [JsonSerializable(typeof(GasPipeFlowResponse))]
+[JsonSerializable(typeof(FireFlowRequest))]
+[JsonSerializable(typeof(FireFlowResponse))]
 public sealed partial class ApiJsonContext : JsonSerializerContext;

@@ -60,6 +60,10 @@ public sealed class FlowSolveOptions
         /// 56 MB, and four at once exhausted a 384 MiB heap. A caller asks for less with output.detail=summary (no rows)
         /// or output.elements (chosen rows).</summary>
         public long NetworkMaxElementCases { get; set; } = 100_000;
+
+        /// <summary>Most junctions asked for in one fire-flow request (default 500); more answers 413. Each costs a few
+        /// network solves (see docs/performance.md); the request's time budget still applies.</summary>
+        public int NetworkMaxFireFlowJunctions { get; set; } = 500;
     }
 
     public sealed class RateLimitSettings

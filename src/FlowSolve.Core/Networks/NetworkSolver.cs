@@ -664,6 +664,7 @@ public sealed partial class NetworkSolver
         var c = _continuity;
         var scale = _nodeScale;
         for (int j = 0; j < _junctions; j++) { c[j] = -_delivered[j]; scale[j] = Math.Abs(_delivered[j]); }
+        if (_drawOffJunction >= 0) AddDrawOff(c, scale); // fire flow: a fixed draw-off on top (NetworkSolver.DrawOff.cs)
         for (int l = 0; l < _links; l++)
         {
             int f = _from[l], t = _to[l];

@@ -16,6 +16,9 @@ namespace FlowSolve.Core.Tests.Networks;
 /// </summary>
 internal static class DenseNetworkReference
 {
+    /// <summary>Law heads under which every demand is delivered in full at any finite pressure (demand-driven).</summary>
+    public const double DemandDrivenMinimum = -1e301, DemandDrivenRequired = -1e300;
+
     /// <summary>The law, written out (the test's own).</summary>
     public static double Delivered(double demand, double pressureHead, double min, double req, double exponent)
     {
@@ -46,11 +49,13 @@ internal static class DenseNetworkReference
         return Math.CopySign(h, q);
     }
 
-    /// <summary>Solves the network (pipes only, all open) with every demand times <paramref name="multiplier"/>.</summary>
+    /// <summary>Solves the network (pipes only, all open) with every demand times <paramref name="multiplier"/>, plus
+    /// a fixed draw-off at one junction when <paramref name="drawOff"/> is given (a demand that does not follow the law).
+    /// Demand-driven: pass <see cref="DemandDrivenMinimum"/> and <see cref="DemandDrivenRequired"/> as the law's heads.</summary>
     /// <returns>Flows in pipe order, heads in junction order, deliveries in junction order, and the largest residual
     /// (energy in m, continuity in m3/s) at the answer.</returns>
     public static (double[] Flows, double[] Heads, double[] Delivered, double Residual) Solve(
-        NetworkModel model, double min, double req, double exponent, double multiplier = 1)
+        NetworkModel model, double min, double req, double exponent, double multiplier = 1, (int Junction, double Flow)? drawOff = null)
     {
         int l = model.Pipes.Count, n = model.Junctions.Count;
         var junction = new Dictionary<string, int>();
@@ -73,6 +78,7 @@ internal static class DenseNetworkReference
                 var jn = model.Junctions[j];
                 f[l + j] = -Delivered(jn.Demand * multiplier, x[l + j] - jn.Elevation, min, req, exponent);
             }
+            if (drawOff is { } d) f[l + d.Junction] -= d.Flow;
             for (int k = 0; k < l; k++)
             {
                 var p = model.Pipes[k];

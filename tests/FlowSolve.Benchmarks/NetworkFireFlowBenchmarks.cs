@@ -1,0 +1,56 @@
+using BenchmarkDotNet.Attributes;
+using BenchmarkDotNet.Configs;
+using BenchmarkDotNet.Jobs;
+using BenchmarkDotNet.Toolchains.InProcess.Emit;
+using FlowSolve.Core.Networks;
+
+namespace FlowSolve.Benchmarks;
+
+/// <summary>Fire flow at 1 000 junctions of the generated 10 000-pipe grid (<see cref="GridNetwork"/>, 5 041 junctions):
+/// every fifth junction, residual pressure head 14 m. The reservoirs stand 80 m lower than in the plain grid, so that
+/// the junctions start at 30 to 45 m of pressure and the fire flows are of the order of a main's capacity rather than
+/// of the whole grid's. Each junction's search is a few warm-started network solves (one factorisation each, the
+/// first Newton step taken along the tangent), plus one triangular solve for dp/dQ.</summary>
+[MemoryDiagnoser]
+[Config(typeof(LongRunConfig))]
+public class NetworkFireFlowBenchmarks
+{
+    /// <summary>One cold run, in process, with a 30-minute limit: one analysis takes about a minute and a half of CPU time,
+    /// beyond the in-process toolchain's default limit on a shared machine, and the out-of-process build of the generated
+    /// project timed out there. Run with <c>--filter '*NetworkFireFlowBenchmarks*'</c> alone (no --job).</summary>
+    private sealed class LongRunConfig : ManualConfig
+    {
+        public LongRunConfig() =>
+            AddJob(Job.Dry.WithToolchain(new InProcessEmitToolchain(TimeSpan.FromMinutes(30), logOutput: false)));
+    }
+
+    private NetworkModel _model = null!;
+    private string[] _junctions = null!;
+
+    /// <summary>Junctions asked.</summary>
+    [Params(1000)]
+    public int Junctions { get; set; }
+
+    /// <summary>With a minimum pressure head of 10 m at every other junction (each evaluation then scans all of them);
+    /// add true to the list to measure it (one run of the analysis takes about a minute of CPU time).</summary>
+    [Params(false)]
+    public bool Minimum { get; set; }
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        var grid = GridNetwork.Create(10_000);
+        _model = grid with { Reservoirs = grid.Reservoirs.Select(r => r with { Head = r.Head - 80 }).ToArray() };
+        _junctions = _model.Junctions.Where((_, i) => i % 5 == 0).Take(Junctions).Select(j => j.Id).ToArray();
+    }
+
+    /// <summary>The whole analysis: validation, the background solve, and the search at every junction asked.</summary>
+    [Benchmark]
+    public int FireFlowAtJunctions()
+    {
+        var report = FireFlow.Solve(_model, _junctions, new FireFlowOptions(14, Minimum ? 10 : null));
+        int solves = 0;
+        foreach (var r in report.Junctions) solves += r.Converged ? r.Iterations : 1_000_000;
+        return solves;
+    }
+}

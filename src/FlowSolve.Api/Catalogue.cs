@@ -4,6 +4,7 @@ using FlowSolve.Api.Channels;
 using FlowSolve.Api.Check;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Networks;
+using FlowSolve.Api.NonNewtonian;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Pipes;
 using FlowSolve.Api.Pumps;
@@ -33,6 +34,9 @@ public static class Catalogue
         new DutyPointCalculation(),
         new PumpCurvesCalculation(),
         new NetworkSolveCalculation(),
+        new NonNewtonianFrictionCalculation(),
+        new NonNewtonianHeadLossCalculation(),
+        new NonNewtonianFlowCalculation(),
     ];
 
     /// <summary>Maps every calculation (after the generated JSON metadata is registered, so answers use it from the first).</summary>
@@ -84,4 +88,10 @@ public static class Catalogue
 [JsonSerializable(typeof(CheckResponse))]
 [JsonSerializable(typeof(NetworkSolveRequest))]
 [JsonSerializable(typeof(NetworkSolveResponse))]
+[JsonSerializable(typeof(NonNewtonianFrictionRequest))]
+[JsonSerializable(typeof(NonNewtonianFrictionResponse))]
+[JsonSerializable(typeof(NonNewtonianHeadLossRequest))]
+[JsonSerializable(typeof(NonNewtonianHeadLossResponse))]
+[JsonSerializable(typeof(NonNewtonianFlowRequest))]
+[JsonSerializable(typeof(NonNewtonianFlowResponse))]
 public sealed partial class ApiJsonContext : JsonSerializerContext;

@@ -17,7 +17,7 @@ public sealed class NonNewtonianFlowCalculation : Calculation<NonNewtonianFlowRe
 
     public override IReadOnlyList<(string Name, string Value)> QueryExample { get; } =
         [("model", "bingham-plastic"), ("density", "1450"), ("yieldStress", "25"), ("plasticViscosity", "0.06"),
-         ("headLoss", "60"), ("diameter", "0.15"), ("length", "1200"), ("minorLossCoefficient", "4.5")];
+         ("headLoss", "80"), ("diameter", "0.15"), ("length", "1200"), ("minorLossCoefficient", "4.5")];
 
     public override NonNewtonianFlowRequest BodyExample { get; } = new(Model: "power-law", Density: 1200, HeadLoss: 25, Diameter: 0.1,
         Length: 350, MinorLossCoefficient: 2, ConsistencyIndex: 0.5, FlowBehaviorIndex: 0.6, FlowUnit: "l/s");

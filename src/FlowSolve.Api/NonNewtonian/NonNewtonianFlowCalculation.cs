@@ -2,6 +2,7 @@ using System.Globalization;
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Core.NonNewtonian;
 using FlowSolve.Core.Numerics;
 
@@ -24,6 +25,8 @@ public sealed class NonNewtonianFlowCalculation : Calculation<NonNewtonianFlowRe
 
     /// <summary>A number for a problem's extensions: JSON has no infinity (a yield head of a vanishing density, say), so null then.</summary>
     private static double? Finite(double value) => double.IsFinite(value) ? value : null;
+
+    public override Sheet Sheet(NonNewtonianFlowRequest request, NonNewtonianFlowResponse answer) => NonNewtonianSheets.Flow(request, answer);
 
     public override Outcome<NonNewtonianFlowResponse> Solve(NonNewtonianFlowRequest request, in CalculationContext context)
     {

@@ -1,6 +1,7 @@
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Core.NonNewtonian;
 using FlowSolve.Core.Numerics;
 
@@ -17,6 +18,8 @@ public sealed class NonNewtonianFrictionCalculation : Calculation<NonNewtonianFr
 
     public override NonNewtonianFrictionRequest BodyExample { get; } = new(Model: "bingham-plastic", Density: 1450, Velocity: 1.5, Diameter: 0.15,
         YieldStress: 25, PlasticViscosity: 0.06);
+
+    public override Sheet Sheet(NonNewtonianFrictionRequest request, NonNewtonianFrictionResponse answer) => NonNewtonianSheets.Friction(request, answer);
 
     public override Outcome<NonNewtonianFrictionResponse> Solve(NonNewtonianFrictionRequest request, in CalculationContext context)
     {

@@ -1,6 +1,7 @@
 using FlowSolve.Api.Contracts;
 using FlowSolve.Api.Hosting;
 using FlowSolve.Api.Problems;
+using FlowSolve.Api.Sheets;
 using FlowSolve.Core.NonNewtonian;
 using FlowSolve.Core.Numerics;
 
@@ -18,6 +19,8 @@ public sealed class NonNewtonianHeadLossCalculation : Calculation<NonNewtonianHe
 
     public override NonNewtonianHeadLossRequest BodyExample { get; } = new(Model: "power-law", Density: 1200, Flow: 12, Diameter: 0.1,
         Length: 350, MinorLossCoefficient: 2, ConsistencyIndex: 0.5, FlowBehaviorIndex: 0.6, FlowUnit: "l/s");
+
+    public override Sheet Sheet(NonNewtonianHeadLossRequest request, NonNewtonianHeadLossResponse answer) => NonNewtonianSheets.HeadLoss(request, answer);
 
     public override Outcome<NonNewtonianHeadLossResponse> Solve(NonNewtonianHeadLossRequest request, in CalculationContext context)
     {

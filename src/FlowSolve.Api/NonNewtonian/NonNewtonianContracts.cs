@@ -199,4 +199,8 @@ public sealed record NonNewtonianFlowResponse(
     int Iterations, int FrictionIterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable,
     string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary;
+    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary
+{
+    /// <summary>Present only when a second flow meets the same head (see the second-solution warning), in flowUnit: for a power-law fluid of small n, Dodge-Metzner at the critical Reynolds number lies below the laminar law, so heads within that drop are met by a laminar and a turbulent flow. flow is then the turbulent one and this the laminar one, the lower flow and the cautious estimate.</summary>
+    public double? AlternateFlow { get; init; }
+}

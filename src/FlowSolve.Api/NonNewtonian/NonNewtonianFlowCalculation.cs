@@ -68,6 +68,9 @@ public sealed class NonNewtonianFlowCalculation : Calculation<NonNewtonianFlowRe
         var warnings = NonNewtonianInput.Warnings(f).ToList();
         if (r.Status == NonNewtonianFlowStatus.NotConverged)
             warnings.Add(new("not-converged", "The flow solve did not converge (" + r.SolverStatus.Reason() + "); the flow is the best iterate and must not be used."));
+        if (!double.IsNaN(r.AlternateFlow))
+            warnings.Add(new("second-solution", string.Create(C,
+                $"Two flows meet this head: {flowUnit.FromSi(s.Flow):G6} {flowUnit.Code} (turbulent, Dodge-Metzner) and {flowUnit.FromSi(r.AlternateFlow):G6} {flowUnit.Code} (laminar, in alternateFlow), because Dodge-Metzner at the critical Reynolds number lies below the laminar law for n = {input.Fluid.FlowBehaviorIndex:G4}. Which one the pipe runs at depends on how it is started; the laminar flow is the cautious estimate.")));
         return new NonNewtonianFlowResponse(
             flowUnit.FromSi(s.Flow), u.Velocity(s.Velocity), u.Length(s.HeadLoss), u.Length(s.FrictionHeadLoss), u.Length(s.MinorHeadLoss),
             u.Pressure(s.PressureDrop), f.Reynolds, NonNewtonianInput.Present(f.Hedstrom), NonNewtonianInput.Present(f.CriticalReynolds),
@@ -75,6 +78,9 @@ public sealed class NonNewtonianFlowCalculation : Calculation<NonNewtonianFlowRe
             input.Stress(f.WallShearStress), input.Fluid.Model == RheologyModel.BinghamPlastic ? u.Length(r.YieldHeadLoss) : null,
             u.Length(diameter), u.Length(length), k, u.Density(input.Fluid.Density),
             r.Iterations, f.Iterations, r.Converged, r.Residual, r.Converged ? "solved" : "not-converged", r.SolverStatus.Code(), "ln(Q)",
-            u.Code, flowUnit.Code, NonNewtonianInput.Validity(f), warnings, input.Assumptions, TraceStepDto.From(trace));
+            u.Code, flowUnit.Code, NonNewtonianInput.Validity(f), warnings, input.Assumptions, TraceStepDto.From(trace))
+        {
+            AlternateFlow = double.IsNaN(r.AlternateFlow) ? null : flowUnit.FromSi(r.AlternateFlow),
+        };
     }
 }

@@ -49,6 +49,11 @@ public enum NonNewtonianFlowStatus
 public readonly record struct NonNewtonianFlowResult(NonNewtonianFlowStatus Status, NonNewtonianHeadLoss State, double HeadLoss,
     int Iterations, double Residual, SolveStatus SolverStatus, double YieldHeadLoss, double CriticalFlow, double GapLow, double GapHigh)
 {
+    /// <summary>Power law: a second, laminar flow (m3/s) that meets the same head, or NaN. Where Dodge-Metzner at Re_c lies
+    /// below the laminar law (small n: about n &lt; 0.3), h(Q) drops at Re_c and heads between the two are met twice;
+    /// <see cref="State"/> is then the turbulent flow and this the laminar one, the lower and cautious estimate.</summary>
+    public double AlternateFlow { get; init; } = double.NaN;
+
     /// <summary>True when a flow meeting the head loss was found.</summary>
     public bool Converged => Status == NonNewtonianFlowStatus.Solved;
 }
@@ -162,11 +167,20 @@ public static class NonNewtonianPipe
         }
 
         var equation = new FlowEquation(fluid, length, diameter, minorLossCoefficient, Math.Log(headLoss));
-        double yLo = lnLo + Math.Log(area), yHi = lnHi + Math.Log(area);
+        double lnArea = Math.Log(area);
+        double yLo = lnLo + lnArea, yHi = lnHi + lnArea;
+        double alternate = double.NaN;
+        if (gapHigh < gapLow && headLoss >= gapHigh && headLoss < gapLow)
+        {
+            // h(Q) drops at Re_c: one root on each side. The turbulent one is the answer, the laminar one the alternate.
+            double yC = Math.Log(criticalFlow), step = 1e-12 * Math.Max(1, Math.Abs(yC));
+            var laminar = SafeguardedNewton.Solve(in equation, Bracket.Checked(yLo, yC - step), yC - 1, in Options);
+            if (laminar.Converged) alternate = Math.Exp(laminar.Root);
+            yLo = yC + step;
+        }
         // Start at a velocity of 1 m/s, a usual one for slurries and pastes; F is nearly linear in ln Q, so the start
         // matters little (outside the bracket the solver starts from its midpoint).
-        double guess = Math.Log(area);
-        RootResult root = SafeguardedNewton.Solve(in equation, Bracket.Checked(yLo, yHi), guess, in Options, trace);
+        RootResult root = SafeguardedNewton.Solve(in equation, Bracket.Checked(yLo, yHi), lnArea, in Options, trace);
 
         if (root.Status == SolveStatus.NoSignChange)
             return new(NonNewtonianFlowStatus.OutsideRange, default, headLoss, root.Iterations, root.Residual, root.Status, yieldHead,
@@ -180,7 +194,7 @@ public static class NonNewtonianPipe
         // A converged bracket that closed on a jump rather than a root leaves a residual far above rounding: not converged.
         bool met = root.Converged && Math.Abs(residual) <= 1e-9;
         return new(met ? NonNewtonianFlowStatus.Solved : NonNewtonianFlowStatus.NotConverged, state, headLoss, root.Iterations, residual,
-            root.Status, yieldHead, criticalFlow, gapLow, gapHigh);
+            root.Status, yieldHead, criticalFlow, gapLow, gapHigh) { AlternateFlow = alternate };
     }
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]

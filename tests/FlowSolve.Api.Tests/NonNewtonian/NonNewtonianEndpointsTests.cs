@@ -159,6 +159,30 @@ public sealed class NonNewtonianEndpointsTests(ApiFixture api)
     }
 
     [Fact]
+    public async Task Flow_PowerLawSmallIndex_TwoFlowsMeetTheHead_BothReported()
+    {
+        // n = 0.15: Dodge-Metzner at Re_c (by Brent) lies below 16/Re_c, so a head between the two is met twice.
+        double n = 0.15, rho = 1100, k = 2.0, d = 0.1, l = 200;
+        double reC = 6464 * n * Math.Pow(2 + n, (2 + n) / (1 + n)) / Math.Pow(1 + 3 * n, 2);
+        double vc = Math.Pow(reC / MetznerReed(rho, k, n, 1, d), 1 / (2 - n));
+        double scale = 4 * l / (rho * G * d) * rho * vc * vc / 2;
+        double low = BrentDodgeMetzner(reC, n) * scale, high = 16 / reC * scale;
+        Assert.True(low < high);
+        string fluid = $"model=power-law&density={rho}&consistencyIndex={k}&flowBehaviorIndex={n}&diameter={d}&length={l}";
+        var r = await api.GetJson($"/v1/non-newtonian/flow?{fluid}&headLoss={0.5 * (low + high):R}");
+        Assert.Equal(200, r.Status);
+        Assert.Contains(r.Body.GetProperty("warnings").EnumerateArray(), w => w.GetProperty("code").GetString() == "second-solution");
+        double qc = vc * Math.PI * d * d / 4;
+        double turbulent = r.Body.GetProperty("flow").GetDouble(), laminar = r.Body.GetProperty("alternateFlow").GetDouble();
+        Assert.True(laminar < qc && qc < turbulent);
+        foreach (double q in new[] { turbulent, laminar })
+        {
+            var h = await api.GetJson($"/v1/non-newtonian/head-loss?{fluid}&flow={q:R}");
+            Assert.Equal(0.5 * (low + high), h.Body.GetProperty("headLoss").GetDouble(), 1e-8 * (low + high));
+        }
+    }
+
+    [Fact]
     public async Task UsUnits_MatchSiWithExactFactors()
     {
         const double ft = 0.3048, lbf = 0.45359237 * G, lbPerFt3 = 0.45359237 / (ft * ft * ft), psf = lbf / (ft * ft);

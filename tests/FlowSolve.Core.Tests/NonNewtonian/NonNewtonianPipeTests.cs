@@ -109,6 +109,26 @@ public sealed class NonNewtonianPipeTests
         Assert.True(above.State.Flow >= probe.CriticalFlow);
     }
 
+    [Fact]
+    public void Flow_PowerLawWhereDodgeMetznerDropsBelowTheLaminarLawAtReC_ReportsBothFlows()
+    {
+        // At n = 0.15, Dodge-Metzner at Re_c lies below 16/Re_c, so h(Q) drops at Re_c and heads inside the drop are met
+        // by a laminar and a turbulent flow; each is checked against Brent on its own side of the critical flow.
+        var fluid = NonNewtonianFluid.PowerLaw(1100, 2.0, 0.15);
+        double d = 0.1, l = 200;
+        var probe = NonNewtonianPipe.Flow(fluid, l, d, 0, 1.0);
+        Assert.True(probe.GapHigh < probe.GapLow);
+        double target = 0.5 * (probe.GapLow + probe.GapHigh), qc = probe.CriticalFlow;
+        var r = NonNewtonianPipe.Flow(fluid, l, d, 0, target);
+        Assert.True(r.Converged, r.Status.ToString());
+        double h(double q) => NonNewtonianPipe.HeadLoss(fluid, l, d, 0, q).HeadLoss - target;
+        double turbulent = Brent.FindRoot(h, qc * (1 + 1e-9), qc * 100, 1e-17 * qc, 1000);
+        double laminar = Brent.FindRoot(h, qc * 1e-3, qc * (1 - 1e-9), 1e-17 * qc, 1000);
+        Assert.Equal(turbulent, r.State.Flow, 1e-10 * turbulent);
+        Assert.Equal(laminar, r.AlternateFlow, 1e-10 * laminar);
+        Assert.True(r.AlternateFlow < qc && qc < r.State.Flow);
+    }
+
     [Theory]
     [InlineData("paste", 0.01)]
     [InlineData("paste", 0.3)]

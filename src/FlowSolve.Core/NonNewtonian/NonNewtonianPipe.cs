@@ -50,7 +50,7 @@ public readonly record struct NonNewtonianFlowResult(NonNewtonianFlowStatus Stat
     int Iterations, double Residual, SolveStatus SolverStatus, double YieldHeadLoss, double CriticalFlow, double GapLow, double GapHigh)
 {
     /// <summary>Power law: a second, laminar flow (m3/s) that meets the same head, or NaN. Where Dodge-Metzner at Re_c lies
-    /// below the laminar law (small n: about n &lt; 0.3), h(Q) drops at Re_c and heads between the two are met twice;
+    /// below the laminar law (small n: n below about 0.37), h(Q) drops at Re_c and heads between the two are met twice;
     /// <see cref="State"/> is then the turbulent flow and this the laminar one, the lower and cautious estimate.</summary>
     public double AlternateFlow { get; init; } = double.NaN;
 

@@ -242,10 +242,23 @@ public static class NonNewtonianFriction
         return OutsideRange(result);
     }
 
+    /// <summary>Flags an input outside the relation's published ranges. Allocation-free: it runs on every evaluation of
+    /// the inverse problem (the <see cref="NonNewtonianFrictionResult.Validity"/> list is built only for answers).</summary>
     private static NonNewtonianFrictionResult OutsideRange(in NonNewtonianFrictionResult result)
     {
-        foreach (var v in result.Validity())
-            if (!v.InRange) return result with { Warnings = result.Warnings | NonNewtonianWarnings.OutsideCorrelationRange };
+        var ranges = RangesFor(result.Relation);
+        for (int i = 0; i < ranges.Count; i++)
+        {
+            var r = ranges[i];
+            double value = r.Quantity switch
+            {
+                "reynolds" => result.Reynolds,
+                "flowBehaviorIndex" => result.FlowBehaviorIndex,
+                _ => result.Hedstrom,
+            };
+            if (!(value >= r.Minimum && value <= r.Maximum))
+                return result with { Warnings = result.Warnings | NonNewtonianWarnings.OutsideCorrelationRange };
+        }
         return result;
     }
 }

@@ -170,10 +170,10 @@ public static class NonNewtonianPipe
         double lnArea = Math.Log(area);
         double yLo = lnLo + lnArea, yHi = lnHi + lnArea;
         double alternate = double.NaN;
-        if (gapHigh < gapLow && headLoss >= gapHigh && headLoss < gapLow)
+        double yC = Math.Log(criticalFlow), step = 1e-12 * Math.Max(1, Math.Abs(yC));
+        if (gapHigh < gapLow && headLoss >= gapHigh && headLoss < gapLow && yLo < yC - step && yC + step < yHi)
         {
             // h(Q) drops at Re_c: one root on each side. The turbulent one is the answer, the laminar one the alternate.
-            double yC = Math.Log(criticalFlow), step = 1e-12 * Math.Max(1, Math.Abs(yC));
             var laminar = SafeguardedNewton.Solve(in equation, Bracket.Checked(yLo, yC - step), yC - 1, in Options);
             if (laminar.Converged) alternate = Math.Exp(laminar.Root);
             yLo = yC + step;

@@ -4,6 +4,7 @@ using FlowSolve.Api.Channels;
 using FlowSolve.Api.Check;
 using FlowSolve.Api.Fluids;
 using FlowSolve.Api.Networks;
+using FlowSolve.Api.NonNewtonian;
 using FlowSolve.Api.Friction;
 using FlowSolve.Api.Gas;
 using FlowSolve.Api.Pipes;
@@ -38,6 +39,9 @@ public static class Catalogue
         new NetworkSolveCalculation(),
         new GasPipeFlowCalculation(),
         new FireFlowCalculation(),
+        new NonNewtonianFrictionCalculation(),
+        new NonNewtonianHeadLossCalculation(),
+        new NonNewtonianFlowCalculation(),
     ];
 
     /// <summary>Maps every calculation (after the generated JSON metadata is registered, so answers use it from the first).</summary>
@@ -97,4 +101,10 @@ public static class Catalogue
 [JsonSerializable(typeof(GasPipeFlowResponse))]
 [JsonSerializable(typeof(FireFlowRequest))]
 [JsonSerializable(typeof(FireFlowResponse))]
+[JsonSerializable(typeof(NonNewtonianFrictionRequest))]
+[JsonSerializable(typeof(NonNewtonianFrictionResponse))]
+[JsonSerializable(typeof(NonNewtonianHeadLossRequest))]
+[JsonSerializable(typeof(NonNewtonianHeadLossResponse))]
+[JsonSerializable(typeof(NonNewtonianFlowRequest))]
+[JsonSerializable(typeof(NonNewtonianFlowResponse))]
 public sealed partial class ApiJsonContext : JsonSerializerContext;

@@ -37,6 +37,7 @@ public static class OpenApiLint
         ["Gas"] = "Gas lines: steady isothermal flow of a gas in a horizontal pipe, with the largest mass flow the line passes.",
         ["Friction factor"] = "The Darcy friction factor from the Reynolds number and relative roughness.",
         ["Networks"] = "Steady flows and heads of a looped pipe network with pumps, junctions and reservoirs, for one or more load cases.",
+        ["Non-Newtonian fluids"] = "Friction factor, head loss and flow of power-law fluids and Bingham plastics in smooth pipes.",
         ["Pipes"] = "Head loss, flow and diameter of a single pipe, and the tables of sizes, materials and fittings behind them.",
         ["Pumps"] = "The duty point of a pump or pump set on a system curve, and the curves for plotting.",
     };

@@ -38,7 +38,7 @@ public static partial class ColebrookWhite
     /// changes a Newton iterate, and the stopping tests then end on a different last step, up to tens of units in the
     /// last place of f apart (measured with .NET's own vector logarithm: Vector512.Log differs from Math.Log in 0.8
     /// percent of arguments, by up to 3 ulp). So the lanes use <see cref="LogNearest512"/>, a logarithm rounded to nearest that says when it cannot
-    /// be sure of the rounding, and take Math.Log in those lanes (about 8 percent of them). A platform logarithm within
+    /// be sure of the rounding, and take Math.Log in those lanes (by its margin, about 8 percent of them). A platform logarithm within
     /// 0.531 ulp (glibc's is within 0.519, from memory) then gives the same double, and the answers are equal bit for bit;
     /// the tests hold the contract of 2 ulp over the whole domain.</para>
     /// <para>Elements outside the known bracket's domain (Re below 2000 or above 1e25) are handed to the scalar solve,

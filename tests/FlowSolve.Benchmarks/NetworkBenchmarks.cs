@@ -78,6 +78,34 @@ public class NetworkBenchmarks
     public int SolveWarmLoadCase() => _warm.SolveCase(1.1).Iterations + _warm.SolveCase(1.0).Iterations;
 }
 
+/// <summary>The friction pass before and after the span solve, in one run: the 100 000-pipe grid's cold solve with the
+/// direct head solve, friction one pipe at a time (as before) against the turbulent pipes' Colebrook-White as one span
+/// (<see cref="FlowSolve.Core.Friction.ColebrookWhite"/>); both give the same answer bit for bit (NetworkSolverTests).</summary>
+[MemoryDiagnoser]
+public class NetworkFrictionPassBenchmarks
+{
+    private NetworkModel _model = null!;
+    private NetworkOptions _span, _scalar;
+
+    /// <summary>Approximate pipe count.</summary>
+    [Params(100_000)]
+    public int Pipes { get; set; }
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        _model = GridNetwork.Create(Pipes);
+        _span = NetworkOptions.Default;
+        _scalar = NetworkOptions.Default with { ScalarFrictionPass = true };
+    }
+
+    [Benchmark(Baseline = true)]
+    public int SolveColdPipeByPipe() => NetworkSolver.Solve(_model, _scalar).Iterations;
+
+    [Benchmark]
+    public int SolveColdSpan() => NetworkSolver.Solve(_model, _span).Iterations;
+}
+
 /// <summary>
 /// The head equations' linear system alone, at the size of a generated grid: the grid's weighted Laplacian,
 /// conductances log-uniform over two decades, eight nodes tied to fixed heads (CSR, both triangles).

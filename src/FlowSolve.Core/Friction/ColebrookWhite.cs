@@ -83,7 +83,7 @@ public readonly struct ColebrookResult
 /// <para>Validity: 4000 &lt; Re &lt; 1e8 and 0 &lt;= e/D &lt;= 0.05 (Praks and Brkic 2018, Adv. Civ. Eng. 5451034,
 /// citing the usual range of the Moody chart). The relation is Colebrook (1939), J. Inst. Civ. Eng. 11(4).</para>
 /// </remarks>
-public static class ColebrookWhite
+public static partial class ColebrookWhite
 {
     /// <summary>2/ln(10): converts a natural logarithm to twice a decimal one.</summary>
     private const double TwoOverLn10 = 0.86858896380650365530;

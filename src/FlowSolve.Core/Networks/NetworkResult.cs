@@ -34,6 +34,10 @@ public readonly record struct NetworkOptions(
     /// (the default value, 0) unless set.</summary>
     public NetworkLinearSolver LinearSolver { get; init; }
 
+    /// <summary>Friction one pipe at a time, as before the span solve of the friction pass: kept for the benchmark that
+    /// compares the two passes and the test that holds them equal bit for bit.</summary>
+    internal bool ScalarFrictionPass { get; init; }
+
     internal void Validate()
     {
         static void Positive(double v, string name)

@@ -1,4 +1,5 @@
 using FlowSolve.Core.Friction;
+using FlowSolve.Core.Numerics;
 using FlowSolve.Core.Pipes;
 using FlowSolve.Core.Pumps;
 
@@ -102,6 +103,9 @@ public sealed partial class NetworkSolver
     private readonly double[] _imbalance;  // per link: H_from - H_to - h(Q) at the current iterate (closed: H_from - H_to)
     private readonly double[] _nodeScale;  // per junction: |demand| + sum of |Q| of its links, for the continuity floor
     private bool _outOfRange; // an iterate's Reynolds number left the friction relations' range
+    // The friction pass: Darcy pipes in turbulent flow, gathered each evaluation and solved as one span.
+    private readonly int[] _turbulentLink;
+    private readonly double[] _turbulentReynolds, _turbulentRoughness, _turbulentVelocity, _turbulentFriction;
 
     // Pressure-driven demand (null and empty arrays for a demand-driven model, whose _delivered is _demand itself).
     private readonly PressureDrivenDemand? _law;
@@ -252,6 +256,11 @@ public sealed partial class NetworkSolver
         _continuity = new double[_junctions];
         _imbalance = new double[_links];
         _nodeScale = new double[_junctions];
+        _turbulentLink = new int[_pipes];
+        _turbulentReynolds = new double[_pipes];
+        _turbulentRoughness = new double[_pipes];
+        _turbulentVelocity = new double[_pipes];
+        _turbulentFriction = new double[_pipes];
 
         _law = model.DemandModel;
         bool pdd = _law is not null;
@@ -564,6 +573,8 @@ public sealed partial class NetworkSolver
     {
         double nu = _model.KinematicViscosity;
         var friction = _options.Friction;
+        bool spanFriction = !_options.ScalarFrictionPass;
+        int turbulent = 0;
         for (int l = 0; l < _links; l++)
         {
             if (_status[l] != LinkStatus.Open) { _headLoss[l] = 0; _slope[l] = 0; continue; }
@@ -571,7 +582,8 @@ public sealed partial class NetworkSolver
             switch (_kind[l])
             {
                 case Kind.Darcy:
-                    (_headLoss[l], _slope[l]) = DarcyLoss(l, q, nu, friction);
+                    if (spanFriction && GatherTurbulent(l, q, nu, friction, turbulent)) turbulent++;
+                    else (_headLoss[l], _slope[l]) = DarcyLoss(l, q, nu, friction);
                     break;
                 case Kind.Hazen:
                     (_headLoss[l], _slope[l]) = HazenLoss(l, q);
@@ -594,6 +606,56 @@ public sealed partial class NetworkSolver
                     break;
                 }
             }
+        }
+        if (turbulent > 0) TurbulentFrictionPass(turbulent);
+    }
+
+    /// <summary>Adds an open Darcy pipe to the friction pass's span when <see cref="DarcyLoss"/> would reach the exact
+    /// Colebrook-White solve for it (turbulent flow), with the Reynolds number, relative roughness and velocity that
+    /// <see cref="PipeHeadLoss.WithDerivative"/> would compute, in the same operations; false leaves the pipe to
+    /// <see cref="DarcyLoss"/> (laminar, transitional, creeping, beyond the relations' range).</summary>
+    private bool GatherTurbulent(int l, double q, double nu, in FrictionOptions friction, int k)
+    {
+        ref readonly var pipe = ref _geometry[l];
+        double aq = Math.Abs(q);
+        double reLink = aq * pipe.Diameter / (_area[l] * nu);
+        if (!(reLink <= DarcyFriction.MaximumReynolds) || (reLink >= friction.LaminarLimit && reLink < friction.TurbulentLimit)
+            || q == 0 || !(aq / pipe.Area * pipe.Diameter / nu >= DarcyFriction.MinimumReynolds))
+            return false;
+        // PipeHeadLoss.Evaluate's velocity and Reynolds number, and DarcyFriction.Compute's choice of regime.
+        double d = pipe.Diameter;
+        double velocity = aq / (0.25 * Math.PI * d * d);
+        double re = velocity * d / nu;
+        if (!(re >= friction.TurbulentLimit && re <= DarcyFriction.MaximumReynolds)) return false;
+        _turbulentLink[k] = l;
+        _turbulentReynolds[k] = re;
+        _turbulentRoughness[k] = pipe.Roughness / d;
+        _turbulentVelocity[k] = velocity;
+        return true;
+    }
+
+    /// <summary>h and dh/dQ of the gathered turbulent pipes: their friction factors in one span solve
+    /// (<see cref="ColebrookWhite.Solve(ReadOnlySpan{double}, ReadOnlySpan{double}, Span{double}, Span{int})"/>, equal bit
+    /// for bit to the scalar solve), then PipeHeadLoss.Evaluate's head loss and slope in its operations, so the pass
+    /// answers exactly what <see cref="DarcyLoss"/> would.</summary>
+    private void TurbulentFrictionPass(int count)
+    {
+        ColebrookWhite.Solve(_turbulentReynolds.AsSpan(0, count), _turbulentRoughness.AsSpan(0, count),
+            _turbulentFriction.AsSpan(0, count));
+        for (int k = 0; k < count; k++)
+        {
+            int l = _turbulentLink[k];
+            ref readonly var pipe = ref _geometry[l];
+            double f = _turbulentFriction[k], re = _turbulentReynolds[k], velocity = _turbulentVelocity[k];
+            double q = _flow[l], aq = Math.Abs(q);
+            double velocityHead = velocity * velocity / (2 * Physical.StandardGravity);
+            double lOverD = pipe.Length / pipe.Diameter;
+            double h = f * lOverD * velocityHead + pipe.MinorLossCoefficient * velocityHead;
+            double dfdRe = new ColebrookResult(f, 0, 0, 0.0, SolveStatus.ConvergedOnPredictedStep, re,
+                _turbulentRoughness[k]).DerivativeReynolds;
+            double reDfDRe = re * dfdRe;
+            _headLoss[l] = Math.CopySign(h, q);
+            _slope[l] = (2.0 * h + lOverD * velocityHead * reDfDRe) / aq;
         }
     }
 

@@ -137,13 +137,8 @@ public static class GraduallyVariedFlow
     public static WaterSurfaceProfile Profile(ChannelSection section, double flow, double slope, double manningN, double length,
         double controlDepth, bool controlDownstream, int stations)
     {
-        ArgumentNullException.ThrowIfNull(section);
-        ChannelGuard.Positive(flow, nameof(flow));
-        ChannelGuard.Positive(manningN, nameof(manningN));
-        ChannelGuard.Positive(length, nameof(length));
+        GuardReach(section, flow, slope, manningN, length, stations);
         ChannelGuard.Depth(controlDepth, section.MaximumDepth, nameof(controlDepth));
-        ArgumentOutOfRangeException.ThrowIfLessThan(stations, 2);
-        if (!double.IsFinite(slope)) throw new ArgumentOutOfRangeException(nameof(slope), slope, "must be finite");
 
         var (yn, yc, slopeClass) = Classes(section, flow, slope, manningN);
         string type = Classify(slopeClass, controlDepth, yn, yc);
@@ -232,14 +227,9 @@ public static class GraduallyVariedFlow
     public static WaterSurfaceProfile ProfileBetween(ChannelSection section, double flow, double slope, double manningN, double length,
         double upstreamDepth, double downstreamDepth, int stations)
     {
-        ArgumentNullException.ThrowIfNull(section);
-        ChannelGuard.Positive(flow, nameof(flow));
-        ChannelGuard.Positive(manningN, nameof(manningN));
-        ChannelGuard.Positive(length, nameof(length));
+        GuardReach(section, flow, slope, manningN, length, stations);
         ChannelGuard.Depth(upstreamDepth, section.MaximumDepth, nameof(upstreamDepth));
         ChannelGuard.Depth(downstreamDepth, section.MaximumDepth, nameof(downstreamDepth));
-        ArgumentOutOfRangeException.ThrowIfLessThan(stations, 2);
-        if (!double.IsFinite(slope)) throw new ArgumentOutOfRangeException(nameof(slope), slope, "must be finite");
         if (Check(section, flow, upstreamDepth, controlDownstream: false) != ProfileProblem.None)
             throw new ArgumentOutOfRangeException(nameof(upstreamDepth), upstreamDepth, "must be supercritical (below critical depth)");
         if (Check(section, flow, downstreamDepth, controlDownstream: true) != ProfileProblem.None)
@@ -404,6 +394,17 @@ public static class GraduallyVariedFlow
 
     private static CalculationWarning ReachesCritical(double yc, double at) => new("reaches-critical-depth", string.Create(CultureInfo.InvariantCulture,
         $"The profile reaches critical depth ({yc:G6} m) {at:G6} m from the downstream end, inside the reach: the gradually-varied-flow equation does not hold beyond it (a hydraulic jump or a drop forms there), so no stations are given past it."));
+
+    /// <summary>The argument guards both profile entry points share.</summary>
+    private static void GuardReach(ChannelSection section, double flow, double slope, double manningN, double length, int stations)
+    {
+        ArgumentNullException.ThrowIfNull(section);
+        ChannelGuard.Positive(flow, nameof(flow));
+        ChannelGuard.Positive(manningN, nameof(manningN));
+        ChannelGuard.Positive(length, nameof(length));
+        ArgumentOutOfRangeException.ThrowIfLessThan(stations, 2);
+        if (!double.IsFinite(slope)) throw new ArgumentOutOfRangeException(nameof(slope), slope, "must be finite");
+    }
 
     /// <summary>Normal depth (NaN where there is none), critical depth and the slope's class.</summary>
     private static (double NormalDepth, double CriticalDepth, SlopeClass SlopeClass) Classes(ChannelSection section, double flow, double slope, double manningN)

@@ -5,7 +5,7 @@ using MathNet.Numerics.RootFinding;
 namespace FlowSolve.Core.Tests.Channels;
 
 /// <summary>
-/// A hydraulic jump between two controls, against an independent solution written out here for a trapezoid: each
+/// A hydraulic jump between two controls, against an independent solution (<see cref="GvfTrapezoid"/>): each
 /// profile's distance to a depth is MathNet's double-exponential quadrature of dx/dy = (1 - Fr^2)/(S0 - Sf) (Chow 1959,
 /// Open-Channel Hydraulics, chapter 9, from memory), a depth at a distance is MathNet's Brent root of that distance, the
 /// sequent depth is Brent's root of the momentum function M(y) = b y^2/2 + z y^3/3 + Q^2/(g A) (Chow 1959, chapter 15,
@@ -15,23 +15,6 @@ namespace FlowSolve.Core.Tests.Channels;
 public class ProfileJumpTests
 {
     private const double G = 9.80665;
-
-    private sealed record Trapezoid(double B, double Z, double N, double Q, double S0)
-    {
-        public double A(double y) => B * y + Z * y * y;
-        public double T(double y) => B + 2 * Z * y;
-        public double P(double y) => B + 2 * y * Math.Sqrt(1 + Z * Z);
-        public double Sf(double y) { double a = A(y), r = a / P(y); return Q * Q * N * N / (a * a * Math.Pow(r, 4.0 / 3)); }
-        public double Fr2(double y) => Q * Q * T(y) / (G * Math.Pow(A(y), 3));
-        public double M(double y) => B * y * y / 2 + Z * y * y * y / 3 + Q * Q / (G * A(y));
-
-        /// <summary>Distance upstream from depth y0 to y along the profile (negative when y lies downstream).</summary>
-        public double Upstream(double y0, double y) => y0 == y ? 0 : Integrate.OnClosedInterval(v => (1 - Fr2(v)) / (Sf(v) - S0), y0, y, 1e-15);
-
-        public double CriticalDepth() => Brent.FindRoot(y => Fr2(y) - 1, 1e-6, 100, 1e-15, 500);
-
-        public double Sequent(double y1, double yc) => Brent.FindRoot(y => M(y) - M(y1), yc, 100, 1e-15, 500);
-    }
 
     /// <summary>The depth of a profile from a control depth y0 at distance d along it (d measured from the control in the
     /// direction the profile runs, positive), the depth lying between y0 and (just short of) the depth it tends to.</summary>
@@ -49,7 +32,7 @@ public class ProfileJumpTests
     public void JumpBetweenAGateAndAWeir_MatchesTheIndependentSolution(double b, double z, double q, double s0, double n,
         double length, double upstreamDepth, double downstreamDepth)
     {
-        var t = new Trapezoid(b, z, n, q, s0);
+        var t = new GvfTrapezoid(b, z, n, q, s0);
         ChannelSection section = z == 0 ? new RectangularSection(b) : new TrapezoidalSection(b, z);
         double yc = t.CriticalDepth();
         var p = GraduallyVariedFlow.ProfileBetween(section, q, s0, n, length, upstreamDepth, downstreamDepth, 21);
@@ -114,7 +97,7 @@ public class ProfileJumpTests
     [Fact]
     public void AHighTailwater_DrownsTheJump_AndTheSubcriticalProfileHoldsAllAlong()
     {
-        var t = new Trapezoid(3, 2, 0.025, 10, 0.001);
+        var t = new GvfTrapezoid(3, 2, 0.025, 10, 0.001);
         var section = new TrapezoidalSection(3, 2);
         double yc = t.CriticalDepth(), upstreamDepth = 0.3, downstreamDepth = 4.0, length = 200;
         double yn = Brent.FindRoot(y => t.Sf(y) - 0.001, 1e-6, 100, 1e-15, 500);
@@ -134,7 +117,7 @@ public class ProfileJumpTests
     {
         // S2 below a gate on a steep slope tends to normal depth; a tailwater barely above critical depth has a sequent
         // depth below the supercritical flow's sequent depth everywhere, so the jump forms beyond the reach.
-        var t = new Trapezoid(3, 2, 0.015, 10, 0.02);
+        var t = new GvfTrapezoid(3, 2, 0.015, 10, 0.02);
         var section = new TrapezoidalSection(3, 2);
         double yc = t.CriticalDepth(), yn = Brent.FindRoot(y => t.Sf(y) - 0.02, 1e-6, 100, 1e-15, 500);
         double upstreamDepth = 0.95 * yc, downstreamDepth = 1.02 * yc, length = 100;

@@ -14,18 +14,6 @@ public class WaterSurfaceProfileTests
 {
     private const double G = 9.80665;
 
-    private sealed record Trapezoid(double B, double Z, double N, double Q, double S0)
-    {
-        public double A(double y) => B * y + Z * y * y;
-        public double T(double y) => B + 2 * Z * y;
-        public double P(double y) => B + 2 * y * Math.Sqrt(1 + Z * Z);
-        public double Sf(double y) { double a = A(y), r = a / P(y); return Q * Q * N * N / (a * a * Math.Pow(r, 4.0 / 3)); }
-        public double Fr2(double y) => Q * Q * T(y) / (G * Math.Pow(A(y), 3));
-
-        /// <summary>Distance upstream from a depth y0 to y (positive upstream), for a downstream control.</summary>
-        public double Upstream(double y0, double y) => y0 == y ? 0 : Integrate.OnClosedInterval(v => (1 - Fr2(v)) / (Sf(v) - S0), y0, y, 1e-15);
-    }
-
     /// <summary>Each station against the independent solution: its depth is the root of the independent distance
     /// function at its distance (Brent between the control depth and, just short of, the depth the profile tends to).</summary>
     private static void AssertStations(WaterSurfaceProfile p, Func<double, double> distanceOf, double y0, double towards, double length)
@@ -47,7 +35,7 @@ public class WaterSurfaceProfileTests
     [Fact]
     public void M1_BackwaterFromAWeir_MatchesTheIndependentSolution()
     {
-        var t = new Trapezoid(3, 2, 0.025, 10, 0.001);
+        var t = new GvfTrapezoid(3, 2, 0.025, 10, 0.001);
         var section = new TrapezoidalSection(3, 2);
         double yn = ManningSolver.NormalDepth(section, 10, 0.001, 0.025).NormalDepth;
         double y0 = 2.5; // held by a weir at the downstream end, above normal depth
@@ -66,7 +54,7 @@ public class WaterSurfaceProfileTests
     [Fact]
     public void M2_Drawdown_MatchesTheIndependentSolution()
     {
-        var t = new Trapezoid(3, 2, 0.025, 10, 0.001);
+        var t = new GvfTrapezoid(3, 2, 0.025, 10, 0.001);
         var section = new TrapezoidalSection(3, 2);
         double yn = ManningSolver.NormalDepth(section, 10, 0.001, 0.025).NormalDepth;
         double yc = CriticalFlow.CriticalDepth(section, 10).CriticalDepth;
@@ -79,7 +67,7 @@ public class WaterSurfaceProfileTests
     [Fact]
     public void M3_BelowAGate_ReachesCriticalDepthInsideTheReach_AndSaysWhere()
     {
-        var t = new Trapezoid(3, 2, 0.025, 10, 0.001);
+        var t = new GvfTrapezoid(3, 2, 0.025, 10, 0.001);
         var section = new TrapezoidalSection(3, 2);
         double yc = CriticalFlow.CriticalDepth(section, 10).CriticalDepth;
         double y0 = 0.3; // below a sluice gate at the upstream end
@@ -104,7 +92,7 @@ public class WaterSurfaceProfileTests
     [Fact]
     public void S2_BelowAChangeOfSlope_MatchesTheIndependentSolution()
     {
-        var t = new Trapezoid(3, 2, 0.015, 10, 0.02);
+        var t = new GvfTrapezoid(3, 2, 0.015, 10, 0.02);
         var section = new TrapezoidalSection(3, 2);
         double yc = CriticalFlow.CriticalDepth(section, 10).CriticalDepth;
         double yn = ManningSolver.NormalDepth(section, 10, 0.02, 0.015).NormalDepth;

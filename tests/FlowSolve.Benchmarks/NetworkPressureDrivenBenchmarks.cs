@@ -39,3 +39,37 @@ public class NetworkPressureDrivenBenchmarks
     [Benchmark]
     public int PressureDriven() => NetworkSolver.Solve(_pressureDriven).Iterations;
 }
+
+/// <summary>The scale of issue 17's part 4: the same heavily loaded grid at about 300 000 pipes and 150 000 junctions,
+/// demand-driven against pressure-driven; a solve that does not converge throws, so a result row is a converged solve.
+/// Run it by hand with a one-shot job (<c>--job dry --inProcess</c>): each solve takes seconds.</summary>
+[MemoryDiagnoser]
+public class NetworkPressureDrivenScaleBenchmarks
+{
+    private NetworkModel _demandDriven = null!, _pressureDriven = null!;
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        var grid = GridNetwork.Create(300_000);
+        Console.WriteLine($"// grid: {grid.Junctions.Count} junctions, {grid.Pipes.Count} pipes");
+        _demandDriven = grid with
+        {
+            Reservoirs = grid.Reservoirs.Select(r => r with { Head = r.Head - 80 }).ToArray(),
+            Junctions = grid.Junctions.Select(j => j with { Demand = 60 * j.Demand }).ToArray(),
+        };
+        _pressureDriven = _demandDriven with { DemandModel = new PressureDrivenDemand(0, 20, 0.5) };
+    }
+
+    private static int Converged(NetworkResult r, string which)
+    {
+        Console.WriteLine($"// {which}: {r.Status}, {r.Iterations} Newton iterations, converged {r.Converged}");
+        return r.Converged ? r.Iterations : throw new InvalidOperationException($"{which} did not converge: {r.Status}");
+    }
+
+    [Benchmark(Baseline = true)]
+    public int DemandDriven() => Converged(NetworkSolver.Solve(_demandDriven), "demand-driven");
+
+    [Benchmark]
+    public int PressureDriven() => Converged(NetworkSolver.Solve(_pressureDriven), "pressure-driven");
+}

@@ -257,19 +257,10 @@ public sealed class FireFlowCalculation : Calculation<FireFlowRequest, FireFlowR
 
     private static ProblemHttpResult? TooLarge(FireFlowRequest r, FlowSolveOptions.LimitSettings limits)
     {
-        int links = (r.Pipes?.Count ?? 0) + (r.Pumps?.Count ?? 0);
-        int nodes = (r.Junctions?.Count ?? 0) + (r.Reservoirs?.Count ?? 0);
-        int max = limits.NetworkMaxPipes;
-        if (links > max || nodes > max)
-        {
-            bool l = links > max;
-            return Problem("The network is too large for this service.",
-                $"The network has {(l ? links : nodes)} {(l ? "links (pipes and pumps)" : "nodes (junctions and reservoirs)")}; this service solves at most {max} (FlowSolve:Limits:NetworkMaxPipes). Split the network or ask the operator to raise the limit.",
-                "networkMaxPipes", max, l ? links : nodes, l ? "pipes" : "junctions");
-        }
+        if (NetworkSolveCalculation.SizeOver(r.Junctions, r.Reservoirs, r.Pipes, r.Pumps, limits) is { } size) return size;
         int cases = r.DemandMultipliers?.Count ?? 1;
         if (cases > limits.NetworkMaxDemandMultipliers)
-            return Problem("Too many load cases.",
+            return NetworkSolveCalculation.LimitExceeded("Too many load cases.",
                 $"demandMultipliers holds {cases} load cases; this service reads at most {limits.NetworkMaxDemandMultipliers} (FlowSolve:Limits:NetworkMaxDemandMultipliers); the fire flow uses the first only.",
                 "networkMaxDemandMultipliers", limits.NetworkMaxDemandMultipliers, cases, "demandMultipliers");
         if (r.FireFlow?.Junctions is { } asked && asked.Count > limits.NetworkMaxFireFlowJunctions)
@@ -278,13 +269,7 @@ public sealed class FireFlowCalculation : Calculation<FireFlowRequest, FireFlowR
     }
 
     private static ProblemHttpResult LimitExceeded(int asked, int maximum) =>
-        Problem("Too many fire-flow junctions.",
+        NetworkSolveCalculation.LimitExceeded("Too many fire-flow junctions.",
             $"The request asks for the fire flow at {asked} junctions; this service answers at most {maximum} in one request (FlowSolve:Limits:NetworkMaxFireFlowJunctions). Name fewer junctions in fireFlow.junctions and send the rest in further requests.",
             "networkMaxFireFlowJunctions", maximum, asked, "fireFlow.junctions");
-
-    private static ProblemHttpResult Problem(string title, FormattableString detail, string limit, long maximum, long given, string field) =>
-        TypedResults.Problem(statusCode: StatusCodes.Status413PayloadTooLarge, title: title,
-            detail: FormattableString.Invariant(detail),
-            type: "https://flowsolve.example/problems/limit-exceeded",
-            extensions: new Dictionary<string, object?> { ["limit"] = limit, ["maximum"] = maximum, ["given"] = given, ["field"] = field });
 }

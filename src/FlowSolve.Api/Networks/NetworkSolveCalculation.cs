@@ -101,17 +101,8 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
 
     private static ProblemHttpResult? TooLarge(NetworkSolveRequest r, FlowSolveOptions.LimitSettings limits)
     {
-        int links = (r.Pipes?.Count ?? 0) + (r.Pumps?.Count ?? 0);
-        int nodes = (r.Junctions?.Count ?? 0) + (r.Reservoirs?.Count ?? 0);
+        if (SizeOver(r.Junctions, r.Reservoirs, r.Pipes, r.Pumps, limits) is { } size) return size;
         int cases = r.DemandMultipliers?.Count ?? 1;
-        int max = limits.NetworkMaxPipes;
-        if (links > max || nodes > max)
-        {
-            bool l = links > max;
-            return LimitExceeded("The network is too large for this service.",
-                $"The network has {(l ? links : nodes)} {(l ? "links (pipes and pumps)" : "nodes (junctions and reservoirs)")}; this service solves at most {max} (FlowSolve:Limits:NetworkMaxPipes). Split the network or ask the operator to raise the limit.",
-                "networkMaxPipes", max, l ? links : nodes, l ? "pipes" : "junctions");
-        }
         int maxCases = limits.NetworkMaxDemandMultipliers;
         if (cases > maxCases)
             return LimitExceeded("Too many load cases.",
@@ -127,7 +118,23 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
     }
 
     /// <summary>413 for a configured network limit: which limit, its maximum, what the request asked for, and the field.</summary>
-    private static ProblemHttpResult LimitExceeded(string title, FormattableString detail, string limit, long maximum, long given, string field) =>
+    /// <summary>413 for a network with more links (pipes and pumps) or nodes (junctions and reservoirs) than
+    /// FlowSolve:Limits:NetworkMaxPipes, or null; every route that takes a network document checks it first.</summary>
+    internal static ProblemHttpResult? SizeOver<TJunction, TReservoir, TPipe, TPump>(IReadOnlyList<TJunction>? junctions,
+        IReadOnlyList<TReservoir>? reservoirs, IReadOnlyList<TPipe>? pipes, IReadOnlyList<TPump>? pumps, FlowSolveOptions.LimitSettings limits)
+    {
+        int links = (pipes?.Count ?? 0) + (pumps?.Count ?? 0);
+        int nodes = (junctions?.Count ?? 0) + (reservoirs?.Count ?? 0);
+        int max = limits.NetworkMaxPipes;
+        if (links <= max && nodes <= max) return null;
+        bool l = links > max;
+        return LimitExceeded("The network is too large for this service.",
+            $"The network has {(l ? links : nodes)} {(l ? "links (pipes and pumps)" : "nodes (junctions and reservoirs)")}; this service solves at most {max} (FlowSolve:Limits:NetworkMaxPipes). Split the network or ask the operator to raise the limit.",
+            "networkMaxPipes", max, l ? links : nodes, l ? "pipes" : "junctions");
+    }
+
+    /// <summary>A 413 problem naming the limit, its maximum, what was given and the field.</summary>
+    internal static ProblemHttpResult LimitExceeded(string title, FormattableString detail, string limit, long maximum, long given, string field) =>
         TypedResults.Problem(statusCode: StatusCodes.Status413PayloadTooLarge, title: title,
             detail: FormattableString.Invariant(detail),
             type: "https://flowsolve.example/problems/limit-exceeded",

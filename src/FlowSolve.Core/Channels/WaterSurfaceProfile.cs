@@ -246,26 +246,25 @@ public static class GraduallyVariedFlow
         double lo = Math.Max(0, length - upper.End), hi = Math.Min(length, lower.End);
         var jumpFunction = new JumpFunction(section, flow, length, upper, lower, yc);
         int iterations = 0;
-        double found = double.NaN, previous = double.NaN;
-        if (lo < hi)
+        // Scanning downstream from the upstream end, the first x with F(x) <= 0 brackets the jump with the point before
+        // it. F(hi) <= 0 drowns the jump against the upstream control; no sign change down to lo sweeps it out.
+        double found = double.NaN, previous = double.NaN, fFound = double.NaN;
+        bool drowned = !(lo < hi) || jumpFunction.Value(hi) <= 0;
+        if (!drowned)
         {
-            double fHi = jumpFunction.Value(hi);
-            if (fHi > 0)
+            const int Scan = 64;
+            previous = hi;
+            for (int k = 1; k <= Scan; k++)
             {
-                const int Scan = 64;
-                previous = hi;
-                for (int k = 1; k <= Scan; k++)
-                {
-                    double x = hi - (hi - lo) * k / Scan;
-                    if (jumpFunction.Value(x) <= 0) { found = x; break; }
-                    previous = x;
-                }
+                double x = hi - (hi - lo) * k / Scan;
+                double f = jumpFunction.Value(x);
+                if (f <= 0) { (found, fFound) = (x, f); break; }
+                previous = x;
             }
         }
-        if (double.IsNaN(found) || double.IsNaN(previous))
+        if (double.IsNaN(found))
         {
             // No jump in the reach: one profile holds all along.
-            bool drowned = !(lo < hi) || jumpFunction.Value(hi) <= 0;
             var single = drowned
                 ? Profile(section, flow, slope, manningN, length, downstreamDepth, controlDownstream: true, stations)
                 : Profile(section, flow, slope, manningN, length, upstreamDepth, controlDownstream: false, stations);
@@ -280,7 +279,7 @@ public static class GraduallyVariedFlow
 
         double xj;
         int jumpIterations = 0;
-        if (jumpFunction.Value(found) == 0)
+        if (fFound == 0)
         {
             xj = found;
         }

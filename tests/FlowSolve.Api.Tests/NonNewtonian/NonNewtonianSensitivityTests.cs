@@ -7,8 +7,8 @@ namespace FlowSolve.Api.Tests.NonNewtonian;
 /// <summary>
 /// sensitivities=true on the three non-Newtonian routes: every entry against a central difference of the same
 /// calculation through the service (<see cref="SensitivityHarness"/>), in every regime: the power law laminar, just
-/// above the critical Reynolds number (the warned band) and turbulent; Bingham plastics at low and high Hedstrom
-/// numbers, near the transition and close to the plug limit. Every case lies at least 1 percent in Re from the power
+/// above the critical Reynolds number (the warned band) and turbulent; Bingham plastics at Hedstrom numbers from 1000
+/// to 2e5, near the transition and close to the plug limit. Every case lies at least 1 percent in Re from the power
 /// law's jump at Re_c (the harness steps by 0.1 percent), where there is no derivative.
 /// </summary>
 public sealed class NonNewtonianSensitivityTests(ApiFixture api)
@@ -16,6 +16,7 @@ public sealed class NonNewtonianSensitivityTests(ApiFixture api)
     private static JsonObject J(string json) => JsonNode.Parse(json)!.AsObject();
 
     private const string Mud = "\"model\": \"power-law\", \"density\": 1200.0, \"consistencyIndex\": 0.5, \"flowBehaviorIndex\": 0.6";
+    private const string Water = "\"model\": \"bingham-plastic\", \"density\": 1000.0, \"yieldStress\": 0.01, \"plasticViscosity\": 0.005";
     private const string Thin = "\"model\": \"bingham-plastic\", \"density\": 1100.0, \"yieldStress\": 0.2, \"plasticViscosity\": 0.004";
     private const string Slurry = "\"model\": \"bingham-plastic\", \"density\": 1100.0, \"yieldStress\": 0.5, \"plasticViscosity\": 0.01";
     private const string Paste = "\"model\": \"bingham-plastic\", \"density\": 1450.0, \"yieldStress\": 25.0, \"plasticViscosity\": 0.06";
@@ -47,7 +48,9 @@ public sealed class NonNewtonianSensitivityTests(ApiFixture api)
         { "power-law laminar", false, "{" + Mud + ", \"velocity\": 1.0, \"diameter\": 0.1}", "laminar", "metzner-reed-laminar" },
         { "power-law warned band, turbulent side", true, "{" + Mud + ", \"velocity\": 5.8, \"diameter\": 0.1}", "turbulent", "dodge-metzner" },
         { "power-law turbulent", false, "{" + Mud + ", \"velocity\": 12.0, \"diameter\": 0.1}", "turbulent", "dodge-metzner" },
-        { "bingham low He, turbulent", true, "{" + Thin + ", \"velocity\": 3.0, \"diameter\": 0.1}", "turbulent", "darby-mun-boger" },
+        { "bingham He 1000, turbulent", true, "{" + Water + ", \"velocity\": 3.0, \"diameter\": 0.05}", "turbulent", "darby-mun-boger" },
+        { "bingham He 1000, laminar", false, "{" + Water + ", \"velocity\": 0.1, \"diameter\": 0.05}", "laminar", "darby-mun-boger" },
+        { "bingham He 1.4e5, turbulent", true, "{" + Thin + ", \"velocity\": 3.0, \"diameter\": 0.1}", "turbulent", "darby-mun-boger" },
         { "bingham low He, near transition", false, "{" + Slurry + ", \"velocity\": 0.6, \"diameter\": 0.05}", "laminar", "darby-mun-boger" },
         { "bingham high He, laminar", false, "{" + Paste + ", \"velocity\": 1.7, \"diameter\": 0.15}", "laminar", "darby-mun-boger" },
         { "bingham high He, plug-like", true, "{" + Paste + ", \"velocity\": 0.05, \"diameter\": 0.15}", "laminar", "darby-mun-boger" },
@@ -68,7 +71,8 @@ public sealed class NonNewtonianSensitivityTests(ApiFixture api)
         { "power-law laminar", false, "{" + Mud + ", \"flow\": 0.005, \"diameter\": 0.1, \"length\": 800.0, \"minorLossCoefficient\": 3.5}", "laminar" },
         { "power-law warned band, turbulent side", true, "{" + Mud + ", \"flow\": 0.047, \"diameter\": 0.1, \"length\": 800.0, \"minorLossCoefficient\": 3.5}", "turbulent" },
         { "power-law turbulent", false, "{" + Mud + ", \"flow\": 0.1, \"diameter\": 0.1, \"length\": 800.0, \"minorLossCoefficient\": 3.5}", "turbulent" },
-        { "bingham low He", true, "{" + Thin + ", \"flow\": 0.02, \"diameter\": 0.1, \"length\": 800.0, \"minorLossCoefficient\": 3.5}", "turbulent" },
+        { "bingham He 1000, turbulent", true, "{" + Water + ", \"flow\": 0.005, \"diameter\": 0.05, \"length\": 800.0, \"minorLossCoefficient\": 3.5}", "turbulent" },
+        { "bingham He 1.4e5", true, "{" + Thin + ", \"flow\": 0.02, \"diameter\": 0.1, \"length\": 800.0, \"minorLossCoefficient\": 3.5}", "turbulent" },
         { "bingham high He, laminar", false, "{" + Paste + ", \"flow\": 0.03, \"diameter\": 0.15, \"length\": 1200.0, \"minorLossCoefficient\": 4.5}", "laminar" },
         { "bingham high He, plug-like", true, "{" + Paste + ", \"flow\": 0.001, \"diameter\": 0.15, \"length\": 1200.0, \"minorLossCoefficient\": 4.5}", "laminar" },
     };

@@ -60,8 +60,8 @@ public static class NonNewtonianSensitivity
     {
         var lnV = Grad.Unit(Grad.Given, 1 / velocity);
         var (lnRe, lnF) = Friction(fluid, velocity, diameter, friction, lnV);
-        var f = (lnF * friction.Darcy).ToPartials(fluid, pipe: false);
-        return new(f, f, (lnRe * friction.Reynolds).ToPartials(fluid, pipe: false), (lnV * velocity).ToPartials(fluid, pipe: false));
+        var f = Grad.ToPartials(lnF * friction.Darcy, fluid, pipe: false);
+        return new(f, f, Grad.ToPartials(lnRe * friction.Reynolds, fluid, pipe: false), Grad.ToPartials(lnV * velocity, fluid, pipe: false));
     }
 
     /// <summary>Sensitivities of a head loss (<see cref="NonNewtonianPipe.HeadLoss"/>): Output is the head loss in m;
@@ -75,8 +75,8 @@ public static class NonNewtonianSensitivity
         in NonNewtonianHeadLoss state)
     {
         var g = HeadLoss(fluid, length, diameter, state);
-        return new(g.H.ToPartials(fluid, pipe: true), (g.LnF * state.Friction.Darcy).ToPartials(fluid, pipe: true),
-            (g.LnRe * state.Friction.Reynolds).ToPartials(fluid, pipe: true), (g.LnV * state.Velocity).ToPartials(fluid, pipe: true));
+        return new(Grad.ToPartials(g.H, fluid, pipe: true), Grad.ToPartials(g.LnF * state.Friction.Darcy, fluid, pipe: true),
+            Grad.ToPartials(g.LnRe * state.Friction.Reynolds, fluid, pipe: true), Grad.ToPartials(g.LnV * state.Velocity, fluid, pipe: true));
     }
 
     /// <summary>Sensitivities of the flow that meets a head loss (<see cref="NonNewtonianPipe.Flow"/>): Output is the flow
@@ -104,8 +104,8 @@ public static class NonNewtonianSensitivity
             t[Grad.Given] = yq * dq[Grad.Given];
             return t;
         }
-        return new(dq.ToPartials(fluid, pipe: true), (Total(g.LnF) * state.Friction.Darcy).ToPartials(fluid, pipe: true),
-            (Total(g.LnRe) * state.Friction.Reynolds).ToPartials(fluid, pipe: true), (Total(g.LnV) * state.Velocity).ToPartials(fluid, pipe: true));
+        return new(Grad.ToPartials(dq, fluid, pipe: true), Grad.ToPartials(Total(g.LnF) * state.Friction.Darcy, fluid, pipe: true),
+            Grad.ToPartials(Total(g.LnRe) * state.Friction.Reynolds, fluid, pipe: true), Grad.ToPartials(Total(g.LnV) * state.Velocity, fluid, pipe: true));
     }
 
     /// <summary>Gradients at a flow Q (Given slot = Q): ln V, ln Re, ln f, and h itself (not its logarithm).</summary>
@@ -157,49 +157,41 @@ public static class NonNewtonianSensitivity
         }
     }
 
-    /// <summary>A gradient over the inputs: Given (velocity, flow or head loss), D, L, K, rho, K_c, n, tau0, mu_p.</summary>
-    private readonly struct Grad
+    /// <summary>A gradient over the inputs: Given (velocity, flow or head loss), D, L, K, rho, K_c, n, tau0, mu_p. An inline
+    /// array, so the arithmetic allocates nothing.</summary>
+    [System.Runtime.CompilerServices.InlineArray(Count)]
+    private struct Grad
     {
         public const int Given = 0, D = 1, L = 2, K = 3, Rho = 4, Kc = 5, N = 6, Tau0 = 7, Mu = 8, Count = 9;
-        private readonly double[] _v;
-
-        private Grad(double[] v) => _v = v;
-
-        public double this[int i]
-        {
-            get => _v[i];
-            set => _v[i] = value;
-        }
+        private double _element;
 
         public static Grad Unit(int slot, double value)
         {
-            var v = new double[Count];
-            v[slot] = value;
-            return new Grad(v);
+            var g = new Grad();
+            g[slot] = value;
+            return g;
         }
 
         public static Grad operator +(Grad a, Grad b)
         {
-            var v = new double[Count];
-            for (int i = 0; i < Count; i++) v[i] = a._v[i] + b._v[i];
-            return new Grad(v);
+            var g = new Grad();
+            for (int i = 0; i < Count; i++) g[i] = a[i] + b[i];
+            return g;
         }
 
         public static Grad operator *(Grad a, double s)
         {
-            var v = new double[Count];
-            for (int i = 0; i < Count; i++) v[i] = a._v[i] * s;
-            return new Grad(v);
+            var g = new Grad();
+            for (int i = 0; i < Count; i++) g[i] = a[i] * s;
+            return g;
         }
 
         /// <summary>As partials, NaN where the input does not apply.</summary>
-        public NonNewtonianPartials ToPartials(in NonNewtonianFluid fluid, bool pipe)
+        public static NonNewtonianPartials ToPartials(in Grad g, in NonNewtonianFluid fluid, bool pipe)
         {
             bool power = fluid.Model == RheologyModel.PowerLaw;
-            var v = _v;
-            double Pick(int i, bool applies) => applies ? v[i] : double.NaN;
-            return new NonNewtonianPartials(_v[Given], _v[D], Pick(L, pipe), Pick(K, pipe), _v[Rho],
-                Pick(Kc, power), Pick(N, power), Pick(Tau0, !power), Pick(Mu, !power));
+            return new NonNewtonianPartials(g[Given], g[D], pipe ? g[L] : double.NaN, pipe ? g[K] : double.NaN, g[Rho],
+                power ? g[Kc] : double.NaN, power ? g[N] : double.NaN, power ? double.NaN : g[Tau0], power ? double.NaN : g[Mu]);
         }
     }
 }

@@ -209,4 +209,20 @@ public sealed class NonNewtonianSensitivityTests(ApiFixture api)
         Assert.False(r.Body.GetProperty("sensitivities").GetProperty("frictionFactor").GetProperty("yieldStress").TryGetProperty("elasticity", out var e)
             && e.ValueKind == System.Text.Json.JsonValueKind.Number);
     }
+
+    [Fact]
+    public async Task Sensitivities_Batch_RefusedByName_AndNoColumnInCsv()
+    {
+        // Batches never carry sensitivities: asking is a 400 naming the option (not silently ignored), and the CSV
+        // answer has no sensitivity column.
+        const string csvBody = "model,density,yieldStress,plasticViscosity,headLoss,diameter,length\r\nbingham-plastic,1450,25,0.06,80,0.15,1200\r\n";
+        var refused = await api.PostRaw("/v1/batch/non-newtonian/flow?sensitivities=true", csvBody, "text/csv");
+        ProblemAssert.NamesField(refused, 400, "sensitivities");
+        using var content = new StringContent(csvBody, System.Text.Encoding.UTF8, "text/csv");
+        using var response = await api.Client.PostAsync("/v1/batch/non-newtonian/flow", content, TestContext.Current.CancellationToken);
+        Assert.Equal(200, (int)response.StatusCode);
+        string header = (await response.Content.ReadAsStringAsync(TestContext.Current.CancellationToken)).Split("\r\n")[0];
+        Assert.Contains("flow", header.Split(','));
+        Assert.DoesNotContain("sensitivities", header);
+    }
 }

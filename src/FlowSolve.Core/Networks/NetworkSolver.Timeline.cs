@@ -137,6 +137,20 @@ public sealed partial class NetworkSolver
     /// <param name="iterations">Newton iterations of this solve.</param>
     internal NetworkStatus SolveTimeline(out int iterations)
     {
+        bool warm = _warm;
+        var status = SolveTimelineOnce(out iterations);
+        if (status.HasAnswer() || !warm || status == NetworkStatus.NoPathToFixedHead) return status;
+        // A warm start can fail where a cold one succeeds: the statuses are held during each Newton solve, so a check
+        // valve (or stopped pump) that closed earlier and must now open, because a tank went still or a control shut a
+        // pipe, leaves a junction whose demand no open link can bring. The cold start opens every one of them.
+        int first = iterations;
+        status = SolveTimelineOnce(out iterations);
+        iterations += first;
+        return status;
+    }
+
+    private NetworkStatus SolveTimelineOnce(out int iterations)
+    {
         var record = _timelineRecord!;
         record.Clear();
         iterations = 0;

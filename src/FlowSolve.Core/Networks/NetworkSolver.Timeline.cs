@@ -108,6 +108,9 @@ public sealed partial class NetworkSolver
     internal int PumpLink(int k) => _pipes + k;
     internal int ValveLink(int k) => _pumpEnd + k;
 
+    /// <summary>The next solve starts from the default start (the known heads kept).</summary>
+    internal void ForgetState() => _warm = false;
+
     /// <summary>Head of node j, m.</summary>
     internal double NodeHead(int j) => _head[j];
 

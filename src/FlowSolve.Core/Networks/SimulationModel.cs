@@ -72,7 +72,12 @@ public sealed record SimulationOptions(
     double LevelTolerance = 2e-5,
     double EventTimeTolerance = 0.01,
     int MaxSteps = 100_000,
-    NetworkOptions? Network = null);
+    NetworkOptions? Network = null)
+{
+    /// <summary>Every network solve from the default start instead of the previous state (for measuring what the warm
+    /// start saves; slower, same answers to the solve's tolerances).</summary>
+    internal bool ColdStarts { get; init; }
+}
 
 /// <summary>Why an extended-period run stopped.</summary>
 public enum SimulationStatus

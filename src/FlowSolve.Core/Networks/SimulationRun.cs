@@ -309,6 +309,7 @@ internal sealed class SimulationRun
     {
         for (int i = 0; i < _tankCount; i++)
             if (_held[i] == 0) _solver.SetKnownHead(_tankNode[i], _bottom[i] + y[i]);
+        if (_options.ColdStarts) _solver.ForgetState();
         _lastStatus = _solver.SolveTimeline(out int iterations);
         _solves++;
         _stepSolves++;

@@ -370,6 +370,87 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
             result.Reports[^1].Network.Pump("lift").Flow, 1e-7);
     }
 
+    /// <summary>The Darcy-Weisbach loss of a pipe at flow q &gt; 0 (turbulent), friction by Colebrook-White.</summary>
+    private static double PipeLoss(double q, double length, double diameter, double roughness)
+    {
+        double v = q / (Math.PI * diameter * diameter / 4);
+        return Colebrook(v * diameter / Water, roughness / diameter) * length / diameter * v * v / (2 * G);
+    }
+
+    // A full tank passing water on (invented): reservoir (50 m) - 600 m of 200 mm - tank "upper" (bottom 20 m, full at
+    // 10 m, 6 m across) - 400 m of 250 mm - tank "lower" (bottom 0, 28 m of 0.5 to 30 m, 10 m across) - 50 m of 300 mm -
+    // junction "village" drawing 0.15 m3/s. While "upper" is held full it is a junction of the through line; it is
+    // released when the head there falls below its full head, 30 m, as "lower" drains.
+    private const double ThroughDemand = 0.15;
+    private static readonly double UpperArea = Math.PI * 9, LowerArea = Math.PI * 25;
+
+    [Fact]
+    public void Run_HeldTankReleasedAsAnotherDrains_ReleaseTimeMatchesQuadrature()
+    {
+        const double duration = 7200;
+        var model = Run(
+            Network([new Junction("village", 0, ThroughDemand)], [new Reservoir("source", 50)],
+                [new NetworkPipe("in", "source", "upper", 600, 0.2, 1e-4), new NetworkPipe("through", "upper", "lower", 400, 0.25, 1e-4),
+                 new NetworkPipe("out", "lower", "village", 50, 0.3, 1e-4)]),
+            [new Tank("upper", 20, 10, 0, 10, 6), new Tank("lower", 0, 28, 0.5, 30, 10)], duration, 600);
+        var result = Simulate(model);
+        Assert.Equal(SimulationStatus.Completed, result.Status);
+
+        // Held: the through flow Q(H) from 50 - H = loss_in(Q) + loss_through(Q) (Brent); released when the head at the
+        // upper tank, 50 - loss_in(Q), reaches 30 m, that is when the lower tank's head reaches 30 - loss_through(Q*),
+        // loss_in(Q*) = 20 m; the time by MathNet quadrature of A dh / (Q(h) - d).
+        double Through(double lowerHead) => Brent.FindRoot(q => PipeLoss(q, 600, 0.2, 1e-4) + PipeLoss(q, 400, 0.25, 1e-4) - (50 - lowerHead), 0.01, 1, 1e-14, 300);
+        double qStar = Brent.FindRoot(q => PipeLoss(q, 600, 0.2, 1e-4) - 20, 0.01, 1, 1e-14, 300);
+        double releaseHead = 30 - PipeLoss(qStar, 400, 0.25, 1e-4);
+        double releaseTime = Integrate.DoubleExponential(h => LowerArea / (ThroughDemand - Through(h)), releaseHead, 28, 1e-8);
+
+        // After the release: both levels by MathNet's Runge-Kutta (0.25 s steps) from the release state.
+        double[] Rate(double upper, double lower)
+        {
+            double qIn = PipeFlow(50 - (20 + upper), 600, 0.2, 1e-4);
+            double qThrough = PipeFlow(20 + upper - lower, 400, 0.25, 1e-4);
+            return [(qIn - qThrough) / UpperArea, (qThrough - ThroughDemand) / LowerArea];
+        }
+        var after = RungeKutta.FourthOrder(Vector(10, releaseHead), releaseTime, duration, (int)((duration - releaseTime) / 0.25) + 1,
+            (_, y) => Vector(Rate(y[0], y[1])));
+        double spacing = (duration - releaseTime) / (after.Length - 1);
+
+        double worst = 0;
+        foreach (var report in result.Reports)
+        {
+            var (upper, lower) = (report.Tanks[0], report.Tanks[1]);
+            if (report.Time < releaseTime)
+            {
+                Assert.Equal((10.0, "full"), (upper.Level, upper.AtLimit));
+                // The lower tank while the upper is held: t(h) by quadrature, inverted with Brent.
+                double level = report.Time == 0 ? 28 : Brent.FindRoot(
+                    h => Integrate.DoubleExponential(x => LowerArea / (ThroughDemand - Through(x)), h, 28, 1e-9) - report.Time, releaseHead - 1, 28, 1e-10, 200);
+                worst = Math.Max(worst, Math.Abs(lower.Level - level));
+            }
+            else
+            {
+                Assert.Null(upper.AtLimit);
+                int k = (int)Math.Round((report.Time - releaseTime) / spacing);
+                var y = after[k];
+                // The reference state nearest the report time, moved along its rate to the report time.
+                double dt = report.Time - (releaseTime + k * spacing);
+                var r = Rate(y[0], y[1]);
+                worst = Math.Max(worst, Math.Abs(upper.Level - (y[0] + dt * r[0])));
+                worst = Math.Max(worst, Math.Abs(lower.Level - (y[1] + dt * r[1])));
+            }
+        }
+        var held = Assert.Single(result.Events);
+        Assert.Equal((0.0, "tank-full", "upper"), (held.Time, held.Kind, held.ElementId));
+        // The release is not an announced event; the step that ends there is.
+        var release = result.Steps.Select(st => st.End).MinBy(e => Math.Abs(e - releaseTime));
+        output.WriteLine($"release at {release:F3} s against {releaseTime:F3} s by quadrature; largest level error {worst:E3} m; {result.Steps.Count} steps, {result.NetworkSolves} solves");
+        Assert.True(Math.Abs(release - releaseTime) <= 1, $"released at {release} s, quadrature {releaseTime} s");
+        Assert.True(worst <= 1e-3, $"level error {worst} m");
+    }
+
+    private static MathNet.Numerics.LinearAlgebra.Vector<double> Vector(params double[] values) =>
+        MathNet.Numerics.LinearAlgebra.Vector<double>.Build.DenseOfArray(values);
+
     [Fact]
     public void Validate_ControlOnUnknownLink_NamesIt()
     {

@@ -452,6 +452,54 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
         MathNet.Numerics.LinearAlgebra.Vector<double>.Build.DenseOfArray(values);
 
     [Fact]
+    public void Run_TankFedThroughPressureReducingValve_MatchesRungeKutta()
+    {
+        // A reservoir at 80 m feeds a pressure-reducing valve that holds junction "valve-out" (elevation 0) at 35 m of
+        // pressure head; from there the fill case's pipe and tank. The tank then fills at Q(35 - 20 - h) / A.
+        var model = FillModel(7200) with
+        {
+            Network = Network([new Junction("valve-out", 0, 0)], [new Reservoir("source", 80)],
+                [new NetworkPipe("feed", "valve-out", "hill", FillLength, FillPipe, FillRoughness)])
+                with { Valves = [new ControlValve("prv", "source", "valve-out", 0.3, ControlValveType.PressureReducing, 35)] },
+        };
+        var result = Simulate(model);
+        Assert.Equal(SimulationStatus.Completed, result.Status);
+        double Rate(double h) => PipeFlow(35 - FillBottom - h, FillLength, FillPipe, FillRoughness) / FillArea;
+        double fillTime = Integrate.DoubleExponential(h => 1 / Rate(h), FillStart, FillTop, 1e-8);
+        double end = Math.Min(7200, Math.Floor(fillTime / 600) * 600);
+        var reference = RungeKutta.FourthOrder(FillStart, 0, end, (int)(end / 600) * 2400 + 1, (_, y) => Rate(y));
+        double worst = 0;
+        foreach (var report in result.Reports.Where(r => r.Time <= end))
+        {
+            Assert.Equal(ValveState.Active, report.Network.Valves[0].State);
+            worst = Math.Max(worst, Math.Abs(report.Tanks[0].Level - reference[(int)Math.Round(report.Time / 600) * 2400]));
+        }
+        output.WriteLine($"valve-fed fill: largest level error {worst:E3} m, fill time {fillTime:F1} s");
+        Assert.True(worst <= 1e-3, $"level error {worst} m");
+        if (fillTime < 7200)
+            Assert.True(Math.Abs(Assert.Single(result.Events).Time - fillTime) <= 1);
+    }
+
+    [Fact]
+    public void Run_WarmStarts_SaveNewtonIterationsAndGiveTheSameLevels()
+    {
+        // Property: starting each network solve from the previous state changes nothing beyond the solves' tolerances
+        // and takes fewer Newton iterations than starting every solve from the default start.
+        var model = BoosterModel(4 * 3600,
+            [new NetworkControl("lift", new ControlAction(false, null), new ControlCondition("high", null, 6, null))]);
+        var warm = Simulate(model);
+        var cold = Simulate(model, new SimulationOptions { ColdStarts = true });
+        Assert.True(warm.Completed && cold.Completed);
+        Assert.Equal(warm.Reports.Count, cold.Reports.Count);
+        for (int k = 0; k < warm.Reports.Count; k++)
+            for (int i = 0; i < 2; i++)
+                Assert.Equal(cold.Reports[k].Tanks[i].Level, warm.Reports[k].Tanks[i].Level, 1e-7);
+        int warmIterations = warm.Steps.Sum(s => s.NetworkIterations), coldIterations = cold.Steps.Sum(s => s.NetworkIterations);
+        output.WriteLine($"Newton iterations in the steps: warm {warmIterations} ({warm.NetworkSolves} solves), cold {coldIterations} ({cold.NetworkSolves} solves)");
+        Assert.True(warmIterations < coldIterations);
+    }
+
+    [Fact]
     public void Validate_ControlOnUnknownLink_NamesIt()
     {
         var model = DrainModel() with

@@ -16,9 +16,17 @@ namespace FlowSolve.Core.Networks;
 /// safeguarded Newton (<see cref="Numerics.SafeguardedNewton"/>) to within <see cref="SimulationOptions.EventTimeTolerance"/>;
 /// the step is then taken again to the event, the event applied, and the integration restarted from it.</para>
 /// <para>A full tank is held at its limit with zero net inflow (a free junction of zero demand) for as long as its
-/// connections would fill it further, an empty one likewise; each is released when its free head falls below (rises
-/// above) the limit's head, checked at every step end. Each event is announced once: a control or a tank limit is
-/// re-armed only when the level has moved back by more than ten level tolerances (at least 1 um) from its threshold.</para>
+/// connections would fill it further, an empty one likewise; it is released when its free head falls below (rises
+/// above) the limit's head: at a pattern boundary or control at once, and within a step at the root in time of that
+/// head difference, found by regula falsi (Illinois) with a network solve at the interpolated levels per iteration.
+/// Each event is announced once: a control or a tank limit is re-armed only when the level has moved back by more than
+/// ten level tolerances (at least 1 um) from its threshold, and a tank changes between held and moving at most once per
+/// instant.</para>
+/// <para>Every solve starts from the previous one (warm start); a warm solve that fails is repeated from the default
+/// start once (a check valve closed earlier may have to open), and a stage whose solve still fails shortens the step
+/// (to a quarter, down to four event-time tolerances) before the run stops with
+/// <see cref="SimulationStatus.NetworkNotConverged"/>. Controls act on pipes (open, closed) and pumps (open, closed,
+/// speedRatio; opening a pump whose speed is 0 runs it at rated speed); control valves cannot be switched.</para>
 /// <para>The results are engineering estimates to be checked by a qualified engineer; tank levels and flows are
 /// modelled, not water quality, surge or water hammer.</para>
 /// </remarks>

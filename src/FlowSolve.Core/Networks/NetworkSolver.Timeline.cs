@@ -288,8 +288,9 @@ public sealed partial class NetworkSolver
         var warnings = new List<NetworkWarning>(full.Warnings.Count);
         foreach (var w in full.Warnings)
             if (w.Code != NetworkWarningCode.NegativePressure || !(NodeOf(w.ElementId) is int k && k >= 0 && isTank[k])) warnings.Add(w);
-        return new NetworkResult(full.Status, 1.0, [.. full.Pipes], [.. full.Pumps], junctions.ToArray(), reservoirs.ToArray(),
-            [.. full.Record], full.StatusPasses, [.. full.UnsuppliedJunctions], [.. full.PumpsUnableToLift], warnings.ToArray(),
+        // The tables Report built are handed on as they are (they are arrays no one else holds).
+        return new NetworkResult(full.Status, 1.0, (PipeResult[])full.Pipes, (PumpResult[])full.Pumps, junctions.ToArray(), reservoirs.ToArray(),
+            (NetworkIteration[])full.Record, full.StatusPasses, (string[])full.UnsuppliedJunctions, (string[])full.PumpsUnableToLift, warnings.ToArray(),
             _linkIndex, index) { DemandModel = full.DemandModel, Valves = full.Valves };
     }
 }

@@ -26,7 +26,8 @@ namespace FlowSolve.Core.Networks;
 /// start once (a check valve closed earlier may have to open), and a stage whose solve still fails shortens the step
 /// (to a quarter, down to four event-time tolerances) before the run stops with
 /// <see cref="SimulationStatus.NetworkNotConverged"/>. Controls act on pipes (open, closed) and pumps (open, closed,
-/// speedRatio; opening a pump whose speed is 0 runs it at rated speed); control valves cannot be switched.</para>
+/// speedRatio; opening a pump whose speed is 0 runs it at rated speed) and control valves (closed: shut whatever the
+/// heads; open: regulating again).</para>
 /// <para>The results are engineering estimates to be checked by a qualified engineer; tank levels and flows are
 /// modelled, not water quality, surge or water hammer.</para>
 /// </remarks>
@@ -121,8 +122,6 @@ public static class NetworkSimulator
             bool isPipe = pipes.Contains(link), isPump = pumps.Contains(link), isValve = valves.Contains(link);
             if (!isPipe && !isPump && !isValve)
                 issues.Add(new(link, "unknown-link", $"control {i}: link '{link}' is not a pipe, pump or valve"));
-            else if (isValve)
-                issues.Add(new(link, "unsupported-control", $"control {i}: valve '{link}' cannot be switched by a control; switch the pipe beside it"));
             var set = control.Set;
             if (set is null || (set.Open is null) == (set.SpeedRatio is null))
                 issues.Add(new(link, "bad-control-action", $"control {i} on '{link}': set exactly one of status and speedRatio"));

@@ -19,8 +19,8 @@ public sealed partial class NetworkSolver
     private bool[] _shut = [];        // per link: a pipe shut (by the model or a control); empty: the model's Closed
     private List<NetworkIteration>? _timelineRecord;
 
-    /// <summary>A pipe shut by the model or, in a timeline, by a control.</summary>
-    private bool IsShut(int l) => _shut.Length > 0 ? _shut[l] : _model.Pipes[l].Closed;
+    /// <summary>A pipe shut by the model or, in a timeline, a pipe or control valve shut by a control.</summary>
+    private bool IsShut(int l) => _shut.Length > 0 ? _shut[l] : l < _pipes && _model.Pipes[l].Closed;
 
     /// <summary>Identity rows for the known heads: no correction of a known head.</summary>
     private void ImposeKnownHeads(Span<double> values)
@@ -63,11 +63,22 @@ public sealed partial class NetworkSolver
         for (int j = 0; j < _junctions; j++) _demand[j] = _baseDemand[j] * factors[j];
     }
 
-    /// <summary>Opens or shuts link l (a pipe, or a pump: a shut pump is off at any speed).</summary>
+    /// <summary>Opens or shuts link l: a pipe, or a control valve (shut, it stays closed whatever the heads; opened, it
+    /// regulates again). Pumps: see <see cref="SetPumpSpeed"/>.</summary>
     internal void SetLinkOpen(int l, bool open)
     {
-        if (_kind[l] == Kind.Pump) return; // pumps: see SetPumpSpeed
+        if (_kind[l] == Kind.Pump) return;
         _shut[l] = !open;
+        if (_kind[l] == Kind.Valve)
+        {
+            int v = _valveOf[l];
+            bool throttle = _valveModel[v].Type == ControlValveType.Throttle;
+            _valveState[v] = !open ? ValveState.Closed : throttle ? ValveState.Active : ValveState.Open;
+            _status[l] = open ? LinkStatus.Open : LinkStatus.Closed;
+            _flow[l] = open ? 0.01 * InitialVelocity * _area[l] : 0;
+            if (IsPressureValve(v)) _fixedHead[_controlled[v]] = false;
+            return;
+        }
         if (!open)
         {
             _status[l] = LinkStatus.Closed;

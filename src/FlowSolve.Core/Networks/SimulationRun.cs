@@ -119,6 +119,8 @@ internal sealed class SimulationRun
 
         var pipeIndex = new Dictionary<string, int>(StringComparer.Ordinal);
         for (int k = 0; k < network.Pipes.Count; k++) pipeIndex[network.Pipes[k].Id] = k;
+        var valveIndex = new Dictionary<string, int>(StringComparer.Ordinal);
+        for (int k = 0; k < network.Valves.Count; k++) valveIndex[network.Valves[k].Id] = k;
         var pumpIndex = new Dictionary<string, int>(StringComparer.Ordinal);
         _speed = new double[network.Pumps.Count];
         _pumpShut = new bool[network.Pumps.Count];
@@ -145,7 +147,7 @@ internal sealed class SimulationRun
             else
             {
                 _controlPump[c] = -1;
-                _controlLink[c] = _solver.PipeLink(pipeIndex[control.LinkId]);
+                _controlLink[c] = pipeIndex.TryGetValue(control.LinkId, out k) ? _solver.PipeLink(k) : _solver.ValveLink(valveIndex[control.LinkId]);
             }
             _controlTank[c] = control.When.Time is null ? tankIndex[control.When.TankId!] : -1;
             _armed[c] = true;

@@ -526,6 +526,48 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
     }
 
     [Fact]
+    public void Run_ValveClosedThenOpenedByTime_PausesTheFill()
+    {
+        // The valve-fed fill with the valve shut from 1800 s to 3600 s. Property of the autonomous mass balance: the
+        // level stands still while it is shut, and afterwards runs 1800 s behind the run without controls.
+        var plain = FillModel(7200) with
+        {
+            Network = Network([new Junction("valve-out", 0, 0)], [new Reservoir("source", 80)],
+                [new NetworkPipe("feed", "valve-out", "hill", FillLength, FillPipe, FillRoughness)])
+                with { Valves = [new ControlValve("prv", "source", "valve-out", 0.3, ControlValveType.PressureReducing, 35)] },
+        };
+        var paused = plain with
+        {
+            Controls =
+            [
+                new NetworkControl("prv", new ControlAction(false, null), new ControlCondition(null, null, null, 1800)),
+                new NetworkControl("prv", new ControlAction(true, null), new ControlCondition(null, null, null, 3600)),
+            ],
+        };
+        Assert.Empty(NetworkSimulator.Validate(paused));
+        var free = Simulate(plain);
+        var result = Simulate(paused);
+        Assert.True(result.Completed);
+        Assert.Equal([(1800.0, "closed"), (3600.0, "open")], result.Events.Select(e => (e.Time, e.Change)));
+        double at1800 = result.Reports.Single(r => r.Time == 1800).Tanks[0].Level;
+        foreach (var report in result.Reports)
+        {
+            double level = report.Tanks[0].Level;
+            if (report.Time is > 1800 and < 3600)
+            {
+                Assert.Equal(at1800, level, 1e-9);
+                Assert.Equal(ValveState.Closed, report.Network.Valves[0].State);
+                Assert.Equal(0, report.Tanks[0].Inflow, 1e-10); // within the network solve's flow tolerance
+            }
+            else if (report.Time >= 3600)
+                Assert.Equal(free.Reports.Single(r => r.Time == report.Time - 1800).Tanks[0].Level, level, 1e-4);
+            else
+                Assert.Equal(free.Reports.Single(r => r.Time == report.Time).Tanks[0].Level, level, 1e-9);
+        }
+        Assert.Equal(ValveState.Active, result.Reports[^1].Network.Valves[0].State);
+    }
+
+    [Fact]
     public void Validate_ControlOnUnknownLink_NamesIt()
     {
         var model = DrainModel() with

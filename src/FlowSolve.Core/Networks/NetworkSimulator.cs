@@ -25,7 +25,8 @@ namespace FlowSolve.Core.Networks;
 /// <para>Every solve starts from the previous one (warm start); a warm solve that fails is repeated from the default
 /// start once (a check valve closed earlier may have to open), and a stage whose solve still fails shortens the step
 /// (to a quarter, down to four event-time tolerances) before the run stops with
-/// <see cref="SimulationStatus.NetworkNotConverged"/>. Controls act on pipes (open, closed) and pumps (open, closed,
+/// <see cref="SimulationStatus.NetworkNotConverged"/>; so does a run in which part of the network is left with no
+/// fixed head (its only tank held empty, or cut off by a control): demand-driven, it has no answer. Controls act on pipes (open, closed) and pumps (open, closed,
 /// speedRatio; opening a pump whose speed is 0 runs it at rated speed) and control valves (closed: shut whatever the
 /// heads; open: regulating again).</para>
 /// <para>The results are engineering estimates to be checked by a qualified engineer; tank levels and flows are

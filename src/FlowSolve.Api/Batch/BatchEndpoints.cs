@@ -255,10 +255,8 @@ public static class BatchEndpoints
                         && columns.All(c => declared.ContainsKey(c.Name)) ? columns.Select(c => declared[c.Name]).ToArray() : null;
                     var job = new CsvRows.Job(descriptor, plainHeader!, plan, columns, shortcuts, logger);
                     http.Response.ContentType = "text/csv; charset=utf-8";
-                    await using var output = new StreamWriter(http.Response.Body, new UTF8Encoding(false), 65_536);
-                    await output.WriteAsync(HeaderLine(columns));
-                    await CsvRows.Run(job, body, length, [.. lines], lines.Count, output, descriptor.Name, timeBudget, ct, http.RequestAborted, columns.Count);
-                    await output.FlushAsync(http.RequestAborted);
+                    await http.Response.Body.WriteAsync(Encoding.UTF8.GetBytes(HeaderLine(columns)), http.RequestAborted);
+                    await CsvRows.Run(job, body, length, [.. lines], lines.Count, http.Response.Body, descriptor.Name, timeBudget, ct, http.RequestAborted, columns.Count);
                     return Results.Empty;
                 }
             }

@@ -91,7 +91,16 @@ internal static class CsvRows
             text.Append(StatusCodes.Status200OK).Append(',');
             foreach (var shortcut in shortcuts!)
             {
-                if (shortcut(request) is not { } value)
+                double? given;
+                try
+                {
+                    given = shortcut(request);
+                }
+                catch (Exception)
+                {
+                    given = null; // the full solve meets the same input and answers for it (a 422, or a logged defect)
+                }
+                if (given is not { } value)
                 {
                     text.Length = mark;
                     return false;
@@ -138,51 +147,112 @@ internal static class CsvRows
         public System.Buffers.ArrayBufferWriter<byte> Json { get; } = new(512);
     }
 
-    /// <summary>Solves every row in blocks spread over the cores, a window of blocks at a time, and writes each window's
-    /// blocks in order before the next is solved (so at most a window's text is held). Stops, as the JSON path does, with
-    /// a final error row naming the first row not written when the time budget runs out.</summary>
-    public static async Task Run(Job job, byte[] body, int bodyLength, (int Start, int Length)[] lines, int rowCount, StreamWriter writer,
+    /// <summary>One window of blocks: each block's answer lines as UTF-8, and its counts.</summary>
+    private sealed class Window(int size)
+    {
+        public readonly StringBuilder[] Texts = Enumerable.Range(0, size).Select(_ => new StringBuilder(BlockRows * 48)).ToArray();
+        public readonly byte[][] Bytes = Enumerable.Range(0, size).Select(_ => Array.Empty<byte>()).ToArray();
+        public readonly int[] Lengths = new int[size];
+        public readonly bool[] Done = new bool[size];
+        public readonly int[] Ok = new int[size];
+        public readonly int[] Refused = new int[size];
+        public int First;
+        public int Count;
+
+        public void Release()
+        {
+            for (int k = 0; k < Bytes.Length; k++)
+                if (Bytes[k].Length > 0) System.Buffers.ArrayPool<byte>.Shared.Return(Bytes[k]);
+        }
+    }
+
+    /// <summary>Solves every row in blocks spread over the cores, a window of blocks at a time, each block encoded to
+    /// UTF-8 by its worker; while one window's blocks are written in order, the next window is solved (so at most two
+    /// windows' text is held). Stops, as the text path does, with a final error row naming the first row not written
+    /// when the time budget runs out.</summary>
+    public static async Task Run(Job job, byte[] body, int bodyLength, (int Start, int Length)[] lines, int rowCount, Stream output,
         string calculation, double timeBudget, CancellationToken ct, CancellationToken aborted, int columnCount)
     {
         int blocks = (rowCount + BlockRows - 1) / BlockRows;
+        if (blocks == 0) return;
         int cores = Math.Max(1, Environment.ProcessorCount);
-        int window = Math.Min(blocks, cores * 4);
-        var texts = new StringBuilder[window];
-        for (int k = 0; k < window; k++) texts[k] = new StringBuilder(BlockRows * 64);
-        var done = new bool[window];
-        var oks = new int[window];
-        var refusals = new int[window];
+        int size = Math.Min(blocks, cores * 4);
+        var windows = new[] { new Window(size), new Window(size) };
         var okRows = SolverMetrics.BatchRows.WithLabels(calculation, "ok");
         var errorRows = SolverMetrics.BatchRows.WithLabels(calculation, "error");
         var parallel = new ParallelOptions { MaxDegreeOfParallelism = cores };
-        for (int w = 0; w < blocks; w += window)
+
+        void Solve(Window window)
         {
-            int count = Math.Min(window, blocks - w);
-            int from = w;
-            Parallel.For(0, count, parallel, job.NewWorker, (k, _, worker) =>
+            Parallel.For(0, window.Count, parallel, job.NewWorker, (k, _, worker) =>
             {
-                done[k] = false;
-                texts[k].Clear();
+                window.Done[k] = false;
                 if (ct.IsCancellationRequested) return worker;
-                int first = (from + k) * BlockRows;
-                job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), worker, texts[k], out oks[k], out refusals[k]);
-                done[k] = true;
+                int first = (window.First + k) * BlockRows;
+                var text = window.Texts[k].Clear();
+                job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), worker, text, out window.Ok[k], out window.Refused[k]);
+                int length = 0;
+                foreach (var chunk in text.GetChunks()) length += Encoding.UTF8.GetByteCount(chunk.Span);
+                if (window.Bytes[k].Length < length)
+                {
+                    if (window.Bytes[k].Length > 0) System.Buffers.ArrayPool<byte>.Shared.Return(window.Bytes[k]);
+                    window.Bytes[k] = System.Buffers.ArrayPool<byte>.Shared.Rent(length);
+                }
+                int at = 0;
+                foreach (var chunk in text.GetChunks()) at += Encoding.UTF8.GetBytes(chunk.Span, window.Bytes[k].AsSpan(at));
+                window.Lengths[k] = at;
+                window.Done[k] = true;
                 return worker;
             }, static _ => { });
-            for (int k = 0; k < count; k++)
+        }
+
+        // The workers read the body: every way out waits for them before the body's buffer goes back to the pool.
+        Task pending = Task.CompletedTask;
+        try
+        {
+            pending = Task.Run(() => Solve(Set(windows[0], 0)));
+            for (int w = 0, turn = 0; w < blocks; w += size, turn ^= 1)
             {
-                int first = (w + k) * BlockRows;
-                if (!done[k] || ct.IsCancellationRequested)
+                await pending;
+                var current = windows[turn];
+                pending = w + size < blocks ? Task.Run(() => Solve(Set(windows[turn ^ 1], w + size))) : Task.CompletedTask;
+                for (int k = 0; k < current.Count; k++)
                 {
-                    if (aborted.IsCancellationRequested) return;
-                    await writer.WriteAsync($"{first + 1},503,{Csv.Escape(BatchEndpoints.TimeBudgetMessage(timeBudget, first + 1))}{new string(',', columnCount)}\r\n");
-                    SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
-                    return;
+                    int first = (current.First + k) * BlockRows;
+                    if (!current.Done[k] || ct.IsCancellationRequested)
+                    {
+                        if (aborted.IsCancellationRequested) return;
+                        await output.WriteAsync(Encoding.UTF8.GetBytes(
+                            $"{first + 1},503,{Csv.Escape(BatchEndpoints.TimeBudgetMessage(timeBudget, first + 1))}{new string(',', columnCount)}\r\n"), aborted);
+                        SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
+                        return;
+                    }
+                    await output.WriteAsync(current.Bytes[k].AsMemory(0, current.Lengths[k]), aborted);
+                    okRows.Inc(current.Ok[k]);
+                    errorRows.Inc(current.Refused[k]);
                 }
-                await writer.WriteAsync(texts[k], aborted);
-                okRows.Inc(oks[k]);
-                errorRows.Inc(refusals[k]);
             }
+            await pending;
+        }
+        finally
+        {
+            try
+            {
+                await pending;
+            }
+            catch (Exception) when (aborted.IsCancellationRequested || ct.IsCancellationRequested)
+            {
+                // The answer is already cut off or abandoned; a worker's failure has nowhere to go.
+            }
+            windows[0].Release();
+            windows[1].Release();
+        }
+
+        Window Set(Window window, int firstBlock)
+        {
+            window.First = firstBlock;
+            window.Count = Math.Min(size, blocks - firstBlock);
+            return window;
         }
     }
 }

@@ -215,7 +215,13 @@ internal static class CsvRows
             {
                 await pending;
                 var current = windows[turn];
-                pending = w + size < blocks ? Task.Run(() => Solve(Set(windows[turn ^ 1], w + size))) : Task.CompletedTask;
+                // The next window is chosen here, not in the task: the loop moves on before the task starts.
+                if (w + size < blocks)
+                {
+                    var next = Set(windows[turn ^ 1], w + size);
+                    pending = Task.Run(() => Solve(next));
+                }
+                else pending = Task.CompletedTask;
                 for (int k = 0; k < current.Count; k++)
                 {
                     int first = (current.First + k) * BlockRows;

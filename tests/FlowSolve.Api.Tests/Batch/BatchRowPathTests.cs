@@ -177,6 +177,30 @@ public sealed class BatchRowPathTests(ApiFixture api)
         }
     }
 
+    [Fact]
+    public async Task Many_windows_answer_as_the_text_path_does()
+    {
+        // 40 000 rows are several windows of parallel blocks, solved while the window before is written.
+        string rows = FrictionRows(40_000, 40);
+        Assert.DoesNotContain('"', rows);
+        var direct = await PostCsv("/v1/batch/friction-factor", rows);
+        var text = await PostCsv("/v1/batch/friction-factor", Quoted(rows));
+        Assert.Equal(HttpStatusCode.OK, direct.Status);
+        Assert.Equal(HttpStatusCode.OK, text.Status);
+        var expected = text.Text.Split("\r\n");
+        var actual = direct.Text.Split("\r\n");
+        Assert.Equal(expected.Length, actual.Length);
+        for (int i = 0; i < expected.Length; i++) Assert.True(expected[i] == actual[i], $"line {i}:\n{expected[i]}\n{actual[i]}");
+        var selected = (await PostCsv("/v1/batch/friction-factor?select=frictionFactor", rows)).Text.Split("\r\n");
+        Assert.Equal(expected.Length, selected.Length);
+        int column = Array.IndexOf(expected[0].Split(','), "frictionFactor");
+        for (int i = 1; i < expected.Length - 1; i++)
+        {
+            var f = Cells(expected[i]);
+            Assert.Equal([f[0], f[1], f[2], f[column]], Cells(selected[i]));
+        }
+    }
+
     /// <summary>Friction factor rows across the whole accepted domain and beyond it, with every optional field in play.</summary>
     private static string FrictionRows(int count, int seed)
     {

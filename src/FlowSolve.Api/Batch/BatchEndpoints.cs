@@ -194,11 +194,12 @@ public static class BatchEndpoints
     }
 
     /// <summary>The whole body in one pooled buffer (its size is bounded by the body limit, which the server enforces
-    /// while it is read).</summary>
+    /// while it is read). A declared length sizes the first buffer only up to 4 MiB: a header alone never reserves more
+    /// memory than the bytes that actually arrive.</summary>
     private static async Task<(byte[] Buffer, int Length)> ReadBody(HttpRequest request, CancellationToken ct)
     {
         long? declared = request.ContentLength;
-        var buffer = System.Buffers.ArrayPool<byte>.Shared.Rent(declared is > 0 and < 1 << 30 ? (int)declared + 1 : 65_536);
+        var buffer = System.Buffers.ArrayPool<byte>.Shared.Rent(declared is > 0 and < 4 << 20 ? (int)declared + 1 : declared is > 0 ? 4 << 20 : 65_536);
         int length = 0;
         try
         {

@@ -56,14 +56,20 @@ internal static class CsvRows
         private readonly bool[] _numeric = header.Select(h => BatchEndpoints.IsNumericField(descriptor.RequestType, h)).ToArray();
         private readonly Csv.HeaderPlan _jsonPlan = new(header);
 
-        /// <summary>Solves rows [first, first + count) of <paramref name="lines"/> into <paramref name="text"/>, one CSV
-        /// line each, as the JSON path writes them; counts ok and refused rows.</summary>
-        public void Solve(ReadOnlySpan<byte> body, (int Start, int Length)[] lines, int first, int count, Worker worker, StringBuilder text,
+        /// <summary>Solves rows [first, first + count) of <paramref name="lines"/> into <paramref name="output"/>, one CSV
+        /// line each as the text path writes it, in UTF-8; counts ok and refused rows.</summary>
+        /// <remarks>Each line is built in the worker's own small builder and encoded at once: a builder the size of a
+        /// block would sit on the large-object heap and be copied whole when cleared.</remarks>
+        public void Solve(ReadOnlySpan<byte> body, (int Start, int Length)[] lines, int first, int count, Worker worker, BlockOutput output,
             out int ok, out int refused)
         {
             ok = refused = 0;
+            output.Length = 0;
+            var text = worker.Line;
             for (int i = first; i < first + count; i++)
             {
+                if (i > first) output.Append(text);
+                text.Clear();
                 var line = body.Slice(lines[i].Start, lines[i].Length);
                 text.Append(i + 1).Append(',');
                 if (plan.TryBind(line, worker.Values, out var request))
@@ -82,6 +88,7 @@ internal static class CsvRows
                     if (Write(status, value, text)) ok++; else refused++;
                 }
             }
+            if (count > 0) output.Append(text);
         }
 
         /// <summary>Writes "200,,v1,v2..." from the declared shortcuts, or nothing and false when one declines the row.</summary>
@@ -139,10 +146,37 @@ internal static class CsvRows
         public Worker NewWorker() => new(plan.NewValues());
     }
 
+    /// <summary>One block's answer lines as UTF-8, in a pooled buffer that grows as needed.</summary>
+    internal sealed class BlockOutput
+    {
+        public byte[] Buffer = [];
+        public int Length;
+
+        public void Append(StringBuilder line)
+        {
+            int most = Encoding.UTF8.GetMaxByteCount(line.Length);
+            if (Buffer.Length - Length < most)
+            {
+                var larger = System.Buffers.ArrayPool<byte>.Shared.Rent(Math.Max(2 * Buffer.Length, Length + most + 65_536));
+                Buffer.AsSpan(0, Length).CopyTo(larger);
+                Release();
+                Buffer = larger;
+            }
+            foreach (var chunk in line.GetChunks()) Length += Encoding.UTF8.GetBytes(chunk.Span, Buffer.AsSpan(Length));
+        }
+
+        public void Release()
+        {
+            if (Buffer.Length > 0) System.Buffers.ArrayPool<byte>.Shared.Return(Buffer);
+            Buffer = [];
+        }
+    }
+
     /// <summary>One worker's reusable scratch space.</summary>
     internal sealed class Worker(CsvRowBinder.RowValues values)
     {
         public CsvRowBinder.RowValues Values { get; } = values;
+        public StringBuilder Line { get; } = new(1024);
         public List<string> Record { get; } = [];
         public System.Buffers.ArrayBufferWriter<byte> Json { get; } = new(512);
     }
@@ -150,9 +184,7 @@ internal static class CsvRows
     /// <summary>One window of blocks: each block's answer lines as UTF-8, and its counts.</summary>
     private sealed class Window(int size)
     {
-        public readonly StringBuilder[] Texts = Enumerable.Range(0, size).Select(_ => new StringBuilder(BlockRows * 48)).ToArray();
-        public readonly byte[][] Bytes = Enumerable.Range(0, size).Select(_ => Array.Empty<byte>()).ToArray();
-        public readonly int[] Lengths = new int[size];
+        public readonly BlockOutput[] Outputs = Enumerable.Range(0, size).Select(_ => new BlockOutput()).ToArray();
         public readonly bool[] Done = new bool[size];
         public readonly int[] Ok = new int[size];
         public readonly int[] Refused = new int[size];
@@ -161,8 +193,7 @@ internal static class CsvRows
 
         public void Release()
         {
-            for (int k = 0; k < Bytes.Length; k++)
-                if (Bytes[k].Length > 0) System.Buffers.ArrayPool<byte>.Shared.Return(Bytes[k]);
+            foreach (var output in Outputs) output.Release();
         }
     }
 
@@ -189,18 +220,8 @@ internal static class CsvRows
                 window.Done[k] = false;
                 if (ct.IsCancellationRequested) return worker;
                 int first = (window.First + k) * BlockRows;
-                var text = window.Texts[k].Clear();
-                job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), worker, text, out window.Ok[k], out window.Refused[k]);
-                int length = 0;
-                foreach (var chunk in text.GetChunks()) length += Encoding.UTF8.GetByteCount(chunk.Span);
-                if (window.Bytes[k].Length < length)
-                {
-                    if (window.Bytes[k].Length > 0) System.Buffers.ArrayPool<byte>.Shared.Return(window.Bytes[k]);
-                    window.Bytes[k] = System.Buffers.ArrayPool<byte>.Shared.Rent(length);
-                }
-                int at = 0;
-                foreach (var chunk in text.GetChunks()) at += Encoding.UTF8.GetBytes(chunk.Span, window.Bytes[k].AsSpan(at));
-                window.Lengths[k] = at;
+                job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), worker, window.Outputs[k],
+                    out window.Ok[k], out window.Refused[k]);
                 window.Done[k] = true;
                 return worker;
             }, static _ => { });
@@ -233,7 +254,7 @@ internal static class CsvRows
                         SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
                         return;
                     }
-                    await output.WriteAsync(current.Bytes[k].AsMemory(0, current.Lengths[k]), aborted);
+                    await output.WriteAsync(current.Outputs[k].Buffer.AsMemory(0, current.Outputs[k].Length), aborted);
                     okRows.Inc(current.Ok[k]);
                     errorRows.Inc(current.Refused[k]);
                 }

@@ -7,7 +7,10 @@ namespace FlowSolve.Benchmarks;
 
 /// <summary>
 /// Time per row of a pipe head-loss batch through the in-memory service (CSV in and out, JSON in and out), beside the
-/// library's own head-loss call on the same rows, measured side by side in one run.
+/// library's own head-loss call on the same rows, measured side by side in one run. The same CSV with every cell quoted
+/// takes the text path (each row written as JSON and bound from it, the only path before the direct row path), so the
+/// two paths are compared in one run. A friction-factor batch asking only for frictionFactor stands beside the library's
+/// friction call on the same rows.
 /// </summary>
 [MemoryDiagnoser]
 public class BatchBenchmarks
@@ -16,6 +19,10 @@ public class BatchBenchmarks
     private WebApplicationFactory<global::Program> _factory = null!;
     private HttpClient _client = null!;
     private string _csv = "";
+    private string _quoted = "";
+    private string _frictionCsv = "";
+    private readonly double[] _reynolds = new double[Rows];
+    private readonly double[] _roughness = new double[Rows];
     private string _json = "";
     private readonly PipeGeometry[] _pipes = new PipeGeometry[Rows];
     private readonly double[] _flows = new double[Rows];
@@ -45,6 +52,17 @@ public class BatchBenchmarks
                 $"{{\"flow\":{q},\"diameter\":{d},\"length\":{l},\"roughness\":0.00026,\"minorLossCoefficient\":2,\"kinematicViscosity\":1.0034e-6,\"density\":998.2}}");
         }
         _csv = csv.ToString();
+        _quoted = string.Join("\n", _csv.Split('\n').Select(line => line.Length == 0 ? line : "\"" + line.Replace(",", "\",\"") + "\""));
+        var friction = new StringBuilder("reynolds,relativeRoughness\n");
+        for (int i = 0; i < Rows; i++)
+        {
+            // Spread as a study of many pipes is: Re 1e4 to 1e8 log-uniform, e/D 0 to 0.01.
+            _reynolds[i] = Math.Pow(10, 4 + 4 * random.NextDouble());
+            _roughness[i] = 0.01 * random.NextDouble();
+            FormattableString row = $"{_reynolds[i]:R},{_roughness[i]:R}\n";
+            friction.Append(row.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        }
+        _frictionCsv = friction.ToString();
         _json = json.Append(']').ToString();
     }
 
@@ -111,6 +129,39 @@ public class BatchBenchmarks
     {
         using var content = new StringContent(_csv, Encoding.UTF8, "text/csv");
         using var response = await _client.PostAsync("/v1/batch/pipes/head-loss", content);
+        return (await response.Content.ReadAsStringAsync()).Length;
+    }
+
+    /// <summary>The same rows with every cell quoted: the text path, each row written as JSON and bound from it.</summary>
+    [Benchmark(OperationsPerInvoke = Rows)]
+    public async Task<int> BatchCsvTextPath()
+    {
+        using var content = new StringContent(_quoted, Encoding.UTF8, "text/csv");
+        using var response = await _client.PostAsync("/v1/batch/pipes/head-loss", content);
+        return (await response.Content.ReadAsStringAsync()).Length;
+    }
+
+    [Benchmark(OperationsPerInvoke = Rows)]
+    public double LibraryFriction()
+    {
+        double sum = 0;
+        for (int i = 0; i < Rows; i++) sum += FlowSolve.Core.Friction.DarcyFriction.Compute(_reynolds[i], _roughness[i]).FrictionFactor;
+        return sum;
+    }
+
+    [Benchmark(OperationsPerInvoke = Rows)]
+    public async Task<int> FrictionBatchCsvSelect()
+    {
+        using var content = new StringContent(_frictionCsv, Encoding.UTF8, "text/csv");
+        using var response = await _client.PostAsync("/v1/batch/friction-factor?select=frictionFactor", content);
+        return (await response.Content.ReadAsStringAsync()).Length;
+    }
+
+    [Benchmark(OperationsPerInvoke = Rows)]
+    public async Task<int> FrictionBatchCsvAll()
+    {
+        using var content = new StringContent(_frictionCsv, Encoding.UTF8, "text/csv");
+        using var response = await _client.PostAsync("/v1/batch/friction-factor", content);
         return (await response.Content.ReadAsStringAsync()).Length;
     }
 

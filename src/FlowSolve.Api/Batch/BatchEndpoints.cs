@@ -27,7 +27,9 @@ public static class BatchEndpoints
                 "row never fails the others. JSON rows are {row, status, result} or {row, status, error, problem}; CSV rows start " +
                 "with row, httpStatus and error columns, then every scalar output field (nested objects flattened with dots; " +
                 "warnings as their codes separated by spaces; lists such as validity are left out of CSV: use JSON for them). " +
-                "Above the configured row limit (default 100 000) the answer is 413.\n\nCalculations: " + string.Join(", ", names) +
+                "Above the configured row limit (default 100 000) the answer is 413. With select (CSV only) the answer's " +
+                "columns after row, httpStatus and error are only the output fields named, in that order. A CSV batch's rows " +
+                "are solved in parallel across the server's cores; the answer keeps their order.\n\nCalculations: " + string.Join(", ", names) +
                 "; and check/ followed by any of them, for a batch of checks of claimed values.")
             .Accepts<JsonElement[]>("application/json", "text/csv")
             .Produces(200, contentType: "application/json")
@@ -47,7 +49,8 @@ public static class BatchEndpoints
 
     private static async Task<IResult> Run(
         [System.ComponentModel.Description("The calculation's route below /v1, for example friction-factor or pipes/head-loss (the list is in the operation's description).")] string calculation, HttpContext http, CalculationCatalog catalog,
-        Microsoft.Extensions.Options.IOptions<FlowSolveOptions> options, ILoggerFactory loggers)
+        Microsoft.Extensions.Options.IOptions<FlowSolveOptions> options, ILoggerFactory loggers,
+        [FromQuery(Name = "select"), System.ComponentModel.Description("CSV batches only: the output fields to write after row, httpStatus and error, as their CSV column names separated by commas (for example frictionFactor or headLoss,velocity,warnings); every output column when absent.")] string? select = null)
     {
         var logger = loggers.CreateLogger("FlowSolve.Batch");
         if (!catalog.TryGet(calculation, out var descriptor))
@@ -56,6 +59,10 @@ public static class BatchEndpoints
                 detail: $"'{calculation}' is not a calculation. Available: {string.Join(", ", catalog.All.Select(c => c.Name).Order())}.");
         }
         string mediaType = http.Request.ContentType?.Split(';')[0].Trim().ToLowerInvariant() ?? "";
+        var (columns, refusal) = Select(descriptor, select);
+        if (refusal is not null) return refusal;
+        if (select is not null && mediaType == "application/json")
+            return ProblemResults.BadInput("select", "applies to CSV batches (Content-Type: text/csv); a JSON batch answers every field of each row");
         int limit = options.Value.Limits.BatchRows;
         // The batch keeps its own time budget (the general request timeout is off for this route) so that, once rows
         // are streaming, it can end the answer with a row that says where and why it stopped instead of a torn body.
@@ -67,7 +74,7 @@ public static class BatchEndpoints
         return mediaType switch
         {
             "application/json" => await RunJson(descriptor, http, limit, options.Value.Limits.RequestTimeoutSeconds, logger, ct),
-            "text/csv" => await RunCsv(descriptor, http, limit, options.Value.Limits.RequestTimeoutSeconds, logger, ct),
+            "text/csv" => await RunCsv(descriptor, columns!, select is not null, http, limit, options.Value.Limits.RequestTimeoutSeconds, logger, ct),
             _ => TypedResults.Problem(statusCode: 415, title: "Unsupported media type.",
                 detail: "Send a JSON array (Content-Type: application/json) or CSV with a header row (Content-Type: text/csv)."),
         };
@@ -80,7 +87,7 @@ public static class BatchEndpoints
         }
     }
 
-    private static string TimeBudgetMessage(double seconds, int row) =>
+    internal static string TimeBudgetMessage(double seconds, int row) =>
         $"time budget of {seconds} s (FlowSolve:Limits:RequestTimeoutSeconds) exceeded" +
         (row > 0 ? $"; rows from {row} on were not calculated: split the batch" : "; split the batch");
 
@@ -163,24 +170,140 @@ public static class BatchEndpoints
         return Results.Empty;
     }
 
-    private static async Task<IResult> RunCsv(CalculationDescriptor descriptor, HttpContext http, int limit, double timeBudget, ILogger logger, CancellationToken ct)
+    /// <summary>The output columns a CSV batch writes: every column, or those <c>select</c> names (400 naming select for
+    /// an unknown or repeated name).</summary>
+    private static (IReadOnlyList<ResponseColumn>? Columns, IResult? Problem) Select(CalculationDescriptor descriptor, string? select)
     {
-        using var reader = new StreamReader(http.Request.Body, Encoding.UTF8, detectEncodingFromByteOrderMarks: true, bufferSize: 65_536);
-        var header = await Csv.ReadRecordAsync(reader, ct);
+        if (select is null) return (descriptor.Columns, null);
+        var chosen = new List<ResponseColumn>();
+        foreach (var raw in select.Split(','))
+        {
+            string name = raw.Trim();
+            if (name.Length == 0) return (null, ProblemResults.BadInput("select", "names an empty field; give output field names separated by commas"));
+            var column = descriptor.Columns.FirstOrDefault(c => c.Name.Equals(name, StringComparison.OrdinalIgnoreCase));
+            if (column is null)
+            {
+                string? near = StrictQuery.Closest(name, descriptor.Columns.Select(c => c.Name));
+                return (null, ProblemResults.BadInput("select", $"'{(name.Length > 40 ? name[..40] + "..." : name)}' is not an output column of {descriptor.Name}" +
+                    (near is null ? "" : $"; did you mean '{near}'?") + $" (columns: {string.Join(", ", descriptor.Columns.Select(c => c.Name))})"));
+            }
+            if (chosen.Contains(column)) return (null, ProblemResults.BadInput("select", $"names '{column.Name}' more than once; name each field once"));
+            chosen.Add(column);
+        }
+        return (chosen, null);
+    }
+
+    /// <summary>The whole body in one pooled buffer (its size is bounded by the body limit, which the server enforces
+    /// while it is read). A declared length sizes the first buffer only up to 4 MiB: a header alone never reserves more
+    /// memory than the bytes that actually arrive.</summary>
+    private static async Task<(byte[] Buffer, int Length)> ReadBody(HttpRequest request, CancellationToken ct)
+    {
+        long? declared = request.ContentLength;
+        var buffer = System.Buffers.ArrayPool<byte>.Shared.Rent(declared is > 0 and < 4 << 20 ? (int)declared + 1 : declared is > 0 ? 4 << 20 : 65_536);
+        int length = 0;
+        try
+        {
+            while (true)
+            {
+                if (length == buffer.Length)
+                {
+                    var larger = System.Buffers.ArrayPool<byte>.Shared.Rent((int)Math.Min(Array.MaxLength, 2L * buffer.Length));
+                    buffer.AsSpan(0, length).CopyTo(larger);
+                    System.Buffers.ArrayPool<byte>.Shared.Return(buffer);
+                    buffer = larger;
+                }
+                int read = await request.Body.ReadAsync(buffer.AsMemory(length), ct);
+                if (read == 0) return (buffer, length);
+                length += read;
+            }
+        }
+        catch
+        {
+            System.Buffers.ArrayPool<byte>.Shared.Return(buffer);
+            throw;
+        }
+    }
+
+    private static async Task<IResult> RunCsv(CalculationDescriptor descriptor, IReadOnlyList<ResponseColumn> columns, bool selected, HttpContext http,
+        int limit, double timeBudget, ILogger logger, CancellationToken ct)
+    {
+        var (body, length) = await ReadBody(http.Request, ct);
+        try
+        {
+            // A UTF-8 byte-order mark is dropped, as the text reader drops it.
+            int start = length >= 3 && body[0] == 0xEF && body[1] == 0xBB && body[2] == 0xBF ? 3 : 0;
+            if (CsvRowBinder.For(descriptor.RequestType) is { } binder && CsvRows.IsPlain(body.AsSpan(start, length - start)))
+            {
+                var rest = (ReadOnlySpan<byte>)body.AsSpan(start, length - start);
+                var first = rest.IsEmpty ? null : Encoding.ASCII.GetString(CsvRows.NextLine(ref rest)).Split(',').ToList();
+                var (plainHeader, problem) = Header(first);
+                if (problem is not null) return problem;
+                if (binder.Plan(plainHeader!) is { } plan)
+                {
+                    var lines = new List<(int, int)>();
+                    int offset = length - rest.Length;
+                    while (!rest.IsEmpty)
+                    {
+                        int before = rest.Length;
+                        var line = CsvRows.NextLine(ref rest);
+                        int at = offset;
+                        offset += before - rest.Length;
+                        if (CsvRows.IsBlank(line)) continue;
+                        if (lines.Count == limit) return TooMany(limit);
+                        lines.Add((at, line.Length));
+                    }
+                    Func<object, double?>[]? shortcuts = selected && descriptor.Shortcuts is { } declared
+                        && columns.All(c => declared.ContainsKey(c.Name)) ? columns.Select(c => declared[c.Name]).ToArray() : null;
+                    var job = new CsvRows.Job(descriptor, plainHeader!, plan, columns, shortcuts, logger);
+                    http.Response.ContentType = "text/csv; charset=utf-8";
+                    await http.Response.Body.WriteAsync(Encoding.UTF8.GetBytes(HeaderLine(columns)), http.RequestAborted);
+                    await CsvRows.Run(job, body, length, [.. lines], lines.Count, http.Response.Body, descriptor.Name, timeBudget, ct, http.RequestAborted, columns.Count);
+                    return Results.Empty;
+                }
+            }
+            using var stream = new MemoryStream(body, 0, length, writable: false);
+            return await RunCsvText(descriptor, columns, stream, http, limit, timeBudget, logger, ct);
+        }
+        finally
+        {
+            System.Buffers.ArrayPool<byte>.Shared.Return(body);
+        }
+    }
+
+    private static string HeaderLine(IReadOnlyList<ResponseColumn> columns)
+    {
+        var line = new StringBuilder("row,httpStatus,error");
+        foreach (var c in columns) line.Append(',').Append(c.Name);
+        return line.Append("\r\n").ToString();
+    }
+
+    /// <summary>The header trimmed, or the 400 for a missing header or a repeated column.</summary>
+    private static (List<string>? Header, IResult? Problem) Header(List<string>? header)
+    {
         if (header is null || header.All(h => h.Trim().Length == 0))
-            return ProblemResults.BadInput("body", "CSV needs a header row of request field names");
+            return (null, ProblemResults.BadInput("body", "CSV needs a header row of request field names"));
         for (int i = 0; i < header.Count; i++) header[i] = header[i].Trim().TrimStart('\uFEFF');
         var repeated = header.Where(h => h.Length > 0).GroupBy(h => h, StringComparer.OrdinalIgnoreCase).FirstOrDefault(g => g.Count() > 1);
         if (repeated is not null)
-            return ProblemResults.BadInput(repeated.Key, "is a column of the header more than once; give each field once");
+            return (null, ProblemResults.BadInput(repeated.Key, "is a column of the header more than once; give each field once"));
+        return (header, null);
+    }
+
+    /// <summary>Any CSV body (quoted cells, other line ends, any text): read as text, each row bound through JSON.</summary>
+    private static async Task<IResult> RunCsvText(CalculationDescriptor descriptor, IReadOnlyList<ResponseColumn> columns, Stream body, HttpContext http,
+        int limit, double timeBudget, ILogger logger, CancellationToken ct)
+    {
+        using var reader = new StreamReader(body, Encoding.UTF8, detectEncodingFromByteOrderMarks: true, bufferSize: 65_536);
+        var (header, headerProblem) = Header(await Csv.ReadRecordAsync(reader, ct));
+        if (headerProblem is not null) return headerProblem;
         // Columns whose request field is a number: their cells follow the query's invariant grammar (a decimal comma is
         // refused, naming the field, rather than read as text or as a number with a thousands separator).
-        var numeric = header.Select(h => IsNumericField(descriptor.RequestType, h)).ToArray();
+        var numeric = header!.Select(h => IsNumericField(descriptor.RequestType, h)).ToArray();
         var cellErrors = new Dictionary<int, (string Field, string Message)>();
 
         // Each row is turned into its request's UTF-8 JSON as it is read and kept in one growing buffer (a few hundred
         // bytes a row, no objects per row survive the read), so that the 413 for too many rows comes before any answer.
-        var plan = new Csv.HeaderPlan(header);
+        var plan = new Csv.HeaderPlan(header!);
         var store = new System.Buffers.ArrayBufferWriter<byte>(65_536);
         var ends = new List<int>();
         await using (var json = new Utf8JsonWriter(store))
@@ -194,7 +317,7 @@ public static class BatchEndpoints
                     var cell = record[c].AsSpan().Trim();
                     if (numeric[c] && cell.Length > 0 && StrictQuery.NumberProblem(cell) is { } problem)
                     {
-                        cellErrors.TryAdd(ends.Count, (header[c], problem));
+                        cellErrors.TryAdd(ends.Count, (header![c], problem));
                         break;
                     }
                 }
@@ -207,10 +330,7 @@ public static class BatchEndpoints
 
         http.Response.ContentType = "text/csv; charset=utf-8";
         await using var writer = new StreamWriter(http.Response.Body, new UTF8Encoding(false), 65_536);
-        var columns = descriptor.Columns;
-        await writer.WriteAsync("row,httpStatus,error");
-        foreach (var c in columns) { await writer.WriteAsync(','); await writer.WriteAsync(c.Name); }
-        await writer.WriteAsync("\r\n");
+        await writer.WriteAsync(HeaderLine(columns));
         var line = new StringBuilder();
         var okRows = SolverMetrics.BatchRows.WithLabels(descriptor.Name, "ok");
         var errorRows = SolverMetrics.BatchRows.WithLabels(descriptor.Name, "error");
@@ -228,25 +348,31 @@ public static class BatchEndpoints
                 ? (400, Problem(bad.Field, bad.Message))
                 : RunRow(descriptor, store.WrittenSpan[start..ends[i]], logger);
             (status < 300 ? okRows : errorRows).Inc();
-            line.Clear().Append(i + 1).Append(',').Append(status).Append(',');
-            if (status is >= 200 and < 300)
-            {
-                foreach (var c in columns) c.Write(value!, line.Append(','));
-            }
-            else
-            {
-                line.Append(Csv.Escape(TextFormat.ErrorLine(value)["error: ".Length..]));
-                for (int c = 0; c < columns.Count; c++) line.Append(',');
-            }
-            line.Append("\r\n");
+            AppendRow(line.Clear().Append(i + 1).Append(','), status, value, columns);
             await writer.WriteAsync(line, http.RequestAborted);
         }
         await writer.FlushAsync(http.RequestAborted);
         return Results.Empty;
     }
 
+    /// <summary>Appends a row's status, error and output cells after its number, and the line end.</summary>
+    internal static void AppendRow(StringBuilder line, int status, object? value, IReadOnlyList<ResponseColumn> columns)
+    {
+        line.Append(status).Append(',');
+        if (status is >= 200 and < 300)
+        {
+            foreach (var c in columns) c.Write(value!, line.Append(','));
+        }
+        else
+        {
+            line.Append(Csv.Escape(TextFormat.ErrorLine(value)["error: ".Length..]));
+            for (int c = 0; c < columns.Count; c++) line.Append(',');
+        }
+        line.Append("\r\n");
+    }
+
     /// <summary>Runs one case given as UTF-8 JSON; a row's failure is that row's answer, never the batch's.</summary>
-    private static (int Status, object? Value) RunRow(CalculationDescriptor descriptor, ReadOnlySpan<byte> json, ILogger logger)
+    internal static (int Status, object? Value) RunRow(CalculationDescriptor descriptor, ReadOnlySpan<byte> json, ILogger logger)
     {
         object? request;
         try
@@ -268,7 +394,7 @@ public static class BatchEndpoints
             ? RunRow(descriptor, System.Runtime.InteropServices.JsonMarshal.GetRawUtf8Value(json), logger)
             : (400, Problem("row", "must be a JSON object of request fields"));
 
-    private static (int Status, object? Value) Invoke(CalculationDescriptor descriptor, object request, ILogger logger)
+    internal static (int Status, object? Value) Invoke(CalculationDescriptor descriptor, object request, ILogger logger)
     {
         try
         {
@@ -283,7 +409,7 @@ public static class BatchEndpoints
     }
 
     /// <summary>True when a (dotted) CSV header names a numeric field of the request type.</summary>
-    private static bool IsNumericField(Type requestType, string header)
+    internal static bool IsNumericField(Type requestType, string header)
     {
         Type? t = requestType;
         foreach (var part in header.Split('.'))
@@ -296,6 +422,6 @@ public static class BatchEndpoints
         return t == typeof(double) || t == typeof(int) || t == typeof(float) || t == typeof(long) || t == typeof(decimal);
     }
 
-    private static HttpValidationProblemDetails Problem(string field, string message) =>
+    internal static HttpValidationProblemDetails Problem(string field, string message) =>
         new(new Dictionary<string, string[]> { [field] = [message] }) { Status = 400, Title = "One or more fields are invalid." };
 }

@@ -24,6 +24,26 @@ public sealed class FrictionFactorCalculation : Calculation<FrictionFactorReques
 
     public override Sheet Sheet(FrictionFactorRequest request, FrictionFactorResponse answer) => FrictionSheet.Build(request, answer);
 
+    /// <summary>A batch that asks only for <c>frictionFactor</c> (<c>select=frictionFactor</c>) gets it without the rest of
+    /// the answer (the approximations, validity, assumptions) for the rows the full solve takes as they stand.</summary>
+    protected override IReadOnlyDictionary<string, Func<FrictionFactorRequest, double?>> RowShortcuts { get; } =
+        new Dictionary<string, Func<FrictionFactorRequest, double?>>(StringComparer.OrdinalIgnoreCase) { ["frictionFactor"] = DefaultFactor };
+
+    /// <summary>The default method's factor, from the same Core call as <see cref="Solve"/> with the same options, for a
+    /// request of Reynolds number and relative roughness alone within their ranges; null (the row takes the full solve)
+    /// for any other request, and for a factor or residual the answer's guard would refuse as not finite.</summary>
+    private static double? DefaultFactor(FrictionFactorRequest request)
+    {
+        if (request is not { Reynolds: double reynolds, RelativeRoughness: double relativeRoughness, Roughness: null, Diameter: null,
+            Method: null, LaminarLimit: null, Trace: not true })
+            return null;
+        if (!(reynolds >= DarcyFriction.MinimumReynolds && reynolds <= DarcyFriction.MaximumReynolds && relativeRoughness >= 0 && relativeRoughness < 1))
+            return null;
+        var options = new FrictionOptions(FrictionOptions.Default.LaminarLimit, Math.Max(FrictionOptions.Default.LaminarLimit, FrictionOptions.Default.TurbulentLimit));
+        var exact = DarcyFriction.Compute(reynolds, relativeRoughness, FrictionMethod.ColebrookWhite, options);
+        return double.IsFinite(exact.FrictionFactor) && double.IsFinite(exact.ResidualAtAnswer) ? exact.FrictionFactor : null;
+    }
+
     public override Outcome<FrictionFactorResponse> Solve(FrictionFactorRequest request, in CalculationContext context)
     {
         var errors = new FieldErrors();

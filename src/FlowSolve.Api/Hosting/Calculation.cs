@@ -124,6 +124,9 @@ public interface ICalculation
     /// check, whose <see cref="CalculationDescriptor.Invoke"/> puts it through <see cref="CalculationGuard"/> once, as
     /// the routes do).</summary>
     IResult Run(object request, in CalculationContext context);
+
+    /// <summary>The declared <see cref="Calculation{TQuery, TRequest, TResponse}.RowShortcuts"/>, on untyped requests.</summary>
+    IReadOnlyDictionary<string, Func<object, double?>>? RowShortcuts { get; }
 }
 
 /// <summary>
@@ -158,6 +161,16 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
 
     /// <summary>The calculation sheet of an answer (solved with the trace on); null for a calculation without one.</summary>
     public virtual Sheet? Sheet(TRequest request, TResponse answer) => null;
+
+    /// <summary>Output columns a CSV batch row may compute without building the whole answer, when the batch's
+    /// <c>select=</c> names only such columns: each column's wire name, with a function from the bound request to the
+    /// column's value, or to null when that row must take the full <see cref="Solve"/> (any input the full solve would
+    /// refuse, or answer with a problem). A value given must equal the full answer's column digit for digit (the batch
+    /// tests hold every declared shortcut to it). Null (the default): every row takes the full solve.</summary>
+    protected virtual IReadOnlyDictionary<string, Func<TRequest, double?>>? RowShortcuts => null;
+
+    IReadOnlyDictionary<string, Func<object, double?>>? ICalculation.RowShortcuts =>
+        RowShortcuts?.ToDictionary(p => p.Key, p => (Func<object, double?>)(r => p.Value((TRequest)r)), StringComparer.OrdinalIgnoreCase);
 
     public Type QueryType => typeof(TQuery);
     public Type RequestType => typeof(TRequest);
@@ -361,7 +374,10 @@ public static class CalculationRoutes
             if (!calculation.Info.Rows) continue;
             var c = calculation;
             catalog.Add(new CalculationDescriptor(c.Info.Name, c.Info.PrimaryOutput, c.RequestType, c.ResponseType,
-                request => c.Run(request, CalculationContext.Plain with { Services = services, Trace = (request as ITraceable)?.Trace == true })));
+                request => c.Run(request, CalculationContext.Plain with { Services = services, Trace = (request as ITraceable)?.Trace == true }))
+            {
+                Shortcuts = c.RowShortcuts,
+            });
         }
         return routes;
     }

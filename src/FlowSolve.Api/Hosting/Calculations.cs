@@ -48,6 +48,9 @@ public sealed class CalculationDescriptor(string name, string primaryOutput, Typ
 
     /// <summary>The CSV columns of a response: scalar fields, nested records flattened with dots, warnings as codes.</summary>
     public IReadOnlyList<ResponseColumn> Columns { get; } = ResponseColumns.For(responseType);
+
+    /// <summary>The calculation's declared row shortcuts by column name (case-insensitive), or null.</summary>
+    public IReadOnlyDictionary<string, Func<object, double?>>? Shortcuts { get; init; }
 }
 
 /// <summary>Every calculation the service offers, registered by each area when it maps its endpoints.</summary>

@@ -1,0 +1,285 @@
+using System.Text;
+using System.Text.Json;
+using FlowSolve.Api.Hosting;
+
+namespace FlowSolve.Api.Batch;
+
+/// <summary>
+/// The row path of a CSV batch whose body is plain (ASCII, no quoted cells, lines ended by LF or CRLF): rows are
+/// bound straight into the request record (<see cref="CsvRowBinder"/>), solved by the calculation's own handler in
+/// parallel blocks across the cores, and written in their order. A row the binder does not take (a cell that is not
+/// clean for its field) is turned into JSON and bound as every row of a quoted body is, so its answer, refusal
+/// included, is the same; a batch whose header the binder does not take never comes here.
+/// </summary>
+internal static class CsvRows
+{
+    /// <summary>Rows solved by one worker at a time: large enough to pay for the hand-over, small enough to spread.</summary>
+    private const int BlockRows = 1024;
+
+    /// <summary>True when the body can be split on bytes exactly as the text reader splits it: every byte ASCII, no
+    /// double quote (so no cell spans lines or holds a comma), and every CR followed by LF.</summary>
+    public static bool IsPlain(ReadOnlySpan<byte> body)
+    {
+        if (body.IndexOfAnyExceptInRange((byte)0, (byte)0x7F) >= 0 || body.IndexOf((byte)'"') >= 0) return false;
+        int at = 0;
+        while (body[at..].IndexOf((byte)'\r') is var i and >= 0)
+        {
+            at += i + 1;
+            if (at >= body.Length || body[at] != '\n') return false;
+        }
+        return true;
+    }
+
+    /// <summary>The next line (without its LF or CRLF) and the rest of the body after it.</summary>
+    public static ReadOnlySpan<byte> NextLine(ref ReadOnlySpan<byte> rest)
+    {
+        int end = rest.IndexOf((byte)'\n');
+        var line = end < 0 ? rest : rest[..end];
+        rest = end < 0 ? default : rest[(end + 1)..];
+        if (line.Length > 0 && line[^1] == '\r') line = line[..^1];
+        return line;
+    }
+
+    /// <summary>True for a line of nothing but commas and white space (the text reader's blank record).</summary>
+    public static bool IsBlank(ReadOnlySpan<byte> line)
+    {
+        foreach (byte b in line)
+            if (b != ',' && !char.IsWhiteSpace((char)b)) return false;
+        return true;
+    }
+
+    /// <summary>Everything one batch's workers share: the header, its binding, the columns written and how rows that
+    /// leave the binder are bound.</summary>
+    internal sealed class Job(CalculationDescriptor descriptor, List<string> header, CsvRowBinder.RowPlan plan,
+        IReadOnlyList<ResponseColumn> columns, Func<object, double?>[]? shortcuts, ILogger logger)
+    {
+        private readonly bool[] _numeric = header.Select(h => BatchEndpoints.IsNumericField(descriptor.RequestType, h)).ToArray();
+        private readonly Csv.HeaderPlan _jsonPlan = new(header);
+
+        /// <summary>Solves rows [first, first + count) of <paramref name="lines"/> into <paramref name="output"/>, one CSV
+        /// line each as the text path writes it, in UTF-8; counts ok and refused rows.</summary>
+        /// <remarks>Each line is built in the worker's own small builder and encoded at once: a builder the size of a
+        /// block would sit on the large-object heap and be copied whole when cleared.</remarks>
+        public void Solve(ReadOnlySpan<byte> body, (int Start, int Length)[] lines, int first, int count, Worker worker, BlockOutput output,
+            out int ok, out int refused)
+        {
+            ok = refused = 0;
+            output.Length = 0;
+            var text = worker.Line;
+            for (int i = first; i < first + count; i++)
+            {
+                if (i > first) output.Append(text);
+                text.Clear();
+                var line = body.Slice(lines[i].Start, lines[i].Length);
+                text.Append(i + 1).Append(',');
+                if (plan.TryBind(line, worker.Values, out var request))
+                {
+                    if (shortcuts is not null && Shortcut(request!, text))
+                    {
+                        ok++;
+                        continue;
+                    }
+                    var (status, value) = BatchEndpoints.Invoke(descriptor, request!, logger);
+                    if (Write(status, value, text)) ok++; else refused++;
+                }
+                else
+                {
+                    var (status, value) = ThroughJson(line, worker);
+                    if (Write(status, value, text)) ok++; else refused++;
+                }
+            }
+            if (count > 0) output.Append(text);
+        }
+
+        /// <summary>Writes "200,,v1,v2..." from the declared shortcuts, or nothing and false when one declines the row.</summary>
+        private bool Shortcut(object request, StringBuilder text)
+        {
+            int mark = text.Length;
+            text.Append(StatusCodes.Status200OK).Append(',');
+            foreach (var shortcut in shortcuts!)
+            {
+                double? given;
+                try
+                {
+                    given = shortcut(request);
+                }
+                catch (Exception)
+                {
+                    given = null; // the full solve meets the same input and answers for it (a 422, or a logged defect)
+                }
+                if (given is not { } value)
+                {
+                    text.Length = mark;
+                    return false;
+                }
+                CellWriter.Append(text.Append(','), value);
+            }
+            text.Append("\r\n");
+            return true;
+        }
+
+        private bool Write(int status, object? value, StringBuilder text)
+        {
+            BatchEndpoints.AppendRow(text, status, value, columns);
+            return status < 300;
+        }
+
+        /// <summary>A row the binder does not take, as a quoted body's row goes: the strict number check on numeric
+        /// cells, then the row written as JSON and bound from it.</summary>
+        private (int Status, object? Value) ThroughJson(ReadOnlySpan<byte> line, Worker worker)
+        {
+            var record = worker.Record;
+            record.Clear();
+            foreach (var range in line.Split((byte)',')) record.Add(Encoding.ASCII.GetString(line[range]));
+            for (int c = 0; c < record.Count && c < _numeric.Length; c++)
+            {
+                var cell = record[c].AsSpan().Trim();
+                if (_numeric[c] && cell.Length > 0 && StrictQuery.NumberProblem(cell) is { } problem)
+                    return (400, BatchEndpoints.Problem(header[c], problem));
+            }
+            worker.Json.Clear();
+            using (var json = new Utf8JsonWriter(worker.Json))
+                Csv.WriteJson(json, _jsonPlan, record);
+            return BatchEndpoints.RunRow(descriptor, worker.Json.WrittenSpan, logger);
+        }
+
+        public Worker NewWorker() => new(plan.NewValues());
+    }
+
+    /// <summary>One block's answer lines as UTF-8, in a pooled buffer that grows as needed.</summary>
+    internal sealed class BlockOutput
+    {
+        public byte[] Buffer = [];
+        public int Length;
+
+        public void Append(StringBuilder line)
+        {
+            int most = Encoding.UTF8.GetMaxByteCount(line.Length);
+            if (Buffer.Length - Length < most)
+            {
+                var larger = System.Buffers.ArrayPool<byte>.Shared.Rent(Math.Max(2 * Buffer.Length, Length + most + 65_536));
+                Buffer.AsSpan(0, Length).CopyTo(larger);
+                Release();
+                Buffer = larger;
+            }
+            foreach (var chunk in line.GetChunks()) Length += Encoding.UTF8.GetBytes(chunk.Span, Buffer.AsSpan(Length));
+        }
+
+        public void Release()
+        {
+            if (Buffer.Length > 0) System.Buffers.ArrayPool<byte>.Shared.Return(Buffer);
+            Buffer = [];
+        }
+    }
+
+    /// <summary>One worker's reusable scratch space.</summary>
+    internal sealed class Worker(CsvRowBinder.RowValues values)
+    {
+        public CsvRowBinder.RowValues Values { get; } = values;
+        public StringBuilder Line { get; } = new(1024);
+        public List<string> Record { get; } = [];
+        public System.Buffers.ArrayBufferWriter<byte> Json { get; } = new(512);
+    }
+
+    /// <summary>One window of blocks: each block's answer lines as UTF-8, and its counts.</summary>
+    private sealed class Window(int size)
+    {
+        public readonly BlockOutput[] Outputs = Enumerable.Range(0, size).Select(_ => new BlockOutput()).ToArray();
+        public readonly bool[] Done = new bool[size];
+        public readonly int[] Ok = new int[size];
+        public readonly int[] Refused = new int[size];
+        public int First;
+        public int Count;
+
+        public void Release()
+        {
+            foreach (var output in Outputs) output.Release();
+        }
+    }
+
+    /// <summary>Solves every row in blocks spread over the cores, a window of blocks at a time, each block encoded to
+    /// UTF-8 by its worker; while one window's blocks are written in order, the next window is solved (so at most two
+    /// windows' text is held). Stops, as the text path does, with a final error row naming the first row not written
+    /// when the time budget runs out.</summary>
+    public static async Task Run(Job job, byte[] body, int bodyLength, (int Start, int Length)[] lines, int rowCount, Stream output,
+        string calculation, double timeBudget, CancellationToken ct, CancellationToken aborted, int columnCount)
+    {
+        int blocks = (rowCount + BlockRows - 1) / BlockRows;
+        if (blocks == 0) return;
+        int cores = Math.Max(1, Environment.ProcessorCount);
+        int size = Math.Min(blocks, cores * 4);
+        var windows = new[] { new Window(size), new Window(size) };
+        var okRows = SolverMetrics.BatchRows.WithLabels(calculation, "ok");
+        var errorRows = SolverMetrics.BatchRows.WithLabels(calculation, "error");
+        var parallel = new ParallelOptions { MaxDegreeOfParallelism = cores };
+
+        void Solve(Window window)
+        {
+            Parallel.For(0, window.Count, parallel, job.NewWorker, (k, _, worker) =>
+            {
+                window.Done[k] = false;
+                if (ct.IsCancellationRequested) return worker;
+                int first = (window.First + k) * BlockRows;
+                job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), worker, window.Outputs[k],
+                    out window.Ok[k], out window.Refused[k]);
+                window.Done[k] = true;
+                return worker;
+            }, static _ => { });
+        }
+
+        // The workers read the body: every way out waits for them before the body's buffer goes back to the pool.
+        Task pending = Task.CompletedTask;
+        try
+        {
+            pending = Task.Run(() => Solve(Set(windows[0], 0)));
+            for (int w = 0, turn = 0; w < blocks; w += size, turn ^= 1)
+            {
+                await pending;
+                var current = windows[turn];
+                // The next window is chosen here, not in the task: the loop moves on before the task starts.
+                if (w + size < blocks)
+                {
+                    var next = Set(windows[turn ^ 1], w + size);
+                    pending = Task.Run(() => Solve(next));
+                }
+                else pending = Task.CompletedTask;
+                for (int k = 0; k < current.Count; k++)
+                {
+                    int first = (current.First + k) * BlockRows;
+                    if (!current.Done[k] || ct.IsCancellationRequested)
+                    {
+                        if (aborted.IsCancellationRequested) return;
+                        await output.WriteAsync(Encoding.UTF8.GetBytes(
+                            $"{first + 1},503,{Csv.Escape(BatchEndpoints.TimeBudgetMessage(timeBudget, first + 1))}{new string(',', columnCount)}\r\n"), aborted);
+                        SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
+                        return;
+                    }
+                    await output.WriteAsync(current.Outputs[k].Buffer.AsMemory(0, current.Outputs[k].Length), aborted);
+                    okRows.Inc(current.Ok[k]);
+                    errorRows.Inc(current.Refused[k]);
+                }
+            }
+            await pending;
+        }
+        finally
+        {
+            try
+            {
+                await pending;
+            }
+            catch (Exception) when (aborted.IsCancellationRequested || ct.IsCancellationRequested)
+            {
+                // The answer is already cut off or abandoned; a worker's failure has nowhere to go.
+            }
+            windows[0].Release();
+            windows[1].Release();
+        }
+
+        Window Set(Window window, int firstBlock)
+        {
+            window.First = firstBlock;
+            window.Count = Math.Min(size, blocks - firstBlock);
+            return window;
+        }
+    }
+}

@@ -40,14 +40,25 @@ public sealed partial class NetworkSolver
     /// <summary>The draw-off in m3/s the present state was solved with (0 when none).</summary>
     internal double StateDrawOff => _stateDrawOffJunction >= 0 ? _stateDrawOff : 0;
 
-    /// <summary>Keeps the factor of the head equations at the present state, and the conductances it was assembled
-    /// with, for <see cref="RestoreKeptFactor"/>; when the factor held is not the present state's, one Newton step at
-    /// the present state refreshes it first (which moves the state by what is left of its imbalances: the caller
-    /// restores a state it saved).</summary>
+    /// <summary>Keeps a factor of the head equations for <see cref="RestoreKeptFactor"/>, and the conductances it was
+    /// assembled with: at the present state with every open pipe's flow raised to at least
+    /// <paramref name="leastVelocity"/> (m/s) times its area, or, with 0, at the present state itself. One Newton step
+    /// assembles and factorises them (when the factor held is not already the present state's), which moves the state:
+    /// the caller restores a state it saved.</summary>
     /// <returns>False when the head equations could not be solved, or the direct solver is not in use.</returns>
-    internal bool KeepFactor()
+    internal bool KeepFactor(double leastVelocity)
     {
         if (_direct is null) return false;
+        if (leastVelocity > 0)
+        {
+            for (int l = 0; l < _pipes; l++)
+            {
+                if (_status[l] != LinkStatus.Open) continue;
+                double least = leastVelocity * _area[l];
+                if (Math.Abs(_flow[l]) < least) _flow[l] = Math.CopySign(least, _flow[l]);
+            }
+            _factorCurrent = false;
+        }
         if (!_factorCurrent && !RefreshFactor()) return false;
         if (_keptFactor.Length != _direct.FactorLength) _keptFactor = new double[_direct.FactorLength];
         if (_keptConductance.Length != _links) _keptConductance = new double[_links];
@@ -65,12 +76,13 @@ public sealed partial class NetworkSolver
         _factorCurrent = true;
     }
 
-    /// <summary>Moves the present state along the tangent for a draw-off <paramref name="change"/> at the draw-off
-    /// junction's present draw-off (the factor must be the present state's), shortened like a Newton step.</summary>
+    /// <summary>Moves the present state along a tangent w = dH/dQ for a draw-off <paramref name="change"/>: heads by
+    /// w times the change, each open link's flow by its conductance (those of the factor last made or restored) times
+    /// the change of the head across it; shortened like a Newton step.</summary>
     /// <returns>The change taken; NaN when none could be.</returns>
     internal double MoveAlongTangent(ReadOnlySpan<double> dHeadDrawOff, double change)
     {
-        if (!_factorCurrent || !double.IsFinite(change)) return double.NaN;
+        if (!double.IsFinite(change)) return double.NaN;
         double ignored = 0;
         double moved = MoveAlong(dHeadDrawOff, change, ref ignored);
         if (!double.IsNaN(moved)) _factorCurrent = false;

@@ -110,7 +110,8 @@ public sealed record FireFlowOptions(double ResidualPressureHead = 14, double? M
 /// <param name="LimitingJunction">The junction whose pressure head sets the limit: the fire-flow junction itself
 /// (residual pressure head) or another junction (minimum pressure head).</param>
 /// <param name="LimitingPressureHead">The limiting junction's pressure head in m at that draw-off.</param>
-/// <param name="Iterations">Network solves of the search (each warm-started from the one before).</param>
+/// <param name="Iterations">Network solves of the search (each warm-started from the one before); a bordered solve,
+/// which finds the draw-off together with the network, counts as one.</param>
 /// <param name="NetworkIterations">Newton iterations of those network solves, summed.</param>
 /// <param name="Status">Why the search stopped.</param>
 public readonly record struct FireFlowResult(
@@ -150,6 +151,22 @@ public sealed record FireFlowReport(NetworkResult Background, IReadOnlyList<Fire
 /// <see cref="FireFlowOptions.SearchVelocity"/>; it starts from the smaller of the draw-off that the background's
 /// tangent predicts would reach the first limit and 1.5 m/s in those pipes (a FlowSolve choice; the answer does not
 /// depend on it). Each junction's search starts from the background solution.</para>
+/// <para>The bordered solve. A demand-driven network without control valves, solved with the direct head solver (the
+/// default), takes a faster way to the same root: the draw-off becomes an unknown of one network solve, with the pressure
+/// head of one constrained junction held at its limit as the extra equation (<see cref="NetworkSolver"/>'s bordered
+/// Newton iteration: one factorisation and two triangular solves an iteration), so that the network and the draw-off
+/// converge together instead of a network solve per trial. The junction itself is held first; when another junction is
+/// then below its minimum, the most broken one is held next, warm-started from the last solve; since every pressure
+/// head falls as the draw-off grows, the draw-off falls from solve to solve, and when every limit holds (to
+/// <see cref="FireFlowOptions.PressureTolerance"/>) the junction held is the first to reach its limit and its draw-off is
+/// the answer. The solve starts from the background moved along a tangent of the network at fire-flow scale (every
+/// pipe's flow raised to at least 1.5 m/s in one factorisation kept for the whole analysis) to a draw-off estimated from
+/// the drop there. Its answer meets the network's tolerances at the draw-off found and holds the limiting pressure head
+/// to rounding; any solve that does not converge, or a draw-off beyond the search limit, hands the junction to the
+/// scalar search above, unchanged.</para>
+/// <para>Junctions are searched in parallel (<see cref="FireFlowOptions.MaxParallelism"/>), each worker on its own
+/// solver started from the same background state: every answer is the one a search one after another gives, in the
+/// order asked.</para>
 /// <para>The results are engineering estimates to be checked by a qualified engineer; a fire-flow figure does not
 /// replace a hydrant flow test, and local fire codes govern the residual pressure.</para>
 /// </remarks>

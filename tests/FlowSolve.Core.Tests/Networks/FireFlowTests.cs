@@ -383,6 +383,46 @@ public sealed class FireFlowTests
                 cancellation: TestContext.Current.CancellationToken).Junctions);
             Assert.True(r.Converged, r.Status.Reason());
             Assert.Equal(expected, r.AvailableFlow, 1e-6 * expected);
+            Assert.InRange(r.Iterations, 1, minimum is null ? 1 : 4); // the bordered solve, not the scalar search
         }
+    }
+    [Fact]
+    public void Solve_WithAPumpedSupply_MatchesBisectionOnFullNetworkSolves()
+    {
+        // The looped network fed from a low reservoir through a pump (curve 45 m - 800 Q^2, invented test data): the
+        // pump's duty moves along its curve as the fire draws; the bordered solve holds the pump open between passes
+        // as a network solve does.
+        var looped = Looped();
+        var model = looped with
+        {
+            Reservoirs = [new("r", 40)],
+            Pipes = [new("suction", "r", "s", 20, 0.3, 1e-4), .. looped.Pipes.Select(p => p.Id == "p1" ? p with { From = "d" } : p)],
+            Junctions = [new("s", 0, 0), new("d", 0, 0), .. looped.Junctions],
+            Pumps = [new NetworkPump("pump", "s", "d", FlowSolve.Core.Pumps.PumpCurve.FromCoefficients(45, 0, -800))],
+        };
+        foreach (var (junction, minimum) in new[] { ("j4", (double?)null), ("j5", 10.0) })
+        {
+            double expected = BisectedFireFlow(model, junction, 14, minimum);
+            var r = Assert.Single(FireFlow.Solve(model, [junction], new FireFlowOptions(14, minimum) { MaxParallelism = 1 },
+                cancellation: TestContext.Current.CancellationToken).Junctions);
+            Assert.True(r.Converged, r.Status.Reason());
+            Assert.Equal(expected, r.AvailableFlow, 1e-6 * expected);
+            Assert.InRange(r.Iterations, 1, minimum is null ? 1 : 4); // the bordered solve, not the scalar search
+        }
+    }
+
+    [Fact]
+    public void Solve_FlowBeyondTheSearchLimit_IsReportedAtTheLimitByTheScalarSearch()
+    {
+        // 1 000 m of head over 10 m of 100 mm pipe: the junction keeps its residual at far more than 30 m/s, so the bordered
+        // solve's draw-off lies beyond the search limit and the scalar search reports the limit itself, the flow that runs
+        // the one pipe at 30 m/s (a stated property of the search), with every limit still met there.
+        var model = Model([new("j", 0, 0.01)], [new("r", 1000)], [new("p", "r", "j", 10, 0.1, 1e-4)]);
+        var r = Assert.Single(FireFlow.Solve(model, ["j"], cancellation: TestContext.Current.CancellationToken).Junctions);
+        double cap = FireFlowOptions.SearchVelocity * Math.PI * 0.1 * 0.1 / 4;
+        Assert.Equal(FireFlowStatus.AboveSearchLimit, r.Status);
+        Assert.False(r.Converged);
+        Assert.Equal(cap, r.AvailableFlow, 1e-6 * cap);
+        Assert.True(r.PressureHead > 14);
     }
 }

@@ -355,13 +355,15 @@ public sealed class FireFlowTests
     }
 
     [Theory]
-    [InlineData(null)]
-    [InlineData(25.0)]
-    public void Solve_InParallel_GivesTheAnswersOfOneSearchAfterAnother(double? minimum)
+    [InlineData(null, false)]
+    [InlineData(25.0, false)]
+    [InlineData(null, true)]
+    [InlineData(25.0, true)]
+    public void Solve_InParallel_GivesTheAnswersOfOneSearchAfterAnother(double? minimum, bool pressureDriven)
     {
         // Each worker has its own solver started from the same background state: every figure equals the sequential
-        // run's bit for bit, in the order asked.
-        var model = Grid();
+        // run's bit for bit, in the order asked; under pressure-driven demand every junction takes the scalar search.
+        var model = Grid() with { DemandModel = pressureDriven ? new PressureDrivenDemand(0, 20, 0.5) : null };
         string[] asked = model.Junctions.Select(j => j.Id).Reverse().ToArray();
         var ct = TestContext.Current.CancellationToken;
         var one = FireFlow.Solve(model, asked, new FireFlowOptions(14, minimum) { MaxParallelism = 1 }, cancellation: ct).Junctions;

@@ -20,7 +20,10 @@ public static class FireFlowDocs
         "minimumPressureHead is given, every other junction's stays at or above that; every pressure head falls as Q grows, so Q " +
         "is the smallest root over the limits, found by safeguarded Newton iteration in sqrt(p(0) - p(Q)) (about linear in Q, " +
         "head losses growing about as Q^2), each evaluation a full network solve warm-started from the one before, dp/dQ for " +
-        "every junction from one more solve with the factor of the network's own Jacobian; stopped when the limiting pressure head is within 1e-6 m of its limit";
+        "every junction from one more solve with the factor of the network's own Jacobian; stopped when the limiting pressure head is within 1e-6 m of its limit; " +
+        "on a demand-driven network without control valves, by a bordered Newton iteration instead: the draw-off an unknown of one " +
+        "network solve with the limiting junction's pressure head held at its limit (one factorisation and two triangular solves an " +
+        "iteration), the most broken other limit held next until every limit holds, the scalar search where that solve fails";
 
     public const string Description =
         "Fire flow: for each junction listed in fireFlow.junctions (every junction with a positive demand when omitted), the largest " +
@@ -34,7 +37,11 @@ public static class FireFlowDocs
         "grows, so the available flow is the smallest draw-off at which any limited pressure head reaches its limit: a scalar root per " +
         "junction, solved by safeguarded Newton iteration in the square root of the pressure drop (nearly linear in the flow), each " +
         "evaluation a full network solve warm-started from the one before, with dp/dQ of every junction from one more solve with the " +
-        "factor of the network's own Jacobian. Under pressure-driven demand the fire draw-off is a fixed demand, while the other " +
+        "factor of the network's own Jacobian. On a demand-driven network without control valves the same root is found faster by " +
+        "a bordered Newton iteration: the draw-off is an unknown of one network solve in which the limiting junction's pressure " +
+        "head is held at its limit (iterations then counts these solves); where it fails the scalar search runs. Junctions are " +
+        "searched in parallel with answers equal to those found one after another. " +
+        "Under pressure-driven demand the fire draw-off is a fixed demand, while the other " +
         "demands still follow the law (they shrink as the pressure falls, which leaves more water for the fire). A junction below its " +
         "limit even with no draw-off has no answer: converged false, availableFlow 0, status residual-not-met-at-zero-draw-off or " +
         "minimum-not-met-at-zero-draw-off, and a warning naming it; a search that stops early says so the same way. Bad input " +

@@ -88,25 +88,7 @@ public sealed partial class NetworkSolver
     /// <returns>False when the head equations could not be solved (non-finite values).</returns>
     internal bool DrawOffSensitivity(int junction, Span<double> dHeadDrawOff)
     {
-        if (!_factorCurrent)
-        {
-            // The refreshing step is a Newton step of the equations the present state solves, draw-off included.
-            _drawOffJunction = _stateDrawOffJunction;
-            _drawOff = _stateDrawOff;
-            try
-            {
-                _outOfRange = false;
-                EvaluateLinks();
-                EvaluateOutlets();
-                Measure();
-                if (_outOfRange || !Step(0.1 * _options.FlowTolerance, out _, out _)) return false;
-            }
-            finally
-            {
-                _drawOffJunction = -1;
-            }
-            _factorCurrent = true;
-        }
+        if (!_factorCurrent && !RefreshFactor()) return false;
         Array.Clear(_rhs);
         _rhs[junction] = -1;
         if (_direct is not null) _direct.Solve(_rhs, dHeadDrawOff);
@@ -128,6 +110,41 @@ public sealed partial class NetworkSolver
     internal void PredictDrawOff(ReadOnlySpan<double> dHeadDrawOff, double change)
     {
         if (!_factorCurrent || !double.IsFinite(change)) return;
+        double ignored = 0;
+        if (double.IsNaN(MoveAlong(dHeadDrawOff, change, ref ignored))) return;
+        _factorCurrent = false;
+    }
+
+    /// <summary>The factor of the head equations at the present state: one Newton step of the equations the present
+    /// state solves (draw-off included) assembles and factorises them there; the step itself moves the state by what is
+    /// left of its imbalances.</summary>
+    /// <returns>False when the head equations could not be solved.</returns>
+    private bool RefreshFactor()
+    {
+        _drawOffJunction = _stateDrawOffJunction;
+        _drawOff = _stateDrawOff;
+        try
+        {
+            _outOfRange = false;
+            EvaluateLinks();
+            EvaluateOutlets();
+            Measure();
+            if (_outOfRange || !Step(0.1 * _options.FlowTolerance, out _, out _)) return false;
+        }
+        finally
+        {
+            _drawOffJunction = -1;
+        }
+        _factorCurrent = true;
+        return true;
+    }
+
+    /// <summary>Moves heads and open links' flows along the tangent dH/dQ for a change of the draw-off (see
+    /// <see cref="PredictDrawOff"/>), shortened like a Newton step; raises <paramref name="maxChange"/> to the largest
+    /// change of a link's flow.</summary>
+    /// <returns>The change of the draw-off taken (the shortened one); NaN when none could be taken.</returns>
+    private double MoveAlong(ReadOnlySpan<double> dHeadDrawOff, double change, ref double maxChange)
+    {
         double scale = 1;
         for (int l = 0; l < _links; l++)
         {
@@ -138,7 +155,7 @@ public sealed partial class NetworkSolver
             double limit = Math.Max(_stepLimit[l], 2 * Math.Abs(_flow[l]));
             if (move > limit && limit < scale * move) scale = limit / move;
         }
-        if (!(scale > 0) || !double.IsFinite(scale)) return;
+        if (!(scale > 0) || !double.IsFinite(scale)) return double.NaN;
         double step = scale * change;
         for (int j = 0; j < _junctions; j++) _head[j] += step * dHeadDrawOff[j];
         for (int l = 0; l < _links; l++)
@@ -146,9 +163,11 @@ public sealed partial class NetworkSolver
             if (_status[l] != LinkStatus.Open) continue;
             int f = _from[l], t = _to[l];
             double across = (f < _junctions ? dHeadDrawOff[f] : 0) - (t < _junctions ? dHeadDrawOff[t] : 0);
-            _flow[l] += _conductance[l] * across * step;
+            double move = _conductance[l] * across * step;
+            _flow[l] += move;
+            if (!(Math.Abs(move) <= maxChange)) maxChange = Math.Abs(move);
         }
-        _factorCurrent = false;
+        return step;
     }
 
     /// <summary>A saved state of a solver: heads, flows, statuses and positions on the demand law.</summary>

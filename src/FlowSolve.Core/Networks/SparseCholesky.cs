@@ -246,6 +246,17 @@ public sealed class SparseCholesky
         }
     }
 
+    /// <summary>Length of the factor's storage (<see cref="SaveFactor"/>).</summary>
+    internal int FactorLength => _factor.Length;
+
+    /// <summary>Copies the factor of the last successful <see cref="Factorise"/> into <paramref name="into"/> (length
+    /// <see cref="FactorLength"/>), so that it can be put back by <see cref="RestoreFactor"/> after other factorisations
+    /// of the same pattern: a copy instead of a refactorisation.</summary>
+    internal void SaveFactor(Span<double> into) => _factor.CopyTo(into);
+
+    /// <summary>Puts back a factor saved by <see cref="SaveFactor"/>; <see cref="Solve"/> then solves with it.</summary>
+    internal void RestoreFactor(ReadOnlySpan<double> from) => from.CopyTo(_factor);
+
     /// <summary>Number of supernodes.</summary>
     public int Supernodes => _supernodes;
 

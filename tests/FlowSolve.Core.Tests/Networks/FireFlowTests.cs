@@ -280,4 +280,151 @@ public sealed class FireFlowTests
             before = p;
         }
     }
+    /// <summary>The reference fire flow by plain bisection on full network solves: the draw-off added to the junction's
+    /// demand, each trial a cold <see cref="NetworkSolver.Solve"/> of the whole network (no fire-flow code), halved
+    /// until the bracket's ends are neighbouring doubles; the largest flow at which every limit still holds.</summary>
+    private static double BisectedFireFlow(NetworkModel model, string junction, double residual, double? minimum)
+    {
+        bool Holds(double q)
+        {
+            var loaded = model with { Junctions = model.Junctions.Select(j => j.Id == junction ? j with { Demand = j.Demand + q } : j).ToArray() };
+            var result = NetworkSolver.Solve(loaded);
+            Assert.True(result.Converged, result.Status.Reason());
+            foreach (var j in result.Junctions)
+                if (j.Id == junction ? j.PressureHead < residual : minimum is double m && j.PressureHead < m) return false;
+            return true;
+        }
+        double lo = 0, hi = 0.01;
+        while (Holds(hi)) { lo = hi; hi *= 2; }
+        for (int i = 0; i < 200; i++)
+        {
+            double mid = 0.5 * (lo + hi);
+            if (mid <= lo || mid >= hi) break;
+            if (Holds(mid)) lo = mid; else hi = mid;
+        }
+        return lo;
+    }
+
+    [Theory]
+    [InlineData("j4", null)]
+    [InlineData("j2", null)]
+    [InlineData("j5", null)]
+    [InlineData("j4", 10.0)]
+    [InlineData("j5", 10.0)]
+    [InlineData("j1", 10.0)]
+    public void Solve_BorderedSolve_MatchesBisectionOnFullNetworkSolves(string junction, double? minimum)
+    {
+        // A demand-driven network with the direct head solver takes the bordered solve (the draw-off and the network in
+        // one Newton iteration, the limiting junction's pressure head held): one held solve when the junction's own
+        // residual limits, one more for each other junction found below its minimum.
+        var model = Looped();
+        double expected = BisectedFireFlow(model, junction, 14, minimum);
+        var r = Assert.Single(FireFlow.Solve(model, [junction], new FireFlowOptions(14, minimum) { MaxParallelism = 1 },
+            cancellation: TestContext.Current.CancellationToken).Junctions);
+        Assert.True(r.Converged, r.Status.Reason());
+        Assert.Equal(expected, r.AvailableFlow, 1e-6 * expected);
+        Assert.InRange(r.Iterations, 1, minimum is null ? 1 : 4);
+        double limit = r.LimitingJunction == junction ? 14 : minimum!.Value;
+        Assert.Equal(limit, r.LimitingPressureHead, 1e-6);
+        // The scalar search (each trial a network solve) agrees with the same reference.
+        var scalar = Assert.Single(FireFlow.Solve(model, [junction], new FireFlowOptions(14, minimum) { MaxParallelism = 1, ScalarSearchOnly = true },
+            cancellation: TestContext.Current.CancellationToken).Junctions);
+        Assert.True(scalar.Converged, scalar.Status.Reason());
+        Assert.Equal(expected, scalar.AvailableFlow, 1e-6 * expected);
+        Assert.Equal(scalar.LimitingJunction, r.LimitingJunction);
+    }
+
+    /// <summary>A square grid of 6 x 6 junctions (invented test data), Darcy pipes of three sizes, fed from two
+    /// reservoirs at opposite corners, the lower one through a check valve.</summary>
+    private static NetworkModel Grid()
+    {
+        const int n = 6;
+        var junctions = new List<Junction>();
+        var pipes = new List<NetworkPipe>();
+        double[] sizes = [0.1, 0.15, 0.2];
+        for (int r = 0; r < n; r++)
+            for (int c = 0; c < n; c++)
+            {
+                junctions.Add(new($"g{r}_{c}", 2 * ((r * 7 + c * 3) % 5), 0.002 + 0.001 * ((r + c) % 3)));
+                if (c + 1 < n) pipes.Add(new($"h{r}_{c}", $"g{r}_{c}", $"g{r}_{c + 1}", 150 + 10 * r, sizes[(r + c) % 3], 1e-4));
+                if (r + 1 < n) pipes.Add(new($"v{r}_{c}", $"g{r}_{c}", $"g{r + 1}_{c}", 120 + 10 * c, sizes[(r * c) % 3], 1e-4));
+            }
+        pipes.Add(new("feed-a", "ra", "g0_0", 50, 0.3, 1e-4));
+        pipes.Add(new("feed-b", "rb", "g5_5", 50, 0.3, 1e-4, CheckValve: true));
+        return new NetworkModel(junctions, [new("ra", 70), new("rb", 66)], pipes, [], Water);
+    }
+
+    [Theory]
+    [InlineData(null, false)]
+    [InlineData(25.0, false)]
+    [InlineData(null, true)]
+    [InlineData(25.0, true)]
+    public void Solve_InParallel_GivesTheAnswersOfOneSearchAfterAnother(double? minimum, bool pressureDriven)
+    {
+        // Each worker has its own solver started from the same background state: every figure equals the sequential
+        // run's bit for bit, in the order asked; under pressure-driven demand every junction takes the scalar search.
+        var model = Grid() with { DemandModel = pressureDriven ? new PressureDrivenDemand(0, 20, 0.5) : null };
+        string[] asked = model.Junctions.Select(j => j.Id).Reverse().ToArray();
+        var ct = TestContext.Current.CancellationToken;
+        var one = FireFlow.Solve(model, asked, new FireFlowOptions(14, minimum) { MaxParallelism = 1 }, cancellation: ct).Junctions;
+        var many = FireFlow.Solve(model, asked, new FireFlowOptions(14, minimum) { MaxParallelism = 3 }, cancellation: ct).Junctions;
+        Assert.Equal(asked, many.Select(r => r.Id));
+        Assert.Equal(one, many);
+        Assert.All(one, r => Assert.True(r.Converged, r.Status.Reason()));
+    }
+
+    [Fact]
+    public void Solve_OnAGridWithACheckValve_MatchesBisectionOnFullNetworkSolves()
+    {
+        // The bordered solve updates the check valve's status between passes as a network solve does.
+        var model = Grid();
+        foreach (var (junction, minimum) in new[] { ("g5_4", (double?)null), ("g2_3", 25.0) })
+        {
+            double expected = BisectedFireFlow(model, junction, 14, minimum);
+            var r = Assert.Single(FireFlow.Solve(model, [junction], new FireFlowOptions(14, minimum) { MaxParallelism = 1 },
+                cancellation: TestContext.Current.CancellationToken).Junctions);
+            Assert.True(r.Converged, r.Status.Reason());
+            Assert.Equal(expected, r.AvailableFlow, 1e-6 * expected);
+            Assert.InRange(r.Iterations, 1, minimum is null ? 1 : 4); // the bordered solve, not the scalar search
+        }
+    }
+    [Fact]
+    public void Solve_WithAPumpedSupply_MatchesBisectionOnFullNetworkSolves()
+    {
+        // The looped network fed from a low reservoir through a pump (curve 45 m - 800 Q^2, invented test data): the
+        // pump's duty moves along its curve as the fire draws; the bordered solve holds the pump open between passes
+        // as a network solve does.
+        var looped = Looped();
+        var model = looped with
+        {
+            Reservoirs = [new("r", 40)],
+            Pipes = [new("suction", "r", "s", 20, 0.3, 1e-4), .. looped.Pipes.Select(p => p.Id == "p1" ? p with { From = "d" } : p)],
+            Junctions = [new("s", 0, 0), new("d", 0, 0), .. looped.Junctions],
+            Pumps = [new NetworkPump("pump", "s", "d", FlowSolve.Core.Pumps.PumpCurve.FromCoefficients(45, 0, -800))],
+        };
+        foreach (var (junction, minimum) in new[] { ("j4", (double?)null), ("j5", 10.0) })
+        {
+            double expected = BisectedFireFlow(model, junction, 14, minimum);
+            var r = Assert.Single(FireFlow.Solve(model, [junction], new FireFlowOptions(14, minimum) { MaxParallelism = 1 },
+                cancellation: TestContext.Current.CancellationToken).Junctions);
+            Assert.True(r.Converged, r.Status.Reason());
+            Assert.Equal(expected, r.AvailableFlow, 1e-6 * expected);
+            Assert.InRange(r.Iterations, 1, minimum is null ? 1 : 4); // the bordered solve, not the scalar search
+        }
+    }
+
+    [Fact]
+    public void Solve_FlowBeyondTheSearchLimit_IsReportedAtTheLimitByTheScalarSearch()
+    {
+        // 1 000 m of head over 10 m of 100 mm pipe: the junction keeps its residual at far more than 30 m/s, so the bordered
+        // solve's draw-off lies beyond the search limit and the scalar search reports the limit itself, the flow that runs
+        // the one pipe at 30 m/s (a stated property of the search), with every limit still met there.
+        var model = Model([new("j", 0, 0.01)], [new("r", 1000)], [new("p", "r", "j", 10, 0.1, 1e-4)]);
+        var r = Assert.Single(FireFlow.Solve(model, ["j"], cancellation: TestContext.Current.CancellationToken).Junctions);
+        double cap = FireFlowOptions.SearchVelocity * Math.PI * 0.1 * 0.1 / 4;
+        Assert.Equal(FireFlowStatus.AboveSearchLimit, r.Status);
+        Assert.False(r.Converged);
+        Assert.Equal(cap, r.AvailableFlow, 1e-6 * cap);
+        Assert.True(r.PressureHead > 14);
+    }
 }

@@ -132,7 +132,7 @@ public sealed partial class NetworkSolver
     private readonly SymmetricSparseSolver? _iterative;  // NetworkLinearSolver.ConjugateGradient
     private readonly SparseCholesky? _direct;            // NetworkLinearSolver.SparseCholesky
     private readonly int[] _diagFrom, _diagTo, _offFromTo, _offToFrom;
-    private readonly string[] _unsupplied;
+    private string[] _unsupplied; // recomputed by a timeline when its fixed heads or shut links change
     private readonly IReadOnlyDictionary<string, int> _linkIndex, _nodeIndex;
     private bool _warm;
 
@@ -288,7 +288,7 @@ public sealed partial class NetworkSolver
             _direct = new SparseCholesky(rowStart, columns);
         _residual = _direct is null ? [] : new double[_junctions];
         (_diagFrom, _diagTo, _offFromTo, _offToFrom) = EntryPositions(rowStart, columns);
-        _diagJunction = new int[pdd || _valveOf.Length > 0 ? _junctions : 0];
+        _diagJunction = new int[_junctions];
         for (int j = 0; j < _diagJunction.Length; j++)
             _diagJunction[j] = Array.BinarySearch(columns, rowStart[j], rowStart[j + 1] - rowStart[j], j);
         _unsupplied = FindUnsupplied();
@@ -349,7 +349,7 @@ public sealed partial class NetworkSolver
             }
             else
             {
-                _status[l] = _model.Pipes[l].Closed ? LinkStatus.Closed : LinkStatus.Open;
+                _status[l] = IsShut(l) ? LinkStatus.Closed : LinkStatus.Open;
                 _flow[l] = _status[l] == LinkStatus.Open ? InitialVelocity * _area[l] : 0;
             }
         }
@@ -455,7 +455,7 @@ public sealed partial class NetworkSolver
         double sum = 0;
         for (int j = 0; j < _junctions; j++)
         {
-            double r = _continuity[j];
+            double r = _dirichlet.Length > 0 && _dirichlet[j] ? 0 : _continuity[j];
             sum += r * r;
             if (!_onLaw[j]) continue;
             double f = _demand[j] / span * _outletImbalance[j];
@@ -747,6 +747,7 @@ public sealed partial class NetworkSolver
         double continuity = 0;
         for (int j = 0; j < _junctions; j++)
         {
+            if (_dirichlet.Length > 0 && _dirichlet[j]) continue; // a tank at a known head: c[j] is its net inflow
             double e = Math.Abs(c[j]);
             if (!(e <= continuity)) continuity = e;
             if (!(e <= Math.Max(o.FlowTolerance, Resolution * scale[j]))) met = false;
@@ -816,6 +817,12 @@ public sealed partial class NetworkSolver
                 if (tj && _fixedHead[t]) tj = false;
                 if (_kind[l] == Kind.Valve && _valveState[_valveOf[l]] == ValveState.Active && _status[l] != LinkStatus.Open) ce = 0;
             }
+            if (_dirichlet.Length > 0)
+            {
+                // A tank at a known head (NetworkSolver.Timeline.cs) drops out of the head equations like a reservoir.
+                if (fj && _dirichlet[f]) fj = false;
+                if (tj && _dirichlet[t]) tj = false;
+            }
             if (fj) { _rhs[f] -= ce; values[_diagFrom[l]] += c; }
             if (tj) { _rhs[t] += ce; values[_diagTo[l]] += c; }
             if (fj && tj) { values[_offFromTo[l]] -= c; values[_offToFrom[l]] -= c; }
@@ -834,6 +841,7 @@ public sealed partial class NetworkSolver
             _startMerit = Merit(); // the conductances just set are the line search's weights
         }
         if (_valveOf.Length > 0) AssembleValves(values);
+        if (_dirichlet.Length > 0) ImposeKnownHeads(values);
         if (_direct is null)
         {
             if (!_iterative!.Factorise()) return false;
@@ -1132,12 +1140,14 @@ public sealed partial class NetworkSolver
         }
         for (int l = 0; l < _links; l++)
         {
-            if (_kind[l] == Kind.Pump ? !(_speed[l] > 0) : _kind[l] != Kind.Valve && _model.Pipes[l].Closed) continue;
+            if (_kind[l] == Kind.Pump ? !(_speed[l] > 0) : _kind[l] != Kind.Valve && IsShut(l)) continue;
             int a = Find(_from[l]), b = Find(_to[l]);
             if (a != b) parent[a] = b;
         }
         var supplied = new bool[nodes];
         for (int r = 0; r < _reservoirs; r++) supplied[Find(_junctions + r)] = true;
+        for (int j = 0; j < _dirichlet.Length; j++)
+            if (_dirichlet[j]) supplied[Find(j)] = true; // a tank at a known head supplies like a reservoir
         var list = new List<string>();
         for (int j = 0; j < _junctions; j++)
             if (!supplied[Find(j)]) list.Add(_model.Junctions[j].Id);

@@ -1,0 +1,214 @@
+namespace FlowSolve.Core.Networks;
+
+/// <summary>
+/// Hooks for an extended-period run (<see cref="NetworkSimulator"/>): one solver instance serves the whole run, warm
+/// started from its previous state, with the symbolic factorisation done once.
+/// </summary>
+/// <remarks>
+/// <para>The run's tanks are junctions of the solver's model from the start, so the sparsity pattern of the head
+/// equations never changes. A tank whose level moves is a known head (a Dirichlet node): its row of the head equations
+/// becomes the identity and its column drops out (the links to it are assembled as links to a reservoir), so the Newton
+/// step leaves its head where the run put it, and its continuity residual is its net inflow. A tank held at a limit is
+/// an ordinary junction of zero demand, its head unknown. Demands change per junction (patterns), pipes are shut and
+/// opened, and pumps change speed, between solves.</para>
+/// </remarks>
+public sealed partial class NetworkSolver
+{
+    private bool[] _dirichlet = [];   // per junction: a tank at a known head (empty outside a timeline)
+    private double[] _knownHead = []; // per junction: the known head, m (kept across a reset)
+    private bool[] _shut = [];        // per link: a pipe shut (by the model or a control); empty: the model's Closed
+    private List<NetworkIteration>? _timelineRecord;
+
+    /// <summary>A pipe shut by the model or, in a timeline, by a control.</summary>
+    private bool IsShut(int l) => _shut.Length > 0 ? _shut[l] : _model.Pipes[l].Closed;
+
+    /// <summary>Identity rows for the known heads: no correction of a known head.</summary>
+    private void ImposeKnownHeads(Span<double> values)
+    {
+        for (int j = 0; j < _junctions; j++)
+        {
+            if (!_dirichlet[j]) continue;
+            values[_diagJunction[j]] = 1;
+            _rhs[j] = 0;
+        }
+    }
+
+    /// <summary>Prepares the timeline's arrays (once, before the first hook).</summary>
+    internal void BeginTimeline()
+    {
+        if (_dirichlet.Length == _junctions && _shut.Length == _links) return;
+        _dirichlet = new bool[_junctions];
+        _knownHead = new double[_junctions];
+        _shut = new bool[_links];
+        for (int l = 0; l < _pipes; l++) _shut[l] = _model.Pipes[l].Closed;
+        _timelineRecord = [];
+    }
+
+    /// <summary>Node index of a junction id, or -1.</summary>
+    internal int NodeOf(string id) => _nodeIndex.TryGetValue(id, out int k) && k >= 0 ? k : -1;
+
+    /// <summary>Junction j's head is known (a tank at its level): <paramref name="head"/> m.</summary>
+    internal void SetKnownHead(int j, double head)
+    {
+        _dirichlet[j] = true;
+        _head[j] = _knownHead[j] = head;
+    }
+
+    /// <summary>Junction j's head becomes unknown again (a tank held at a limit, zero demand).</summary>
+    internal void SetFreeHead(int j) => _dirichlet[j] = false;
+
+    /// <summary>Sets each junction's demand to its model demand times <paramref name="factors"/>[j].</summary>
+    internal void SetDemandFactors(ReadOnlySpan<double> factors)
+    {
+        for (int j = 0; j < _junctions; j++) _demand[j] = _baseDemand[j] * factors[j];
+    }
+
+    /// <summary>Opens or shuts link l (a pipe, or a pump: a shut pump is off at any speed).</summary>
+    internal void SetLinkOpen(int l, bool open)
+    {
+        if (_kind[l] == Kind.Pump) return; // pumps: see SetPumpSpeed
+        _shut[l] = !open;
+        if (!open)
+        {
+            _status[l] = LinkStatus.Closed;
+            _flow[l] = 0;
+        }
+        else if (_status[l] == LinkStatus.Closed)
+        {
+            _status[l] = LinkStatus.Open;
+            _flow[l] = (_checkValve[l] ? 0.01 : 1.0) * InitialVelocity * _area[l];
+        }
+    }
+
+    /// <summary>Sets pump l's speed ratio (0 switches it off), with the limits that depend on it.</summary>
+    internal void SetPumpSpeed(int l, double speed)
+    {
+        var curve = _curve[l];
+        double qRef = curve.ZeroHeadFlow ?? curve.SearchLimit;
+        _speed[l] = speed;
+        _pumpSlopeFloor[l] = 1e-6 * Math.Abs(curve.C0) * Math.Max(speed, 1e-3) / qRef;
+        _stepLimit[l] = Math.Max(speed, 1e-3) * qRef;
+        if (!(speed > 0))
+        {
+            _status[l] = LinkStatus.PumpOff;
+            _flow[l] = 0;
+        }
+        else if (_status[l] == LinkStatus.PumpOff || _flow[l] <= 0)
+        {
+            _status[l] = LinkStatus.Open;
+            _flow[l] = 0.5 * speed * qRef;
+        }
+    }
+
+    /// <summary>Recomputes the junctions cut off from every fixed head (after shutting links or freeing tanks).</summary>
+    internal void RefreshSupply() => _unsupplied = FindUnsupplied();
+
+    /// <summary>The solver's link index of pipe k, pump k or valve k of the model.</summary>
+    internal int PipeLink(int k) => k;
+    internal int PumpLink(int k) => _pipes + k;
+    internal int ValveLink(int k) => _pumpEnd + k;
+
+    /// <summary>Head of node j, m.</summary>
+    internal double NodeHead(int j) => _head[j];
+
+    /// <summary>Net flow into junction j from its links, m3/s (from the present flows).</summary>
+    internal double NetInflow(int j, ReadOnlySpan<int> links)
+    {
+        double sum = 0;
+        foreach (int l in links)
+        {
+            if (_to[l] == j) sum += _flow[l];
+            if (_from[l] == j) sum -= _flow[l];
+        }
+        return sum;
+    }
+
+    /// <summary>The links with an end at junction j.</summary>
+    internal int[] LinksAt(int j)
+    {
+        var list = new List<int>();
+        for (int l = 0; l < _links; l++)
+            if (_from[l] == j || _to[l] == j) list.Add(l);
+        return list.ToArray();
+    }
+
+    /// <summary>One solve at the present demands, known heads and link settings, warm started; the same loop as
+    /// <see cref="SolveCase"/> without building a result (the run builds one only at its report times).</summary>
+    /// <param name="iterations">Newton iterations of this solve.</param>
+    internal NetworkStatus SolveTimeline(out int iterations)
+    {
+        var record = _timelineRecord!;
+        record.Clear();
+        iterations = 0;
+        _lastPasses = 0;
+        if (_unsupplied.Length > 0) return NetworkStatus.NoPathToFixedHead;
+        if (!_warm) ResetTimeline();
+        if (_law is not null) PlaceOnLaw();
+        var status = NetworkStatus.StatusesNotSettled;
+        int pass = 0;
+        var seen = _valveOf.Length > 0 ? new List<byte[]> { StateSnapshot() } : null;
+        _cycle = [];
+        while (pass < _options.MaxStatusPasses)
+        {
+            pass++;
+            var newton = Newton(pass, record);
+            if (newton != NetworkStatus.Solved) { status = newton; break; }
+            if (UpdateStatuses() == 0) { status = NetworkStatus.Solved; break; }
+            if (seen is not null && SeenBefore(seen)) { status = NetworkStatus.StatusCycle; break; }
+        }
+        if (status == NetworkStatus.Solved)
+        {
+            for (int l = _pipes; l < _pumpEnd; l++)
+                if (_status[l] == LinkStatus.PumpOff && _speed[l] > 0) { status = NetworkStatus.PumpCannotLift; break; }
+        }
+        iterations = record.Count;
+        _lastPasses = pass;
+        _warm = status.HasAnswer();
+        if (!_warm) ResetTimeline();
+        return status;
+    }
+
+    /// <summary><see cref="Reset"/>, then the known heads put back, and every other junction started at the highest
+    /// fixed or known head.</summary>
+    private void ResetTimeline()
+    {
+        Reset();
+        double top = double.NegativeInfinity;
+        for (int r = 0; r < _reservoirs; r++) top = Math.Max(top, _head[_junctions + r]);
+        for (int j = 0; j < _junctions; j++) if (_dirichlet[j]) top = Math.Max(top, _knownHead[j]);
+        if (!double.IsFinite(top)) top = 0;
+        for (int j = 0; j < _junctions; j++) _head[j] = _dirichlet[j] ? _knownHead[j] : top;
+    }
+
+    private int _lastPasses;
+
+    /// <summary>The result of the last <see cref="SolveTimeline"/> (call right after it, before any hook), with the
+    /// tanks at known heads listed as reservoirs (outflow = minus their net inflow) and the held ones as junctions.</summary>
+    /// <param name="status">The status the solve returned.</param>
+    /// <param name="isTank">Per junction: a tank.</param>
+    internal NetworkResult TimelineResult(NetworkStatus status, bool[] isTank)
+    {
+        var full = Report(status, 1.0, _timelineRecord!.ToArray(), _lastPasses);
+        var junctions = new List<JunctionResult>(_junctions);
+        var reservoirs = new List<ReservoirResult>(full.Reservoirs);
+        var index = new Dictionary<string, int>(_nodeIndex.Count, StringComparer.Ordinal);
+        for (int r = 0; r < reservoirs.Count; r++) index[reservoirs[r].Id] = ~r;
+        for (int j = 0; j < _junctions; j++)
+        {
+            var result = full.Junctions[j];
+            if (isTank[j] && _dirichlet[j])
+            {
+                index[result.Id] = ~reservoirs.Count;
+                reservoirs.Add(new ReservoirResult(result.Id, result.Head, full.Status == NetworkStatus.NoPathToFixedHead ? 0 : -_continuity[j]));
+            }
+            else
+            {
+                index[result.Id] = junctions.Count;
+                junctions.Add(result);
+            }
+        }
+        return new NetworkResult(full.Status, 1.0, [.. full.Pipes], [.. full.Pumps], junctions.ToArray(), reservoirs.ToArray(),
+            [.. full.Record], full.StatusPasses, [.. full.UnsuppliedJunctions], [.. full.PumpsUnableToLift], [.. full.Warnings],
+            _linkIndex, index) { DemandModel = full.DemandModel, Valves = full.Valves };
+    }
+}

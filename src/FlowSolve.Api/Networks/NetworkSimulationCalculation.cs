@@ -57,6 +57,11 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
                 $"{times} report times (duration {model.Duration} s every reportStep {model.ReportStep} s), each listing {perTime} rows (pipes, pumps, valves, junctions, reservoirs and tanks), make {rows} rows; this service answers at most {limits.NetworkMaxElementCases} (FlowSolve:Limits:NetworkMaxElementCases). Ask for a longer reportStep, output.detail \"summary\" or output.elements with the ids you need.",
                 "networkMaxElementCases", limits.NetworkMaxElementCases, rows, "reportStep");
 
+        // The Core's own bound on the report times, whatever the configured row limit.
+        if (model.Duration / model.ReportStep > NetworkSimulator.MaximumReports - 2)
+            return ProblemResults.BadInput("reportStep", string.Create(C,
+                $"gives {times} report times over duration {model.Duration:G6} s; at most {NetworkSimulator.MaximumReports - 1} are reported in one run (lengthen reportStep)"));
+
         // The Core's own checks, as a backstop: the reading above lets nothing through that they refuse.
         foreach (var issue in NetworkSimulator.Validate(model))
             errors.Add(issue.ElementId.Length == 0 ? "network" : PathOf(request, issue.ElementId),
@@ -266,8 +271,12 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
                 SimulationStatus.TooManySteps => string.Create(C, $"the integrator reached its limit of {Options.MaxSteps} steps"),
                 _ => firstFailure ?? "a network solve did not converge",
             };
+            // The last event before the stop is often the cause (a tank held empty that leaves junctions without a supply).
+            string cause = result.Events.LastOrDefault(e => e.Time <= result.ReachedTime) is { Kind.Length: > 0 } last
+                ? string.Create(C, $" The last event before it: {last.Kind} of '{last.ElementId}' at t = {last.Time:G6} s ({last.Change}).")
+                : "";
             warnings.Add(new("not-converged", string.Create(C,
-                $"The run did not complete: {why}. It has an answer up to t = {result.ReachedTime:G6} s of {model.Duration:G6} s; do not use it for design.")));
+                $"The run did not complete: {why}. It has an answer up to t = {result.ReachedTime:G6} s of {model.Duration:G6} s; do not use it for design.") + cause));
         }
         int rejected = 0;
         double largestError = 0;

@@ -30,8 +30,8 @@ public static class NetworkSimulationDocs
         "empty one gives no more outflow: the tank is held at its limit with zero net inflow while its links would push it " +
         "further, and leaves it as soon as the net flow turns. patterns[] are {id, multipliers}, one multiplier per patternStep " +
         "seconds (3600 by default), repeating; a junction's pattern multiplies its demand (multiplier k applies on " +
-        "[k patternStep, (k + 1) patternStep)). controls[] are {link, set, when}: set {\"status\": \"open\"|\"closed\"} for a pipe, " +
-        "pump or valve, or {\"speedRatio\": x} for a pump; when {\"tank\": id, \"levelBelow\": m}, {\"tank\": id, \"levelAbove\": m} or " +
+        "[k patternStep, (k + 1) patternStep)). controls[] are {link, set, when}: set {\"status\": \"open\"|\"closed\"} for a pipe " +
+        "or pump, or {\"speedRatio\": x} for a pump (a control valve keeps its own rule and is not switched by controls); when {\"tank\": id, \"levelBelow\": m}, {\"tank\": id, \"levelAbove\": m} or " +
         "{\"time\": s}. Method: between events each level follows dL/dt = net inflow / area, an ordinary differential equation " +
         "whose right side is a full network solve (the global gradient algorithm of /v1/networks/solve, warm-started), " +
         "integrated by an adaptive embedded Runge-Kutta pair with error control; every tank reaching a limit and every level " +

@@ -103,6 +103,16 @@ internal static class NetworkSimulationReader
             if (!ends.Contains(id))
                 errors.Add($"tanks[{i}].id", $"tank '{NetworkInput.Short(id)}'", id, "is connected to no pipe, pump or valve, so its level could never change; connect it or leave it out");
 
+        // A control valve holds the pressure or flow at its ends, which a tank's moving head would contradict.
+        var vs = request.Valves ?? [];
+        for (int i = 0; i < vs.Count; i++)
+        {
+            if (vs[i] is not { } v) continue;
+            foreach (var (end, node) in new[] { (".from", v.From), (".to", v.To) })
+                if (node is not null && tankAt.ContainsKey(node))
+                    errors.Add($"valves[{i}]{end}", $"valve '{NetworkInput.Short(v.Id)}'", v.Id, $"ends at tank '{NetworkInput.Short(node)}'; join a valve to a tank by a pipe");
+        }
+
         // Patterns, and the junctions that name them.
         var patterns = new List<DemandPattern>();
         var patternAt = new Dictionary<string, int>(StringComparer.Ordinal);
@@ -171,6 +181,13 @@ internal static class NetworkSimulationReader
                 bool pump = false, ok = true;
                 if (string.IsNullOrEmpty(c.Link)) { fields.Add(at + ".link", "is required: the id of a pipe, pump or valve"); ok = false; }
                 else if (pumpIds.Contains(c.Link)) pump = true;
+                else if (valveIds.Contains(c.Link))
+                {
+                    // The integrator switches pipes and pumps; a control valve keeps its own rule (common practice: an
+                    // isolating valve on the pipe beside it is what an operator closes).
+                    errors.Add(at + ".link", label, c.Link, $"'{NetworkInput.Short(c.Link)}' is a control valve, which a control cannot switch in this service; switch the pipe beside it");
+                    ok = false;
+                }
                 else if (!pipeIds.Contains(c.Link) && !valveIds.Contains(c.Link))
                 {
                     errors.Add(at + ".link", label, c.Link, $"'{NetworkInput.Short(c.Link)}' is not the id of a pipe, pump or valve of this network");

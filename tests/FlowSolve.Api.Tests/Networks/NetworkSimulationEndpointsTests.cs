@@ -67,6 +67,8 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
         { "control-bad-status", "controls[0].set.status" },
         { "control-speed-on-pipe", "controls[0].set.speedRatio" },
         { "control-no-link", "controls[0].link" },
+        { "control-on-a-valve", "controls[0].link" },
+        { "valve-at-a-tank", "valves[0].from" },
         { "junction-unknown-pattern", "junctions[0].pattern" },
         { "pattern-named-nowhere", "patterns[1].id" },
         { "pattern-duplicate-id", "patterns[1].id" },
@@ -111,6 +113,15 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
             case "control-bad-status": Control(d)["set"]!["status"] = "shut"; break;
             case "control-speed-on-pipe": Control(d)["set"] = new JsonObject { ["speedRatio"] = 0.9 }; break;
             case "control-no-link": Control(d).Remove("link"); break;
+            case "control-on-a-valve":
+                d["junctions"]!.AsArray().Add(new JsonObject { ["id"] = "k", ["elevation"] = 5, ["demand"] = 0.001 });
+                d["valves"] = new JsonArray(new JsonObject { ["id"] = "v", ["from"] = "j", ["to"] = "k", ["diameter"] = 0.1, ["type"] = "throttle", ["setting"] = 2 });
+                Control(d)["link"] = "v";
+                break;
+            case "valve-at-a-tank":
+                d["junctions"]!.AsArray().Add(new JsonObject { ["id"] = "k", ["elevation"] = 5, ["demand"] = 0.001 });
+                d["valves"] = new JsonArray(new JsonObject { ["id"] = "v", ["from"] = "t", ["to"] = "k", ["diameter"] = 0.1, ["type"] = "throttle", ["setting"] = 2 });
+                break;
             case "junction-unknown-pattern": d["junctions"]![0]!["pattern"] = "night"; break;
             case "pattern-named-nowhere": d["patterns"]!.AsArray().Add(new JsonObject { ["id"] = "spare", ["multipliers"] = new JsonArray(1.0) }); break;
             case "pattern-duplicate-id": d["patterns"]!.AsArray().Add(new JsonObject { ["id"] = "day", ["multipliers"] = new JsonArray(1.0) }); break;
@@ -266,6 +277,21 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
         Assert.Equal("networkMaxElementCases", r.Body.GetProperty("limit").GetString());
         Assert.True(r.Body.GetProperty("given").GetInt64() > 604_800, r.Body.ToString());
         Assert.Equal("reportStep", r.Body.GetProperty("field").GetString());
+    }
+
+    [Fact]
+    public async Task Simulate_ReportTimesBeyondTheRunsBound_400OnReportStep_WhenTheRowLimitIsRaised()
+    {
+        // With the row limit raised out of the way, a week reported every second still exceeds the 100 000 report
+        // times one run keeps (each holds a whole network state): refused on reportStep before anything is solved.
+        using var factory = new WebApplicationFactory<Program>().WithWebHostBuilder(b =>
+            b.UseSetting("FlowSolve:Limits:NetworkMaxElementCases", "100000000"));
+        using var client = factory.CreateClient();
+        var body = With(d => { d["duration"] = 604_800; d["reportStep"] = 1; });
+        using var content = new StringContent(body.ToJsonString(), System.Text.Encoding.UTF8, "application/json");
+        using var response = await client.PostAsync(Route, content, TestContext.Current.CancellationToken);
+        var json = JsonDocument.Parse(await response.Content.ReadAsStringAsync(TestContext.Current.CancellationToken)).RootElement;
+        ProblemAssert.NamesField(((int)response.StatusCode, response.Content.Headers.ContentType?.MediaType, json), 400, "reportStep");
     }
 
     [Fact]

@@ -26,7 +26,7 @@ public sealed record NetworkTankInput(
 public sealed record NetworkPatternInput(
     [property: Description("Identifier, unique among the patterns; 1 to 64 characters. Required; junctions name it in their pattern field.")]
     string? Id,
-    [property: Description("One multiplier per patternStep seconds, repeating after the last: multiplier k applies on [k x patternStep, (k + 1) x patternStep). Each finite, 0 to 100; at least one, at most 100 000. Required.")]
+    [property: Description("One multiplier per patternStep seconds, repeating after the last: multiplier k applies on [k x patternStep, (k + 1) x patternStep). Each finite, 0 to 100; at least one (at most 100 000 over all the patterns of a request). Required.")]
     IReadOnlyList<double>? Multipliers);
 
 /// <summary>What a control does to its link.</summary>

@@ -148,7 +148,7 @@ public static class NetworkSimulationDocs
             var levels = r.Reports.Select(k => k.Tanks.First(x => x.Id == id).Level).ToArray();
             sheet.Results.Add(new($"tank '{id}' level range", F(levels.Min()) + " to " + F(levels.Max()), hu, "over the report times"));
         }
-        sheet.Results.Add(new("caution", RunCautions));
+        sheet.Results.Add(new("scope", "tank levels and flows", "", RunCautions));
 
         var columns = new List<string> { "Time (s)" };
         var ids = TankIds(r);
@@ -244,19 +244,39 @@ public static class NetworkSimulationDocs
             string id = pumpIds[i];
             var rows = r.Reports.Select(k => (Time: k.Time, Row: k.Pumps.FirstOrDefault(p => p.Id == id))).Where(x => x.Row is not null).ToArray();
             plot.Curve($"pump '{id}' flow", rows.Select(x => (x.Time / scale, x.Row!.Flow)).ToArray(), accent: i == 0, role: "pump-flow");
-            var steps = new List<(double, double)>();
-            for (int j = 0; j < rows.Length; j++)
+            if (rows.Length == 0) continue;
+            // The state changes at the instants the controls fired (located in time), not at the report times.
+            double top = qMax * 1.05;
+            double state = rows[0].Row!.Status == "open" ? top : 0;
+            var steps = new List<(double, double)> { (rows[0].Time / scale, state) };
+            foreach (var e in r.Events.Where(e => e.Kind == "control" && e.Element == id))
             {
-                double y = rows[j].Row!.Status == "open" ? qMax * 1.05 : 0;
-                if (j > 0) steps.Add((rows[j].Time / scale, steps[^1].Item2));
-                steps.Add((rows[j].Time / scale, y));
+                double? next = Running(e.Change) is bool on ? (on ? top : 0)
+                    : rows.FirstOrDefault(x => x.Time >= e.Time) is { Row: { } after } ? (after.Status == "open" ? top : 0) : null;
+                if (next is not double y || y == state) continue;
+                steps.Add((e.Time / scale, state));
+                steps.Add((e.Time / scale, y));
+                state = y;
             }
+            steps.Add((rows[^1].Time / scale, state));
             plot.Curve($"pump '{id}' state", steps, dashed: true, role: "pump-state");
         }
         foreach (var e in r.Events.Where(e => e.Kind == "control" && pumpIds.Contains(e.Element)).Take(200))
             plot.Marker($"control on '{e.Element}'", e.Time / scale, 0, e.Change, role: "event", accent: false);
         return new SheetFigure("pump-states", plot.Render(),
-            "Each pump's flow at the report times (solid) and its state as a step line (dashed: at the top while running, at 0 while off); each control that acted on a pump is marked at the instant it fired, labelled with its change.");
+            "Each pump's flow at the report times (solid) and its state as a step line switching at the instants its controls fired (dashed: at the top while running, at 0 while off); each control that acted on a pump is marked at that instant, labelled with its change.");
+    }
+
+    /// <summary>Whether a control's change leaves a pump running: closed or a speed ratio of 0 stops it, open or a
+    /// positive speed ratio runs it; null for a change not read here.</summary>
+    private static bool? Running(string change)
+    {
+        if (change.StartsWith("closed", StringComparison.OrdinalIgnoreCase)) return false;
+        if (change.StartsWith("open", StringComparison.OrdinalIgnoreCase)) return true;
+        const string speed = "speedRatio ";
+        if (change.StartsWith(speed, StringComparison.OrdinalIgnoreCase)
+            && double.TryParse(change.AsSpan(speed.Length).TrimEnd(), NumberStyles.Float, C, out double s)) return s > 0;
+        return null;
     }
 
     private static string F(double v) => SheetHtml.Fmt(v);

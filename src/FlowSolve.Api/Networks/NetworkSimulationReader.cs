@@ -117,7 +117,10 @@ internal static class NetworkSimulationReader
         var patterns = new List<DemandPattern>();
         var patternAt = new Dictionary<string, int>(StringComparer.Ordinal);
         var ps = request.Patterns ?? [];
+        long multipliers = 0;
+        foreach (var p in ps) multipliers += p?.Multipliers?.Count ?? 0;
         if (ps.Count > MaximumPatterns) fields.Add("patterns", $"holds {ps.Count} patterns; at most {MaximumPatterns} are accepted");
+        else if (multipliers > MaximumMultipliers) fields.Add("patterns", $"hold {multipliers} multipliers in all; at most {MaximumMultipliers} are accepted in one request");
         else
             for (int i = 0; i < ps.Count; i++)
             {
@@ -133,7 +136,6 @@ internal static class NetworkSimulationReader
                 {
                     if (p.Multipliers is null) { e.Add(at + ".multipliers", "is required: one multiplier per patternStep, at least one"); return null; }
                     if (p.Multipliers.Count == 0) { e.Add(at + ".multipliers", "must hold at least one multiplier"); return null; }
-                    if (p.Multipliers.Count > MaximumMultipliers) { e.Add(at + ".multipliers", $"holds {p.Multipliers.Count} multipliers; at most {MaximumMultipliers} are accepted"); return null; }
                     var m = new double[p.Multipliers.Count];
                     for (int k = 0; k < m.Length; k++) m[k] = e.Required($"{at}.multipliers[{k}]", p.Multipliers[k], 0, NetworkInput.MaximumMultiplier);
                     return m;

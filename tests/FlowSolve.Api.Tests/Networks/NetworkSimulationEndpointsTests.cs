@@ -75,6 +75,7 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
         { "pattern-no-multipliers", "patterns[0].multipliers" },
         { "pattern-missing-multipliers", "patterns[0].multipliers" },
         { "pattern-negative-multiplier", "patterns[0].multipliers[2]" },
+        { "patterns-too-many-multipliers", "patterns" },
         { "tank-connected-to-nothing", "tanks[1].id" },
         { "tank-id-of-a-junction", "tanks[0].id" },
         { "tank-negative-diameter", "tanks[0].diameter" },
@@ -127,6 +128,13 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
             case "pattern-duplicate-id": d["patterns"]!.AsArray().Add(new JsonObject { ["id"] = "day", ["multipliers"] = new JsonArray(1.0) }); break;
             case "pattern-no-multipliers": d["patterns"]![0]!["multipliers"] = new JsonArray(); break;
             case "pattern-missing-multipliers": d["patterns"]![0]!.AsObject().Remove("multipliers"); break;
+            case "patterns-too-many-multipliers":
+                // 100 001 multipliers over two patterns: over the request's 100 000.
+                d["patterns"]![0]!["multipliers"] = new JsonArray(Enumerable.Range(0, 60_000).Select(_ => (JsonNode?)JsonValue.Create(1.0)).ToArray());
+                d["patterns"]!.AsArray().Add(new JsonObject { ["id"] = "night", ["multipliers"] = new JsonArray(Enumerable.Range(0, 40_001).Select(_ => (JsonNode?)JsonValue.Create(0.5)).ToArray()) });
+                d["junctions"]!.AsArray().Add(new JsonObject { ["id"] = "k", ["elevation"] = 5, ["demand"] = 0.001, ["pattern"] = "night" });
+                d["pipes"]!.AsArray().Add(new JsonObject { ["id"] = "k-pipe", ["from"] = "j", ["to"] = "k", ["length"] = 100, ["diameter"] = 0.1, ["roughness"] = 1e-4 });
+                break;
             case "pattern-negative-multiplier": d["patterns"]![0]!["multipliers"] = new JsonArray(1.0, 0.5, -0.1, 1.0); break;
             case "tank-connected-to-nothing":
                 d["tanks"]!.AsArray().Add(new JsonObject { ["id"] = "lonely", ["elevation"] = 40, ["initialLevel"] = 1, ["maximumLevel"] = 3, ["diameter"] = 5 });

@@ -108,6 +108,9 @@ public sealed partial class NetworkSolver
     internal int PumpLink(int k) => _pipes + k;
     internal int ValveLink(int k) => _pumpEnd + k;
 
+    /// <summary>The next solve starts from the default start (the known heads kept).</summary>
+    internal void ForgetState() => _warm = false;
+
     /// <summary>Head of node j, m.</summary>
     internal double NodeHead(int j) => _head[j];
 
@@ -136,6 +139,20 @@ public sealed partial class NetworkSolver
     /// <see cref="SolveCase"/> without building a result (the run builds one only at its report times).</summary>
     /// <param name="iterations">Newton iterations of this solve.</param>
     internal NetworkStatus SolveTimeline(out int iterations)
+    {
+        bool warm = _warm;
+        var status = SolveTimelineOnce(out iterations);
+        if (status.HasAnswer() || !warm || status == NetworkStatus.NoPathToFixedHead) return status;
+        // A warm start can fail where a cold one succeeds: the statuses are held during each Newton solve, so a check
+        // valve (or stopped pump) that closed earlier and must now open, because a tank went still or a control shut a
+        // pipe, leaves a junction whose demand no open link can bring. The cold start opens every one of them.
+        int first = iterations;
+        status = SolveTimelineOnce(out iterations);
+        iterations += first;
+        return status;
+    }
+
+    private NetworkStatus SolveTimelineOnce(out int iterations)
     {
         var record = _timelineRecord!;
         record.Clear();

@@ -45,6 +45,7 @@ internal sealed class SimulationRun
     private readonly double[] _controlTimes;    // distinct times of the time controls within the duration, sorted
     private int _nextControlTime;
 
+    private readonly double[] _scratch, _scratchRate, _scratchRelease;
     private readonly double[] _y, _k1, _k2, _k3, _k4, _yStage, _yNew, _release, _releaseNew, _inflow;
     private readonly sbyte[] _held;             // +1 held full, -1 held empty, 0 moving
     private readonly bool[] _fullArmed, _emptyArmed;
@@ -57,6 +58,7 @@ internal sealed class SimulationRun
     private int _stepSolves, _stepIterations;
     private NetworkStatus _lastStatus;
     private bool _stateCurrent; // the solver's state is the solve of the present time, levels and settings
+    private int _forceRelease = -1;  // a held tank whose release was located in the last step: released at its end
     private int _locatedTank = -1;   // a tank whose limit was located on the last step: its event carries the root's figures
     private int _locatedIterations;
     private double _locatedResidual;
@@ -161,6 +163,9 @@ internal sealed class SimulationRun
         _release = new double[_tankCount];
         _releaseNew = new double[_tankCount];
         _inflow = new double[_tankCount];
+        _scratch = new double[_tankCount];
+        _scratchRate = new double[_tankCount];
+        _scratchRelease = new double[_tankCount];
         _held = new sbyte[_tankCount];
         _fullArmed = new bool[_tankCount];
         _emptyArmed = new bool[_tankCount];
@@ -226,9 +231,16 @@ internal sealed class SimulationRun
             double taken = t1 - t;
             double proposal = taken * (err == 0 ? 5 : Math.Clamp(0.9 * Math.Cbrt(_options.LevelTolerance / err), 0.2, 5));
 
-            // Events on the step's interpolant: the earliest root, if any.
+            // Events on the step's interpolant: the earliest root, if any; and a held tank released within the step.
             var located = Locate(t, t1, out double eventTime, out int eventIterations, out double eventResidual);
-            if (located is not null && t1 - eventTime > 0.5 * _options.EventTimeTolerance)
+            int released = FindRelease(t, t1, located is null ? t1 : eventTime, out double releaseTime);
+            if (released >= 0)
+            {
+                located = null;
+                eventTime = releaseTime;
+                _forceRelease = released;
+            }
+            if ((located is not null || released >= 0) && t1 - eventTime > 0.5 * _options.EventTimeTolerance)
             {
                 // Take the step again, to the event.
                 if (_attempts >= _options.MaxSteps) return Finish(SimulationStatus.TooManySteps, t);
@@ -258,7 +270,7 @@ internal sealed class SimulationRun
             }
             changed |= FireTimeControls(t);
             for (int i = 0; i < _tankCount; i++)
-                if (_held[i] != 0 && _release[i] > ReleaseMargin) changed = true;
+                if (_held[i] != 0 && (_release[i] > ReleaseMargin || _forceRelease == i)) changed = true;
             if (changed && !Settle(t)) return Finish(SimulationStatus.NetworkNotConverged, t);
             Rearm();
             if (!ReportIfDue(t)) return Finish(SimulationStatus.NetworkNotConverged, t);
@@ -309,6 +321,7 @@ internal sealed class SimulationRun
     {
         for (int i = 0; i < _tankCount; i++)
             if (_held[i] == 0) _solver.SetKnownHead(_tankNode[i], _bottom[i] + y[i]);
+        if (_options.ColdStarts) _solver.ForgetState();
         _lastStatus = _solver.SolveTimeline(out int iterations);
         _solves++;
         _stepSolves++;
@@ -412,6 +425,60 @@ internal sealed class SimulationRun
                 lo = s;
             }
         }
+    }
+
+    /// <summary>The first release of a held tank within the step (t to t1, before <paramref name="limit"/>): the root in
+    /// time of its release measure, by the Illinois variant of regula falsi with a network solve at the interpolant's
+    /// levels per iteration, to within <see cref="SimulationOptions.EventTimeTolerance"/>. Returns the tank (or -1) and the
+    /// time, taken at the bracket's end where the tank would already leave its limit.</summary>
+    private int FindRelease(double t, double t1, double limit, out double time)
+    {
+        time = double.PositiveInfinity;
+        int tank = -1;
+        for (int i = 0; i < _tankCount; i++)
+        {
+            if (_held[i] == 0 || !(_release[i] <= ReleaseMargin) || !(_releaseNew[i] > ReleaseMargin)) continue;
+            double lo = t, hi = Math.Min(t1, limit), flo = _release[i] - ReleaseMargin, fhi = _releaseNew[i] - ReleaseMargin;
+            if (hi < t1)
+            {
+                // The bracket's end is an earlier event: the release must lie before it to matter.
+                if (!EvaluateAt(t, t1, hi)) continue;
+                fhi = _scratchRelease[i] - ReleaseMargin;
+                if (!(fhi > 0)) continue;
+            }
+            int side = 0;
+            for (int iteration = 0; iteration < 60 && hi - lo > _options.EventTimeTolerance; iteration++)
+            {
+                double x = lo + (hi - lo) * flo / (flo - fhi);
+                if (!(x > lo && x < hi)) x = 0.5 * (lo + hi);
+                if (!EvaluateAt(t, t1, x)) break;
+                double f = _scratchRelease[i] - ReleaseMargin;
+                if (f > 0)
+                {
+                    (hi, fhi) = (x, f);
+                    if (side == 1) flo *= 0.5;
+                    side = 1;
+                }
+                else
+                {
+                    (lo, flo) = (x, f);
+                    if (side == -1) fhi *= 0.5;
+                    side = -1;
+                }
+            }
+            if (hi < time) { time = hi; tank = i; }
+        }
+        _stateCurrent = false;
+        return tank;
+    }
+
+    /// <summary>A network solve at time x of the step t to t1, every moving tank at its interpolated level.</summary>
+    private bool EvaluateAt(double t, double t1, double x)
+    {
+        for (int i = 0; i < _tankCount; i++)
+            _scratch[i] = _held[i] != 0 ? _y[i]
+                : new HermiteLevel(t, t1 - t, _y[i], _yNew[i], _k1[i], _k4[i], 0, 1).Evaluate(x).Value;
+        return Evaluate(_scratch, _scratchRate, _scratchRelease);
     }
 
     /// <summary>Level controls and tank limits at time t after a step: the located event (forced), and every armed
@@ -543,7 +610,7 @@ internal sealed class SimulationRun
                         if (full) _fullArmed[i] = false; else _emptyArmed[i] = false;
                     }
                 }
-                else if (_release[i] > ReleaseMargin)
+                else if (_release[i] > ReleaseMargin || _forceRelease == i)
                 {
                     _held[i] = 0;
                     _solver.SetKnownHead(_tankNode[i], _bottom[i] + _y[i]);
@@ -552,7 +619,7 @@ internal sealed class SimulationRun
                 changedHere[i] = true;
                 changed = true;
             }
-            if (!changed) { _locatedTank = -1; return true; }
+            if (!changed) { _locatedTank = _forceRelease = -1; return true; }
             _solver.RefreshSupply();
             _stateCurrent = false;
         }

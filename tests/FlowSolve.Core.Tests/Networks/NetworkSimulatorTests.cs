@@ -199,8 +199,12 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
         double rate = DrainDemand / DrainArea;
         foreach (var report in result.Reports)
             Assert.Equal(4 - rate * Math.Min(report.Time, 1234.5), report.Tanks[0].Level, 1e-6);
-        Assert.Equal(LinkStatus.Closed, result.Reports[^1].Network.Pipe("outlet").Status);
-        Assert.Equal(DrainDemand, result.Reports[^1].Network.Pipe("backup").Flow, 1e-9);
+        // At 2700 s (multiplier 1) the reservoir behind the check valve carries the whole demand; at 3600 s the
+        // pattern's second multiplier, 0, applies ([k patternStep, (k + 1) patternStep)).
+        var late = result.Reports.Single(r => r.Time == 2700).Network;
+        Assert.Equal(LinkStatus.Closed, late.Pipe("outlet").Status);
+        Assert.Equal(DrainDemand, late.Pipe("backup").Flow, 1e-9);
+        Assert.Equal(0, result.Reports[^1].Network.Junction("town").Demand);
     }
 
     [Fact]
@@ -226,6 +230,273 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
         Assert.Empty(result.Events);
         Assert.Equal(6 - DrainDemand / DrainArea * 1800, result.Reports[^1].Tanks[0].Level, 1e-6);
         Assert.Null(result.Reports[0].Tanks[0].AtLimit);
+    }
+
+    // Two tanks and a pump (invented, Vandrel Vale's booster): a low tank (bottom 10 m, 20 m across, 5 m of 0.5 to 8 m)
+    // feeds pump "lift" (H = 45 - 2000 Q^2 at rated speed) into a 300 m rising main of 250 mm to a high tank (bottom
+    // 40 m, 8 m across, 3 m of 0.5 to 7 m), which alone serves the estate (0.02 m3/s) through 200 m of 200 mm pipe.
+    private const double LowBottom = 10, LowDiameter = 20, HighBottom = 40, HighDiameter = 8, Estate = 0.02;
+    private const double MainLength = 300, MainDiameter = 0.25, MainRoughness = 1e-4;
+    private static readonly double LowArea = Math.PI * LowDiameter * LowDiameter / 4, HighArea = Math.PI * HighDiameter * HighDiameter / 4;
+
+    private static SimulationModel BoosterModel(double duration, NetworkControl[] controls) => Run(
+        Network([new Junction("rise", 12, 0), new Junction("estate", 20, Estate)], [],
+            [new NetworkPipe("main", "rise", "high", MainLength, MainDiameter, MainRoughness),
+             new NetworkPipe("estate-main", "high", "estate", 200, 0.2, 1e-4)],
+            [new NetworkPump("lift", "low", "rise", PumpCurve.FromCoefficients(45, 0, -2000))]),
+        [new Tank("low", LowBottom, 5, 0.5, 8, LowDiameter), new Tank("high", HighBottom, 3, 0.5, 7, HighDiameter)],
+        duration, 1800, controls);
+
+    /// <summary>The pump's flow at speed ratio s against the two levels: s^2 45 - 2000 Q^2 = lift + the main's
+    /// Colebrook-White loss, by Brent (affinity laws: H_s(Q) = s^2 H(Q/s)).</summary>
+    private static double PumpFlow(double low, double high, double speed)
+    {
+        double lift = HighBottom + high - (LowBottom + low);
+        double area = Math.PI * MainDiameter * MainDiameter / 4;
+        double Loss(double q)
+        {
+            double v = q / area;
+            return Colebrook(v * MainDiameter / Water, MainRoughness / MainDiameter) * MainLength / MainDiameter * v * v / (2 * G);
+        }
+        return Brent.FindRoot(q => speed * speed * 45 - 2000 * q * q - lift - Loss(q), 0.01, speed * Math.Sqrt(45 / 2000.0), 1e-14, 300);
+    }
+
+    /// <summary>An independent integration of the booster case: classical Runge-Kutta with 1 s steps; a threshold crossing
+    /// is placed by linear interpolation within its step and the step taken again to it.</summary>
+    private static (List<(double Time, bool On)> Switches, Func<double, (double Low, double High)> Levels) Booster(
+        double duration, double? off, double? on, double speed = 1, double speedTime = double.PositiveInfinity, double newSpeed = 1)
+    {
+        var states = new List<(double T, double L, double H)>();
+        var switches = new List<(double, bool)>();
+        bool running = true;
+        double t = 0, low = 5, high = 3;
+        (double, double) Rate(double t, double l, double h, bool run)
+        {
+            double q = run ? PumpFlow(l, h, t < speedTime ? speed : newSpeed) : 0;
+            return (-q / LowArea, (q - Estate) / HighArea);
+        }
+        (double, double) Step(double t, double l, double h, double dt, bool run)
+        {
+            var (a1, b1) = Rate(t, l, h, run);
+            var (a2, b2) = Rate(t + dt / 2, l + dt / 2 * a1, h + dt / 2 * b1, run);
+            var (a3, b3) = Rate(t + dt / 2, l + dt / 2 * a2, h + dt / 2 * b2, run);
+            var (a4, b4) = Rate(t + dt, l + dt * a3, h + dt * b3, run);
+            return (l + dt / 6 * (a1 + 2 * a2 + 2 * a3 + a4), h + dt / 6 * (b1 + 2 * b2 + 2 * b3 + b4));
+        }
+        states.Add((0, low, high));
+        while (t < duration)
+        {
+            double dt = Math.Min(1, duration - t);
+            if (t < speedTime && t + dt > speedTime) dt = speedTime - t;
+            var (l1, h1) = Step(t, low, high, dt, running);
+            double? threshold = running ? off : on;
+            if (threshold is double th && (running ? h1 >= th : h1 <= th))
+            {
+                double fraction = (th - high) / (h1 - high);
+                dt *= fraction;
+                (l1, h1) = Step(t, low, high, dt, running);
+                running = !running;
+                switches.Add((t + dt, running));
+            }
+            t += dt;
+            (low, high) = (l1, h1);
+            states.Add((t, low, high));
+        }
+        return (switches, time =>
+        {
+            int k = states.FindLastIndex(s => s.T <= time);
+            if (states[k].T == time || k == states.Count - 1) return (states[k].L, states[k].H);
+            var (t0, l0, h0) = states[k];
+            var (t1, l1, h1) = states[k + 1];
+            double w = (time - t0) / (t1 - t0);
+            return (l0 + w * (l1 - l0), h0 + w * (h1 - h0));
+        });
+    }
+
+    [Fact]
+    public void Run_PumpSwitchedByTankLevel_EventTimesMatchIndependentIntegration()
+    {
+        const double duration = 8 * 3600;
+        var model = BoosterModel(duration,
+        [
+            new NetworkControl("lift", new ControlAction(false, null), new ControlCondition("high", null, 6, null)),
+            new NetworkControl("lift", new ControlAction(true, null), new ControlCondition("high", 2, null, null)),
+        ]);
+        var result = Simulate(model);
+        Assert.Equal(SimulationStatus.Completed, result.Status);
+        var (switches, levels) = Booster(duration, off: 6, on: 2);
+        Assert.True(switches.Count >= 3, "the case should switch the pump at least three times");
+        Assert.Equal(switches.Count, result.Events.Count);
+        double worstTime = 0, worstLevel = 0;
+        for (int k = 0; k < switches.Count; k++)
+        {
+            var e = result.Events[k];
+            Assert.Equal(("control", "lift", switches[k].On ? "open" : "closed"), (e.Kind, e.ElementId, e.Change));
+            worstTime = Math.Max(worstTime, Math.Abs(e.Time - switches[k].Time));
+            Assert.True(Math.Abs(e.TimeResidual) <= 1e-3);
+        }
+        foreach (var report in result.Reports)
+        {
+            var (low, high) = levels(report.Time);
+            worstLevel = Math.Max(worstLevel, Math.Max(Math.Abs(report.Tanks[0].Level - low), Math.Abs(report.Tanks[1].Level - high)));
+        }
+        output.WriteLine($"booster: {switches.Count} switches, largest event-time error {worstTime:F4} s, largest level error {worstLevel:E3} m; " +
+            $"{result.Steps.Count} steps ({result.Steps.Sum(s => s.Rejected)} rejected), {result.NetworkSolves} network solves, " +
+            $"{result.Steps.Sum(s => s.NetworkIterations)} Newton iterations");
+        Assert.True(worstTime <= 1, $"event time error {worstTime} s");
+        Assert.True(worstLevel <= 1e-3, $"level error {worstLevel} m");
+        // While the pump is off it stands in the report as stopped.
+        Assert.Contains(result.Reports, r => r.Network.Pump("lift").Status == LinkStatus.PumpOff);
+    }
+
+    [Fact]
+    public void Run_PumpSpeedSetByTime_FollowsTheAffinityLaws()
+    {
+        const double duration = 3600;
+        var model = BoosterModel(duration,
+            [new NetworkControl("lift", new ControlAction(null, 0.9), new ControlCondition(null, null, null, 1000))]);
+        var result = Simulate(model);
+        Assert.True(result.Completed);
+        var control = Assert.Single(result.Events);
+        Assert.Equal((1000.0, "speedRatio 0.9"), (control.Time, control.Change));
+        var (_, levels) = Booster(duration, null, null, 1, 1000, 0.9);
+        foreach (var report in result.Reports)
+        {
+            var (low, high) = levels(report.Time);
+            Assert.Equal(low, report.Tanks[0].Level, 1e-3);
+            Assert.Equal(high, report.Tanks[1].Level, 1e-3);
+        }
+        Assert.Equal(PumpFlow(result.Reports[^1].Tanks[0].Level, result.Reports[^1].Tanks[1].Level, 0.9),
+            result.Reports[^1].Network.Pump("lift").Flow, 1e-7);
+    }
+
+    /// <summary>The Darcy-Weisbach loss of a pipe at flow q &gt; 0 (turbulent), friction by Colebrook-White.</summary>
+    private static double PipeLoss(double q, double length, double diameter, double roughness)
+    {
+        double v = q / (Math.PI * diameter * diameter / 4);
+        return Colebrook(v * diameter / Water, roughness / diameter) * length / diameter * v * v / (2 * G);
+    }
+
+    // A full tank passing water on (invented): reservoir (50 m) - 600 m of 200 mm - tank "upper" (bottom 20 m, full at
+    // 10 m, 6 m across) - 400 m of 250 mm - tank "lower" (bottom 0, 28 m of 0.5 to 30 m, 10 m across) - 50 m of 300 mm -
+    // junction "village" drawing 0.15 m3/s. While "upper" is held full it is a junction of the through line; it is
+    // released when the head there falls below its full head, 30 m, as "lower" drains.
+    private const double ThroughDemand = 0.15;
+    private static readonly double UpperArea = Math.PI * 9, LowerArea = Math.PI * 25;
+
+    [Fact]
+    public void Run_HeldTankReleasedAsAnotherDrains_ReleaseTimeMatchesQuadrature()
+    {
+        const double duration = 7200;
+        var model = Run(
+            Network([new Junction("village", 0, ThroughDemand)], [new Reservoir("source", 50)],
+                [new NetworkPipe("in", "source", "upper", 600, 0.2, 1e-4), new NetworkPipe("through", "upper", "lower", 400, 0.25, 1e-4),
+                 new NetworkPipe("out", "lower", "village", 50, 0.3, 1e-4)]),
+            [new Tank("upper", 20, 10, 0, 10, 6), new Tank("lower", 0, 28, 0.5, 30, 10)], duration, 600);
+        var result = Simulate(model);
+        Assert.Equal(SimulationStatus.Completed, result.Status);
+
+        // Held: the through flow Q(H) from 50 - H = loss_in(Q) + loss_through(Q) (Brent); released when the head at the
+        // upper tank, 50 - loss_in(Q), reaches 30 m, that is when the lower tank's head reaches 30 - loss_through(Q*),
+        // loss_in(Q*) = 20 m; the time by MathNet quadrature of A dh / (Q(h) - d).
+        double Through(double lowerHead) => Brent.FindRoot(q => PipeLoss(q, 600, 0.2, 1e-4) + PipeLoss(q, 400, 0.25, 1e-4) - (50 - lowerHead), 0.01, 1, 1e-14, 300);
+        double qStar = Brent.FindRoot(q => PipeLoss(q, 600, 0.2, 1e-4) - 20, 0.01, 1, 1e-14, 300);
+        double releaseHead = 30 - PipeLoss(qStar, 400, 0.25, 1e-4);
+        double releaseTime = Integrate.DoubleExponential(h => LowerArea / (ThroughDemand - Through(h)), releaseHead, 28, 1e-8);
+
+        // After the release: both levels by MathNet's Runge-Kutta (0.25 s steps) from the release state.
+        double[] Rate(double upper, double lower)
+        {
+            double qIn = PipeFlow(50 - (20 + upper), 600, 0.2, 1e-4);
+            double qThrough = PipeFlow(20 + upper - lower, 400, 0.25, 1e-4);
+            return [(qIn - qThrough) / UpperArea, (qThrough - ThroughDemand) / LowerArea];
+        }
+        var after = RungeKutta.FourthOrder(Vector(10, releaseHead), releaseTime, duration, (int)((duration - releaseTime) / 0.25) + 1,
+            (_, y) => Vector(Rate(y[0], y[1])));
+        double spacing = (duration - releaseTime) / (after.Length - 1);
+
+        double worst = 0;
+        foreach (var report in result.Reports)
+        {
+            var (upper, lower) = (report.Tanks[0], report.Tanks[1]);
+            if (report.Time < releaseTime)
+            {
+                Assert.Equal((10.0, "full"), (upper.Level, upper.AtLimit));
+                // The lower tank while the upper is held: t(h) by quadrature, inverted with Brent.
+                double level = report.Time == 0 ? 28 : Brent.FindRoot(
+                    h => Integrate.DoubleExponential(x => LowerArea / (ThroughDemand - Through(x)), h, 28, 1e-9) - report.Time, releaseHead - 1, 28, 1e-10, 200);
+                worst = Math.Max(worst, Math.Abs(lower.Level - level));
+            }
+            else
+            {
+                Assert.Null(upper.AtLimit);
+                int k = (int)Math.Round((report.Time - releaseTime) / spacing);
+                var y = after[k];
+                // The reference state nearest the report time, moved along its rate to the report time.
+                double dt = report.Time - (releaseTime + k * spacing);
+                var r = Rate(y[0], y[1]);
+                worst = Math.Max(worst, Math.Abs(upper.Level - (y[0] + dt * r[0])));
+                worst = Math.Max(worst, Math.Abs(lower.Level - (y[1] + dt * r[1])));
+            }
+        }
+        var held = Assert.Single(result.Events);
+        Assert.Equal((0.0, "tank-full", "upper"), (held.Time, held.Kind, held.ElementId));
+        // The release is not an announced event; the step that ends there is.
+        var release = result.Steps.Select(st => st.End).MinBy(e => Math.Abs(e - releaseTime));
+        output.WriteLine($"release at {release:F3} s against {releaseTime:F3} s by quadrature; largest level error {worst:E3} m; {result.Steps.Count} steps, {result.NetworkSolves} solves");
+        Assert.True(Math.Abs(release - releaseTime) <= 1, $"released at {release} s, quadrature {releaseTime} s");
+        Assert.True(worst <= 1e-3, $"level error {worst} m");
+    }
+
+    private static MathNet.Numerics.LinearAlgebra.Vector<double> Vector(params double[] values) =>
+        MathNet.Numerics.LinearAlgebra.Vector<double>.Build.DenseOfArray(values);
+
+    [Fact]
+    public void Run_TankFedThroughPressureReducingValve_MatchesRungeKutta()
+    {
+        // A reservoir at 80 m feeds a pressure-reducing valve that holds junction "valve-out" (elevation 0) at 35 m of
+        // pressure head; from there the fill case's pipe and tank. The tank then fills at Q(35 - 20 - h) / A.
+        var model = FillModel(7200) with
+        {
+            Network = Network([new Junction("valve-out", 0, 0)], [new Reservoir("source", 80)],
+                [new NetworkPipe("feed", "valve-out", "hill", FillLength, FillPipe, FillRoughness)])
+                with { Valves = [new ControlValve("prv", "source", "valve-out", 0.3, ControlValveType.PressureReducing, 35)] },
+        };
+        var result = Simulate(model);
+        Assert.Equal(SimulationStatus.Completed, result.Status);
+        double Rate(double h) => PipeFlow(35 - FillBottom - h, FillLength, FillPipe, FillRoughness) / FillArea;
+        double fillTime = Integrate.DoubleExponential(h => 1 / Rate(h), FillStart, FillTop, 1e-8);
+        double end = Math.Min(7200, Math.Floor(fillTime / 600) * 600);
+        var reference = RungeKutta.FourthOrder(FillStart, 0, end, (int)(end / 600) * 2400 + 1, (_, y) => Rate(y));
+        double worst = 0;
+        foreach (var report in result.Reports.Where(r => r.Time <= end))
+        {
+            Assert.Equal(ValveState.Active, report.Network.Valves[0].State);
+            worst = Math.Max(worst, Math.Abs(report.Tanks[0].Level - reference[(int)Math.Round(report.Time / 600) * 2400]));
+        }
+        output.WriteLine($"valve-fed fill: largest level error {worst:E3} m, fill time {fillTime:F1} s");
+        Assert.True(worst <= 1e-3, $"level error {worst} m");
+        if (fillTime < 7200)
+            Assert.True(Math.Abs(Assert.Single(result.Events).Time - fillTime) <= 1);
+    }
+
+    [Fact]
+    public void Run_WarmStarts_SaveNewtonIterationsAndGiveTheSameLevels()
+    {
+        // Property: starting each network solve from the previous state changes nothing beyond the solves' tolerances
+        // and takes fewer Newton iterations than starting every solve from the default start.
+        var model = BoosterModel(4 * 3600,
+            [new NetworkControl("lift", new ControlAction(false, null), new ControlCondition("high", null, 6, null))]);
+        var warm = Simulate(model);
+        var cold = Simulate(model, new SimulationOptions { ColdStarts = true });
+        Assert.True(warm.Completed && cold.Completed);
+        Assert.Equal(warm.Reports.Count, cold.Reports.Count);
+        for (int k = 0; k < warm.Reports.Count; k++)
+            for (int i = 0; i < 2; i++)
+                Assert.Equal(cold.Reports[k].Tanks[i].Level, warm.Reports[k].Tanks[i].Level, 1e-7);
+        int warmIterations = warm.Steps.Sum(s => s.NetworkIterations), coldIterations = cold.Steps.Sum(s => s.NetworkIterations);
+        output.WriteLine($"Newton iterations in the steps: warm {warmIterations} ({warm.NetworkSolves} solves), cold {coldIterations} ({cold.NetworkSolves} solves)");
+        Assert.True(warmIterations < coldIterations);
     }
 
     [Fact]

@@ -345,7 +345,12 @@ public sealed class NetworkSimulationRunEndpointsTests(ApiFixture api)
             Assert.Equal(reports[k].GetProperty("time").GetDouble() / 3600, points[k].X, 1e-9); // hours
             Assert.Equal(TankAt(reports[k], "kestrel-tank").GetProperty("level").GetDouble(), points[k].Y, 1e-9);
         }
-        Assert.NotNull(page.Document.QuerySelector("svg#plot-pump-states polyline[data-role='pump-state']"));
+        // The pump's state switches at the instants its controls fired (the events' times, in hours).
+        var state = page.Document.QuerySelector("svg#plot-pump-states polyline[data-role='pump-state']");
+        Assert.NotNull(state);
+        var switches = SheetPage.Points(state!);
+        foreach (var e in json.Body.GetProperty("events").EnumerateArray().Where(e => e.GetProperty("kind").GetString() == "control"))
+            Assert.Equal(2, switches.Count(p => Math.Abs(p.X - e.GetProperty("time").GetDouble() / 3600) < 1e-9));
         var events = page.Document.GetElementById("table-events");
         Assert.NotNull(events);
         Assert.Equal(json.Body.GetProperty("events").GetArrayLength(), events!.QuerySelectorAll("tbody tr").Length);

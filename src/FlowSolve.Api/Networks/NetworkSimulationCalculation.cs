@@ -22,6 +22,9 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
 
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
+    /// <summary>Element states the run may keep per answer row allowed (NetworkMaxElementCases).</summary>
+    public const long HeldPerAnswerRow = 10;
+
     public override CalculationInfo Info { get; } = new(Calculation, "Networks", "NetworkSimulate", "converged",
         "Extended-period run of a network: tank levels, demand patterns and controls over time", NetworkSimulationDocs.Description)
     {
@@ -56,6 +59,17 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
             return NetworkSolveCalculation.LimitExceeded("The answer would be too large.",
                 $"{times} report times (duration {model.Duration} s every reportStep {model.ReportStep} s), each listing {perTime} rows (pipes, pumps, valves, junctions, reservoirs and tanks), make {rows} rows; this service answers at most {limits.NetworkMaxElementCases} (FlowSolve:Limits:NetworkMaxElementCases). Ask for a longer reportStep, output.detail \"summary\" or output.elements with the ids you need.",
                 "networkMaxElementCases", limits.NetworkMaxElementCases, rows, "reportStep");
+
+        // What the run itself keeps: every element's state at every report time, whatever the answer lists (a state
+        // row is some 40 bytes, an answer row some 150, so it may hold ten times the answer's rows).
+        long elements = (long)(request.Pipes?.Count ?? 0) + (request.Pumps?.Count ?? 0) + (request.Valves?.Count ?? 0)
+            + (request.Junctions?.Count ?? 0) + (request.Reservoirs?.Count ?? 0) + model.Tanks.Count;
+        long held = times > long.MaxValue / Math.Max(1, elements) ? long.MaxValue : times * Math.Max(1, elements);
+        long maxHeld = limits.NetworkMaxElementCases > long.MaxValue / HeldPerAnswerRow ? long.MaxValue : limits.NetworkMaxElementCases * HeldPerAnswerRow;
+        if (held > maxHeld)
+            return NetworkSolveCalculation.LimitExceeded("The run would hold too many states.",
+                $"{times} report times of {elements} elements (pipes, pumps, valves, junctions, reservoirs and tanks) make {held} element states, which the run keeps until it answers whatever output lists; this service keeps at most {maxHeld} ({HeldPerAnswerRow} x FlowSolve:Limits:NetworkMaxElementCases). Ask for a longer reportStep or a shorter duration.",
+                "networkMaxElementCases", maxHeld, held, "reportStep");
 
         // The Core's own bound on the report times, whatever the configured row limit.
         if (model.Duration / model.ReportStep > NetworkSimulator.MaximumReports - 2)

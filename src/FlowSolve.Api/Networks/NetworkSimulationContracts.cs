@@ -90,7 +90,7 @@ public sealed record NetworkSimulationRequest(
     string? FlowUnit = null,
     [property: Description("A name for the network, shown as the calculation sheet's subtitle; optional, at most 200 characters.")]
     string? Title = null,
-    [property: Description("How much of each report to list, as in /v1/networks/solve: {\"detail\": \"summary\"} or {\"elements\": [ids]}; every element when omitted. Tanks are always listed. The rows listed (plus the tanks) times the report times may not exceed FlowSolve:Limits:NetworkMaxElementCases.")]
+    [property: Description("How much of each report to list, as in /v1/networks/solve: {\"detail\": \"summary\"} or {\"elements\": [ids]}; every element when omitted. Tanks are always listed. The rows listed (plus the tanks) times the report times may not exceed FlowSolve:Limits:NetworkMaxElementCases, nor every element times the report times 10 times that (the run keeps every state until it answers).")]
     NetworkOutputInput? Output = null,
     [property: Description("How junction demands respond to pressure, as in /v1/networks/solve; demand-driven when omitted.")]
     NetworkDemandModelInput? DemandModel = null)

@@ -49,7 +49,8 @@ public static class NetworkSimulationDocs
         "outside [minimumLevel, maximumLevel]; reportStep or patternStep below 1 s; a pattern without multipliers or with a " +
         "negative one; a junction's pattern sent to /v1/networks/solve). A duration over FlowSolve:Limits:NetworkMaxSimulationDuration " +
         "(604 800 s, 7 days, by default), or more report rows (the elements listed plus the tanks, times the report times) than " +
-        "FlowSolve:Limits:NetworkMaxElementCases, answers 413 naming the limit before anything is solved. A run past the " +
+        "FlowSolve:Limits:NetworkMaxElementCases, or more element states kept by the run (every element, listed or not, times " +
+        "the report times) than 10 times that limit, answers 413 naming the limit before anything is solved. A run past the " +
         "request's time budget stops at a step boundary and answers 503 saying how far it got (reachedTime). A run whose " +
         "network solve fails answers 200 with converged false, its status, a not-converged warning and the reports up to " +
         "reachedTime; one that fails before its first report answers 422. format=html gives the sheet: tank levels and pump " +

@@ -303,6 +303,35 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
     }
 
     [Fact]
+    public async Task Simulate_TooManyHeldStates_413EvenForASummary()
+    {
+        // 1000 pipes in a chain from the tank, reported every second for 2000 s: the summary lists 2001 tank rows only,
+        // but the run keeps 2001 x 2003 element states, over 10 x the 100 000 rows of the default limit.
+        var d = Document();
+        d.Remove("controls");
+        var junctions = d["junctions"]!.AsArray();
+        var pipes = d["pipes"]!.AsArray();
+        for (int i = 0; i < 999; i++)
+        {
+            junctions.Add(new JsonObject { ["id"] = $"c{i}", ["elevation"] = 0 });
+            pipes.Add(new JsonObject { ["id"] = $"l{i}", ["from"] = i == 0 ? "j" : $"c{i - 1}", ["to"] = $"c{i}", ["length"] = 10, ["diameter"] = 0.1, ["roughness"] = 1e-4 });
+        }
+        d["output"] = new JsonObject { ["detail"] = "summary" };
+        d["duration"] = 2000;
+        d["reportStep"] = 1;
+        var r = await Post(d);
+        Assert.Equal(413, r.Status);
+        Assert.Equal("networkMaxElementCases", r.Body.GetProperty("limit").GetString());
+        Assert.Equal(1_000_000, r.Body.GetProperty("maximum").GetInt64());
+        Assert.Equal(2001L * (1001 + 1000 + 1 + 1), r.Body.GetProperty("given").GetInt64());
+
+        // A report every 10 s keeps 201 x 2003 states: under the bound, so the run is not refused for its size.
+        d["reportStep"] = 10;
+        var ok = await Post(d);
+        Assert.NotEqual(413, ok.Status);
+    }
+
+    [Fact]
     public async Task Simulate_FormatText_400()
     {
         var r = await api.PostRaw(Route + "?format=text", Document().ToJsonString(), "application/json");

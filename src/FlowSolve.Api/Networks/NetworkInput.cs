@@ -190,7 +190,7 @@ internal static class NetworkInput
         }
         var tanks = storage?.Invoke(u, nodeAt) ?? [];
         if (rs.Count == 0 && storage is null) fields.Add("reservoirs", "at least one reservoir (a node of fixed head) is needed: without one the heads are undefined");
-        else if (rs.Count == 0 && tanks.Count == 0 && !fields.Has("tanks"))
+        else if (rs.Count == 0 && tanks.Count == 0)
             fields.Add("reservoirs", "at least one reservoir or tank is needed: without a node of known head the heads are undefined");
 
         // Links.

@@ -83,11 +83,11 @@ internal static class NetworkSimulationReader
                 });
                 if (!idOk) continue;
                 tankAt[t.Id!] = i;
+                // Every tank with an id stands in as a node of known head (a bad field has its own 400, and the
+                // backstop check runs only on a request without errors).
+                stand.Add(new Reservoir(tank.Id, tank.Elevation + tank.InitialLevel));
                 if (double.IsFinite(tank.Elevation + tank.InitialLevel + tank.MinimumLevel + tank.MaximumLevel + tank.Diameter))
-                {
                     tanks.Add(tank);
-                    stand.Add(new Reservoir(tank.Id, tank.Elevation + tank.InitialLevel));
-                }
             }
             return stand;
         });

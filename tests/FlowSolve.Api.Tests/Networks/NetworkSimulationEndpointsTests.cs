@@ -185,6 +185,22 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
     }
 
     [Fact]
+    public async Task Simulate_TanksOnly_NeedNoReservoir_EvenWhenATankFieldIsBad()
+    {
+        // A tank is a node of known head: without reservoirs only the tank's own bad field is named.
+        var d = With(x =>
+        {
+            x["reservoirs"] = new JsonArray();
+            x["pipes"]!.AsArray().RemoveAt(0);
+            x.Remove("controls");
+            Tank(x)["diameter"] = -1;
+        });
+        var r = await Post(d);
+        ProblemAssert.NamesField(r, 400, "tanks[0].diameter");
+        Assert.False(r.Body.GetProperty("errors").TryGetProperty("reservoirs", out _), r.Body.ToString());
+    }
+
+    [Fact]
     public async Task Simulate_EveryBadFieldAtOnce()
     {
         var d = Document();

@@ -60,6 +60,10 @@ public static class NetworkSimulator
                 issues.Add(new(id, "bad-tank-level", string.Format(c, "tank '{0}': minimumLevel {1} must be finite and 0 or more", id, t.MinimumLevel)));
             if (!(t.MaximumLevel > t.MinimumLevel) || !double.IsFinite(t.MaximumLevel))
                 issues.Add(new(id, "bad-tank-level", string.Format(c, "tank '{0}': maximumLevel {1} must be finite and above minimumLevel {2}", id, t.MaximumLevel, t.MinimumLevel)));
+            else if (!(t.Area > 0) || !double.IsFinite(t.Area))
+                issues.Add(new(id, "non-positive-diameter", string.Format(c, "tank '{0}': diameter {1} gives no finite, positive plan area", id, t.Diameter)));
+            if (double.IsFinite(t.Elevation) && double.IsFinite(t.MaximumLevel) && !double.IsFinite(t.Elevation + t.MaximumLevel))
+                issues.Add(new(id, "non-finite-value", $"tank '{id}': elevation + maximumLevel must be finite"));
             if (!(t.InitialLevel >= t.MinimumLevel && t.InitialLevel <= t.MaximumLevel) || !double.IsFinite(t.InitialLevel))
                 issues.Add(new(id, "bad-tank-level", string.Format(c, "tank '{0}': initialLevel {1} must lie in [minimumLevel, maximumLevel]", id, t.InitialLevel)));
         }

@@ -224,8 +224,12 @@ public sealed partial class NetworkSolver
                 junctions.Add(result);
             }
         }
+        // A tank's "pressure" is its level (or, held, its free head above the bottom): not a junction's pressure to warn of.
+        var warnings = new List<NetworkWarning>(full.Warnings.Count);
+        foreach (var w in full.Warnings)
+            if (w.Code != NetworkWarningCode.NegativePressure || !(NodeOf(w.ElementId) is int k && k >= 0 && isTank[k])) warnings.Add(w);
         return new NetworkResult(full.Status, 1.0, [.. full.Pipes], [.. full.Pumps], junctions.ToArray(), reservoirs.ToArray(),
-            [.. full.Record], full.StatusPasses, [.. full.UnsuppliedJunctions], [.. full.PumpsUnableToLift], [.. full.Warnings],
+            [.. full.Record], full.StatusPasses, [.. full.UnsuppliedJunctions], [.. full.PumpsUnableToLift], warnings.ToArray(),
             _linkIndex, index) { DemandModel = full.DemandModel, Valves = full.Valves };
     }
 }

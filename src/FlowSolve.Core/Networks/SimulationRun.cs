@@ -229,7 +229,10 @@ internal sealed class SimulationRun
                 if (!(t1 > t)) t1 = bp;
             }
             double taken = t1 - t;
-            double proposal = taken * (err == 0 ? 5 : Math.Clamp(0.9 * Math.Cbrt(_options.LevelTolerance / err), 0.2, 5));
+            // No growth right after a rejection (Hairer, Norsett and Wanner 1993, Section II.4, from memory): it would
+            // only be rejected again.
+            double growth = rejected > 0 ? 1 : 5;
+            double proposal = taken * (err == 0 ? growth : Math.Clamp(0.9 * Math.Cbrt(_options.LevelTolerance / err), 0.2, growth));
 
             // Events on the step's interpolant: the earliest root, if any; and a held tank released within the step.
             var located = Locate(t, t1, out double eventTime, out int eventIterations, out double eventResidual);

@@ -499,6 +499,32 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
         Assert.True(warmIterations < coldIterations);
     }
 
+    public static TheoryData<string> ExtremeCases => ["tiny tank", "huge demand", "subnormal levels", "huge elevation", "long run"];
+
+    [Theory]
+    [MemberData(nameof(ExtremeCases))]
+    public void Run_ExtremeInputs_EndWithAStatusAndLevelsWithinTheLimits(string name)
+    {
+        var model = name switch
+        {
+            "tiny tank" => FillModel(3600) with { Tanks = [new Tank("hill", FillBottom, FillStart, 0, FillTop, 1e-150)] },
+            "huge demand" => DrainModel(3600) with { Patterns = [new DemandPattern("day", [1e300])] },
+            "subnormal levels" => DrainModel(3600) with { Tanks = [new Tank("tower", 30, 4e-320, 0, 5e-320, 10)] },
+            "huge elevation" => FillModel(3600) with { Tanks = [new Tank("hill", 1e300, FillStart, 0, FillTop, FillDiameter)] },
+            _ => DrainModel(1e300) with { ReportStep = 1e296, PatternStep = 1e-3 },
+        };
+        Assert.Empty(NetworkSimulator.Validate(model));
+        var result = Simulate(model, new SimulationOptions(MaxSteps: 2000));
+        output.WriteLine($"{name}: {result.Status} at {result.ReachedTime} s after {result.Steps.Count} steps");
+        Assert.True(double.IsFinite(result.ReachedTime));
+        Assert.Equal(result.Status == SimulationStatus.Completed, result.ReachedTime == model.Duration);
+        Assert.All(result.Reports, r => Assert.All(r.Tanks, (t, i) =>
+        {
+            Assert.InRange(t.Level, model.Tanks[i].MinimumLevel, model.Tanks[i].MaximumLevel);
+            Assert.True(double.IsFinite(t.Inflow) && double.IsFinite(t.Head));
+        }));
+    }
+
     [Fact]
     public void Validate_ControlOnUnknownLink_NamesIt()
     {

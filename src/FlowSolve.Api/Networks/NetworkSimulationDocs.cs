@@ -225,11 +225,16 @@ public static class NetworkSimulationDocs
                 plot.HorizontalLine($"'{id}' minimum level", t.MinimumLevel ?? 0, $"'{id}' empty");
             }
         }
+        if (r.Reports.Count > 0)
+        {
+            var end = r.Reports[^1];
+            plot.Marker($"tank '{ids[0]}' at the end", end.Time / scale, end.Tanks.First(x => x.Id == ids[0]).Level, "end", role: "case");
+        }
         foreach (var e in r.Events.Where(e => e.Kind is "tank-full" or "tank-empty").Take(200))
             if (limits.TryGetValue(e.Element, out var t))
                 plot.Marker($"{e.Kind} '{e.Element}'", e.Time / scale, e.Kind == "tank-full" ? t.MaximumLevel ?? 0 : t.MinimumLevel ?? 0, e.Kind, role: "event");
         return new SheetFigure("tank-levels", plot.Render(),
-            "Each tank's level at the report times (first tank solid, others dashed), its full and empty levels as lines, and each tank-full or tank-empty event marked at the instant located. Between report times the line is straight; the level itself follows the mass balance.");
+            "Each tank's level at the report times (first tank solid, others dashed), its full and empty levels as lines, each tank-full or tank-empty event marked at the instant located, and the first tank's level at the end marked. Between report times the line is straight; the level itself follows the mass balance.");
     }
 
     /// <summary>Each pump's flow at the report times, and its state (running 1, off 0) as a step line.</summary>
@@ -262,10 +267,12 @@ public static class NetworkSimulationDocs
             steps.Add((rows[^1].Time / scale, state));
             plot.Curve($"pump '{id}' state", steps, dashed: true, role: "pump-state");
         }
+        if (r.Reports.Count > 0 && r.Reports[^1].Pumps.FirstOrDefault(p => p.Id == pumpIds[0]) is { } lastPump)
+            plot.Marker($"pump '{pumpIds[0]}' at the end", r.Reports[^1].Time / scale, lastPump.Flow, "end", role: "case");
         foreach (var e in r.Events.Where(e => e.Kind == "control" && pumpIds.Contains(e.Element)).Take(200))
             plot.Marker($"control on '{e.Element}'", e.Time / scale, 0, e.Change, role: "event", accent: false);
         return new SheetFigure("pump-states", plot.Render(),
-            "Each pump's flow at the report times (solid) and its state as a step line switching at the instants its controls fired (dashed: at the top while running, at 0 while off); each control that acted on a pump is marked at that instant, labelled with its change.");
+            "Each pump's flow at the report times (solid) and its state as a step line switching at the instants its controls fired (dashed: at the top while running, at 0 while off); each control that acted on a pump is marked at that instant, labelled with its change, and the first pump's flow at the end marked.");
     }
 
     /// <summary>Whether a control's change leaves a pump running: closed or a speed ratio of 0 stops it, open or a

@@ -161,7 +161,7 @@ internal static class NetworkSimulationReader
 
         // Times.
         var assumptions = new List<AssumptionDto>();
-        double duration = fields.Required("duration", request.Duration, 0, double.MaxValue, unit: "s");
+        double duration = fields.Required("duration", request.Duration, 0, double.PositiveInfinity, unit: "s");
         double reportStep = Step(fields, "reportStep", request.ReportStep, assumptions, "a report every hour (default)");
         double patternStep = Step(fields, "patternStep", request.PatternStep, assumptions, "each pattern multiplier holds for an hour (default)");
         if (defaultMinimum) assumptions.Add(new("tanks[].minimumLevel", "0", "a tank without minimumLevel is empty at its bottom (default)"));
@@ -228,7 +228,7 @@ internal static class NetworkSimulationReader
             assumptions.Add(new(field, DefaultStep.ToString(C), message));
             return DefaultStep;
         }
-        return fields.Required(field, value, MinimumStep, double.MaxValue, unit: "s");
+        return fields.Required(field, value, MinimumStep, double.PositiveInfinity, unit: "s");
     }
 
     private static ControlAction? Action(Problems.FieldErrors e, string at, NetworkControlSetInput? set, bool pump, bool linkKnown)
@@ -261,7 +261,7 @@ internal static class NetworkSimulationReader
             bool bad = false;
             if (when.Tank is not null) { e.Add(at + ".tank", "is not given with time: a control fires either at a time or on a tank's level"); bad = true; }
             if (level) { e.Add(at + (when.LevelBelow is not null ? ".levelBelow" : ".levelAbove"), "is not given with time: a control fires either at a time or on a tank's level"); bad = true; }
-            double end = double.IsFinite(duration) ? duration : double.MaxValue;
+            double end = double.IsFinite(duration) ? duration : double.PositiveInfinity;
             double t = e.Required(at + ".time", when.Time, 0, end, unit: "s");
             return bad || !double.IsFinite(t) ? null : new ControlCondition(null, null, null, t);
         }

@@ -45,7 +45,7 @@ public static class NetworkSimulationDocs
         "method, validity, warnings, elementWarnings (each element and code once, from the first report time it holds) and " +
         "assumptions (the defaults applied, the integration method and its tolerance). Levels and heads are in m (ft with " +
         "units=us), flows in the flow unit, times always in s. Bad input answers 400 naming the field path (controls[2].link for " +
-        "an unknown link; an unknown tank or pattern; a tank connected to nothing or a pattern no junction names; initialLevel " +
+        "an unknown link or a control valve; a valve ending at a tank; an unknown tank or pattern; a tank connected to nothing or a pattern no junction names; initialLevel " +
         "outside [minimumLevel, maximumLevel]; reportStep or patternStep below 1 s; a pattern without multipliers or with a " +
         "negative one; a junction's pattern sent to /v1/networks/solve). A duration over FlowSolve:Limits:NetworkMaxSimulationDuration " +
         "(604 800 s, 7 days, by default), or more report rows (the elements listed plus the tanks, times the report times) than " +

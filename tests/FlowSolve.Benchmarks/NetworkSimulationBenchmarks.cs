@@ -18,8 +18,8 @@ public class NetworkSimulationBenchmarks
 
     private SimulationModel _model = null!;
 
-    /// <summary>Approximate pipe count.</summary>
-    [Params(10_000, 100_000)]
+    /// <summary>Approximate pipe count (the 100 000-pipe day is <see cref="NetworkSimulationScaleBenchmarks"/>).</summary>
+    [Params(10_000)]
     public int Pipes { get; set; }
 
     /// <summary>The grid with its tanks and pattern.</summary>
@@ -89,4 +89,28 @@ public class NetworkSimulationWarmStartBenchmarks
     /// <summary>One solver's set-up for the run's network.</summary>
     [Benchmark]
     public NetworkSolver SetUp() => new(_network);
+}
+
+/// <summary>The day of <see cref="NetworkSimulationBenchmarks"/> on the 99 912-pipe grid. Each run takes tens of seconds
+/// on the shared machine: run it by hand with a one-shot job (<c>--job dry --inProcess</c>).</summary>
+[MemoryDiagnoser]
+public class NetworkSimulationScaleBenchmarks
+{
+    private SimulationModel _model = null!;
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        _model = NetworkSimulationBenchmarks.Create(100_000);
+        Console.WriteLine($"// grid: {_model.Network.Junctions.Count} junctions, {_model.Network.Pipes.Count} pipes");
+    }
+
+    /// <summary>The day, one solver warm started from solve to solve; the counts go to the log.</summary>
+    [Benchmark]
+    public int Day24Hours()
+    {
+        var result = NetworkSimulationBenchmarks.Check(NetworkSimulator.Run(_model));
+        Console.WriteLine("// " + NetworkSimulationBenchmarks.Describe(result));
+        return result.NetworkSolves;
+    }
 }

@@ -16,9 +16,19 @@ namespace FlowSolve.Core.Networks;
 /// safeguarded Newton (<see cref="Numerics.SafeguardedNewton"/>) to within <see cref="SimulationOptions.EventTimeTolerance"/>;
 /// the step is then taken again to the event, the event applied, and the integration restarted from it.</para>
 /// <para>A full tank is held at its limit with zero net inflow (a free junction of zero demand) for as long as its
-/// connections would fill it further, an empty one likewise; each is released when its free head falls below (rises
-/// above) the limit's head, checked at every step end. Each event is announced once: a control or a tank limit is
-/// re-armed only when the level has moved back by more than ten level tolerances (at least 1 um) from its threshold.</para>
+/// connections would fill it further, an empty one likewise; it is released when its free head falls below (rises
+/// above) the limit's head: at a pattern boundary or control at once, and within a step at the root in time of that
+/// head difference, found by regula falsi (Illinois) with a network solve at the interpolated levels per iteration.
+/// Each event is announced once: a control or a tank limit is re-armed only when the level has moved back by more than
+/// ten level tolerances (at least 1 um) from its threshold, and a tank changes between held and moving at most once per
+/// instant.</para>
+/// <para>Every solve starts from the previous one (warm start); a warm solve that fails is repeated from the default
+/// start once (a check valve closed earlier may have to open), and a stage whose solve still fails shortens the step
+/// (to a quarter, down to four event-time tolerances) before the run stops with
+/// <see cref="SimulationStatus.NetworkNotConverged"/>; so does a run in which part of the network is left with no
+/// fixed head (its only tank held empty, or cut off by a control): demand-driven, it has no answer. Controls act on pipes (open, closed) and pumps (open, closed,
+/// speedRatio; opening a pump whose speed is 0 runs it at rated speed) and control valves (closed: shut whatever the
+/// heads; open: regulating again).</para>
 /// <para>The results are engineering estimates to be checked by a qualified engineer; tank levels and flows are
 /// modelled, not water quality, surge or water hammer.</para>
 /// </remarks>
@@ -113,8 +123,6 @@ public static class NetworkSimulator
             bool isPipe = pipes.Contains(link), isPump = pumps.Contains(link), isValve = valves.Contains(link);
             if (!isPipe && !isPump && !isValve)
                 issues.Add(new(link, "unknown-link", $"control {i}: link '{link}' is not a pipe, pump or valve"));
-            else if (isValve)
-                issues.Add(new(link, "unsupported-control", $"control {i}: valve '{link}' cannot be switched by a control; switch the pipe beside it"));
             var set = control.Set;
             if (set is null || (set.Open is null) == (set.SpeedRatio is null))
                 issues.Add(new(link, "bad-control-action", $"control {i} on '{link}': set exactly one of status and speedRatio"));

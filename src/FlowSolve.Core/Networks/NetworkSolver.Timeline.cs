@@ -19,8 +19,8 @@ public sealed partial class NetworkSolver
     private bool[] _shut = [];        // per link: a pipe shut (by the model or a control); empty: the model's Closed
     private List<NetworkIteration>? _timelineRecord;
 
-    /// <summary>A pipe shut by the model or, in a timeline, by a control.</summary>
-    private bool IsShut(int l) => _shut.Length > 0 ? _shut[l] : _model.Pipes[l].Closed;
+    /// <summary>A pipe shut by the model or, in a timeline, a pipe or control valve shut by a control.</summary>
+    private bool IsShut(int l) => _shut.Length > 0 ? _shut[l] : l < _pipes && _model.Pipes[l].Closed;
 
     /// <summary>Identity rows for the known heads: no correction of a known head.</summary>
     private void ImposeKnownHeads(Span<double> values)
@@ -63,11 +63,22 @@ public sealed partial class NetworkSolver
         for (int j = 0; j < _junctions; j++) _demand[j] = _baseDemand[j] * factors[j];
     }
 
-    /// <summary>Opens or shuts link l (a pipe, or a pump: a shut pump is off at any speed).</summary>
+    /// <summary>Opens or shuts link l: a pipe, or a control valve (shut, it stays closed whatever the heads; opened, it
+    /// regulates again). Pumps: see <see cref="SetPumpSpeed"/>.</summary>
     internal void SetLinkOpen(int l, bool open)
     {
-        if (_kind[l] == Kind.Pump) return; // pumps: see SetPumpSpeed
+        if (_kind[l] == Kind.Pump) return;
         _shut[l] = !open;
+        if (_kind[l] == Kind.Valve)
+        {
+            int v = _valveOf[l];
+            bool throttle = _valveModel[v].Type == ControlValveType.Throttle;
+            _valveState[v] = !open ? ValveState.Closed : throttle ? ValveState.Active : ValveState.Open;
+            _status[l] = open ? LinkStatus.Open : LinkStatus.Closed;
+            _flow[l] = open ? 0.01 * InitialVelocity * _area[l] : 0;
+            if (IsPressureValve(v)) _fixedHead[_controlled[v]] = false;
+            return;
+        }
         if (!open)
         {
             _status[l] = LinkStatus.Closed;
@@ -138,11 +149,19 @@ public sealed partial class NetworkSolver
     /// <summary>One solve at the present demands, known heads and link settings, warm started; the same loop as
     /// <see cref="SolveCase"/> without building a result (the run builds one only at its report times).</summary>
     /// <param name="iterations">Newton iterations of this solve.</param>
-    internal NetworkStatus SolveTimeline(out int iterations)
+    /// <param name="time">The run's time of this solve, s (for the predictor: see <see cref="Predict"/>).</param>
+    internal NetworkStatus SolveTimeline(double time, out int iterations)
     {
         bool warm = _warm;
+        if (warm) Predict(time);
         var status = SolveTimelineOnce(out iterations);
-        if (status.HasAnswer() || !warm || status == NetworkStatus.NoPathToFixedHead) return status;
+        if (status.HasAnswer())
+        {
+            Remember(time, _lastPasses > 1);
+            return status;
+        }
+        _history = 0;
+        if (!warm || status == NetworkStatus.NoPathToFixedHead) return status;
         // A warm start can fail where a cold one succeeds: the statuses are held during each Newton solve, so a check
         // valve (or stopped pump) that closed earlier and must now open, because a tank went still or a control shut a
         // pipe, leaves a junction whose demand no open link can bring. The cold start opens every one of them.
@@ -199,6 +218,58 @@ public sealed partial class NetworkSolver
 
     private int _lastPasses;
 
+    // The predictor: the last two solved states of the run (heads of the junctions, flows of the links) and their times.
+    private double[] _headA = [], _flowA = [], _headB = [], _flowB = [];
+    private double _timeA, _timeB;
+    private int _history; // how many of A and B are valid (B the latest)
+
+    /// <summary>Forgets the solved states behind the predictor (the demands, the links or the known heads changed
+    /// their form: a pattern boundary, a control, a tank held or released).</summary>
+    internal void ForgetHistory() => _history = 0;
+
+    /// <summary>Starts the solve at time t from the line through the last two solved states, B + w (B - A) with
+    /// w = (t - tB)/(tB - tA), for |w| at most 2 (else from B as it stands): between pattern boundaries and controls
+    /// the state moves smoothly with the tank levels, so the start is off by O(dt^2) instead of O(dt), and the Newton
+    /// iteration needs about one step less. Only for a demand-driven model without control valves (their states and
+    /// the law's positions are not extrapolated); the known heads are the run's own.</summary>
+    private void Predict(double t)
+    {
+        if (_history < 2 || _law is not null || _valveOf.Length > 0) return;
+        double w = (t - _timeB) / (_timeB - _timeA);
+        if (!(Math.Abs(w) <= 2)) return;
+        for (int j = 0; j < _junctions; j++)
+            if (!_dirichlet[j]) _head[j] = _headB[j] + w * (_headB[j] - _headA[j]);
+        for (int l = 0; l < _links; l++)
+            if (_status[l] == LinkStatus.Open) _flow[l] = _flowB[l] + w * (_flowB[l] - _flowA[l]);
+    }
+
+    /// <summary>Keeps the state just solved at time t as B (the previous B becomes A, unless statuses changed).</summary>
+    private void Remember(double t, bool statusesChanged)
+    {
+        if (_law is not null || _valveOf.Length > 0) return;
+        if (_headA.Length != _junctions)
+        {
+            _headA = new double[_junctions];
+            _headB = new double[_junctions];
+            _flowA = new double[_links];
+            _flowB = new double[_links];
+        }
+        if (_history > 0 && t == _timeB)
+        {
+            // The same instant again (a report, a settle): B is replaced, A kept.
+            Array.Copy(_head, _headB, _junctions);
+            Array.Copy(_flow, _flowB, _links);
+            if (statusesChanged) _history = 1;
+            return;
+        }
+        (_headA, _headB) = (_headB, _headA);
+        (_flowA, _flowB) = (_flowB, _flowA);
+        (_timeA, _timeB) = (_timeB, t);
+        Array.Copy(_head, _headB, _junctions);
+        Array.Copy(_flow, _flowB, _links);
+        _history = statusesChanged ? 1 : Math.Min(_history + 1, 2);
+    }
+
     /// <summary>The result of the last <see cref="SolveTimeline"/> (call right after it, before any hook), with the
     /// tanks at known heads listed as reservoirs (outflow = minus their net inflow) and the held ones as junctions.</summary>
     /// <param name="status">The status the solve returned.</param>
@@ -228,8 +299,9 @@ public sealed partial class NetworkSolver
         var warnings = new List<NetworkWarning>(full.Warnings.Count);
         foreach (var w in full.Warnings)
             if (w.Code != NetworkWarningCode.NegativePressure || !(NodeOf(w.ElementId) is int k && k >= 0 && isTank[k])) warnings.Add(w);
-        return new NetworkResult(full.Status, 1.0, [.. full.Pipes], [.. full.Pumps], junctions.ToArray(), reservoirs.ToArray(),
-            [.. full.Record], full.StatusPasses, [.. full.UnsuppliedJunctions], [.. full.PumpsUnableToLift], warnings.ToArray(),
+        // The tables Report built are handed on as they are (they are arrays no one else holds).
+        return new NetworkResult(full.Status, 1.0, (PipeResult[])full.Pipes, (PumpResult[])full.Pumps, junctions.ToArray(), reservoirs.ToArray(),
+            (NetworkIteration[])full.Record, full.StatusPasses, (string[])full.UnsuppliedJunctions, (string[])full.PumpsUnableToLift, warnings.ToArray(),
             _linkIndex, index) { DemandModel = full.DemandModel, Valves = full.Valves };
     }
 }

@@ -115,7 +115,13 @@ public sealed partial class NetworkSolver
     private void ResetValves()
     {
         for (int v = 0; v < _valveModel.Length; v++)
+        {
             _valveState[v] = _valveModel[v].Type == ControlValveType.Throttle ? ValveState.Active : ValveState.Open;
+            if (_shut.Length == 0 || !_shut[_valveLink[v]]) continue;
+            _valveState[v] = ValveState.Closed; // shut by a control of an extended-period run
+            _status[_valveLink[v]] = LinkStatus.Closed;
+            _flow[_valveLink[v]] = 0;
+        }
         Array.Clear(_fixedHead);
     }
 
@@ -294,6 +300,7 @@ public sealed partial class NetworkSolver
             var type = _valveModel[v].Type;
             if (type == ControlValveType.Throttle) continue;
             int l = _valveLink[v], f = _from[l], t = _to[l];
+            if (_shut.Length > 0 && _shut[l]) continue; // shut by a control: stays closed
             double hf = _head[f], ht = _head[t], q = _flow[l], target = _valveTarget[v];
             var state = _valveState[v];
             var next = state;
@@ -370,6 +377,8 @@ public sealed partial class NetworkSolver
                     if (a != b) parent[a] = b;
                 }
                 for (int r = 0; r < _reservoirs; r++) supplied[Find(_junctions + r)] = true;
+                for (int j = 0; j < _dirichlet.Length; j++)
+                    if (_dirichlet[j]) supplied[Find(j)] = true; // a tank at a known head (an extended-period run)
                 for (int w = 0; w < _valveModel.Length; w++)
                     if (w != v && IsPressureValve(w) && _valveState[w] == ValveState.Active) supplied[Find(_controlled[w])] = true;
                 int lv = _valveLink[v], f = _from[lv], t = _to[lv];

@@ -1140,7 +1140,7 @@ public sealed partial class NetworkSolver
         }
         for (int l = 0; l < _links; l++)
         {
-            if (_kind[l] == Kind.Pump ? !(_speed[l] > 0) : _kind[l] != Kind.Valve && IsShut(l)) continue;
+            if (_kind[l] == Kind.Pump ? !(_speed[l] > 0) : IsShut(l)) continue;
             int a = Find(_from[l]), b = Find(_to[l]);
             if (a != b) parent[a] = b;
         }

@@ -119,6 +119,8 @@ internal sealed class SimulationRun
 
         var pipeIndex = new Dictionary<string, int>(StringComparer.Ordinal);
         for (int k = 0; k < network.Pipes.Count; k++) pipeIndex[network.Pipes[k].Id] = k;
+        var valveIndex = new Dictionary<string, int>(StringComparer.Ordinal);
+        for (int k = 0; k < network.Valves.Count; k++) valveIndex[network.Valves[k].Id] = k;
         var pumpIndex = new Dictionary<string, int>(StringComparer.Ordinal);
         _speed = new double[network.Pumps.Count];
         _pumpShut = new bool[network.Pumps.Count];
@@ -145,7 +147,7 @@ internal sealed class SimulationRun
             else
             {
                 _controlPump[c] = -1;
-                _controlLink[c] = _solver.PipeLink(pipeIndex[control.LinkId]);
+                _controlLink[c] = pipeIndex.TryGetValue(control.LinkId, out k) ? _solver.PipeLink(k) : _solver.ValveLink(valveIndex[control.LinkId]);
             }
             _controlTank[c] = control.When.Time is null ? tankIndex[control.When.TankId!] : -1;
             _armed[c] = true;
@@ -315,17 +317,18 @@ internal sealed class SimulationRun
             _factors[j] = p < 0 ? 1.0 : _multipliers[p][(int)(_segment % _multipliers[p].Length)];
         }
         _solver.SetDemandFactors(_factors);
+        _solver.ForgetHistory();
         _stateCurrent = false;
     }
 
     /// <summary>One network solve at levels <paramref name="y"/>: the rates dy/dt, and for held tanks the release
     /// measure (the free head's distance past the limit's head, positive when the tank would leave its limit).</summary>
-    private bool Evaluate(double[] y, double[] rate, double[] release)
+    private bool Evaluate(double time, double[] y, double[] rate, double[] release)
     {
         for (int i = 0; i < _tankCount; i++)
             if (_held[i] == 0) _solver.SetKnownHead(_tankNode[i], _bottom[i] + y[i]);
         if (_options.ColdStarts) _solver.ForgetState();
-        _lastStatus = _solver.SolveTimeline(out int iterations);
+        _lastStatus = _solver.SolveTimeline(time, out int iterations);
         _solves++;
         _stepSolves++;
         _stepIterations += iterations;
@@ -350,11 +353,11 @@ internal sealed class SimulationRun
         err = double.PositiveInfinity;
         double h = t1 - t;
         for (int i = 0; i < _tankCount; i++) _yStage[i] = _y[i] + 0.5 * h * _k1[i];
-        if (!Evaluate(_yStage, _k2, _releaseNew)) return null;
+        if (!Evaluate(t + 0.5 * h, _yStage, _k2, _releaseNew)) return null;
         for (int i = 0; i < _tankCount; i++) _yStage[i] = _y[i] + 0.75 * h * _k2[i];
-        if (!Evaluate(_yStage, _k3, _releaseNew)) return null;
+        if (!Evaluate(t + 0.75 * h, _yStage, _k3, _releaseNew)) return null;
         for (int i = 0; i < _tankCount; i++) _yNew[i] = _y[i] + h * (B1 * _k1[i] + B2 * _k2[i] + B3 * _k3[i]);
-        if (!Evaluate(_yNew, _k4, _releaseNew)) return null;
+        if (!Evaluate(t1, _yNew, _k4, _releaseNew)) return null;
         err = 0;
         for (int i = 0; i < _tankCount; i++)
         {
@@ -481,7 +484,7 @@ internal sealed class SimulationRun
         for (int i = 0; i < _tankCount; i++)
             _scratch[i] = _held[i] != 0 ? _y[i]
                 : new HermiteLevel(t, t1 - t, _y[i], _yNew[i], _k1[i], _k4[i], 0, 1).Evaluate(x).Value;
-        return Evaluate(_scratch, _scratchRate, _scratchRelease);
+        return Evaluate(x, _scratch, _scratchRate, _scratchRelease);
     }
 
     /// <summary>Level controls and tank limits at time t after a step: the located event (forced), and every armed
@@ -563,6 +566,7 @@ internal sealed class SimulationRun
             change = open ? "open" : "closed";
         }
         _solver.RefreshSupply();
+        _solver.ForgetHistory();
         _stateCurrent = false;
         _events.Add(new SimulationEvent(t, "control", _controls[c].LinkId, change, residual, iterations));
     }
@@ -592,7 +596,7 @@ internal sealed class SimulationRun
         Span<bool> changedHere = _tankCount <= 256 ? stackalloc bool[_tankCount] : new bool[_tankCount];
         for (int round = 0; round <= _tankCount; round++)
         {
-            if (!Evaluate(_y, _k1, _release)) return false;
+            if (!Evaluate(t, _y, _k1, _release)) return false;
             _stateCurrent = true;
             bool changed = false;
             for (int i = 0; i < _tankCount; i++)
@@ -624,9 +628,10 @@ internal sealed class SimulationRun
             }
             if (!changed) { _locatedTank = _forceRelease = -1; return true; }
             _solver.RefreshSupply();
+            _solver.ForgetHistory();
             _stateCurrent = false;
         }
-        return Evaluate(_y, _k1, _release) && (_stateCurrent = true);
+        return Evaluate(t, _y, _k1, _release) && (_stateCurrent = true);
     }
 
     /// <summary>Records the report of time t when one is due (solving again only when the solver's state is not
@@ -636,7 +641,7 @@ internal sealed class SimulationRun
         if (!HasReport(_nextReport) || ReportTime(_nextReport) != t) return true;
         if (!_stateCurrent)
         {
-            if (!Evaluate(_y, _k1, _release)) return false;
+            if (!Evaluate(t, _y, _k1, _release)) return false;
             _stateCurrent = true;
         }
         var network = _solver.TimelineResult(_lastStatus, _isTank);

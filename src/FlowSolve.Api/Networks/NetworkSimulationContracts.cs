@@ -31,7 +31,7 @@ public sealed record NetworkPatternInput(
 
 /// <summary>What a control does to its link.</summary>
 public sealed record NetworkControlSetInput(
-    [property: Description("open or closed: the link's new status (a pipe, or a pump switched on or off). Give this or speedRatio.")]
+    [property: Description("open or closed: the link's new status (a pipe; a pump switched on or off; a control valve shut whatever the heads, or regulating again). Give this or speedRatio.")]
     string? Status = null,
     [property: Description("A pump's new speed ratio n/n_rated, 0 (off) to 1.5 (the affinity laws, as a pump's speedRatio); pumps only. Give this or status.")]
     double? SpeedRatio = null);
@@ -47,9 +47,9 @@ public sealed record NetworkControlWhenInput(
     [property: Description("Fires at this time, s from the start; 0 to duration. Without tank.")]
     double? Time = null);
 
-/// <summary>A rule that changes a pipe's or pump's status (or a pump's speed) when its condition is met.</summary>
+/// <summary>A rule that changes a pipe's, pump's or valve's status (or a pump's speed) when its condition is met.</summary>
 public sealed record NetworkControlInput(
-    [property: Description("The id of the pipe or pump it acts on; a control valve cannot be switched (switch the pipe beside it). Required.")]
+    [property: Description("The id of the pipe, pump or control valve it acts on. Required.")]
     string? Link,
     [property: Description("What it does: {\"status\": \"open\"|\"closed\"} or {\"speedRatio\": x} (pumps). Required.")]
     NetworkControlSetInput? Set,
@@ -78,7 +78,7 @@ public sealed record NetworkSimulationRequest(
     double? PatternStep = null,
     [property: Description("Pumps, as in /v1/networks/solve; their ends may be tanks. A control can switch them or change their speed.")]
     IReadOnlyList<NetworkPumpInput>? Pumps = null,
-    [property: Description("Control valves, as in /v1/networks/solve; a valve may not end at a tank (join it by a pipe), and controls do not switch valves.")]
+    [property: Description("Control valves, as in /v1/networks/solve; a valve may not end at a tank (join it by a pipe); a control may open or close one.")]
     IReadOnlyList<NetworkValveInput>? Valves = null,
     [property: Description("Water temperature: degrees C, 0 to 100 (degrees F, 32 to 212, with units=us). Water at 20 degrees C when no fluid is given.")]
     double? Temperature = null,

@@ -30,8 +30,8 @@ public static class NetworkSimulationDocs
         "empty one gives no more outflow: the tank is held at its limit with zero net inflow while its links would push it " +
         "further, and leaves it as soon as the net flow turns. patterns[] are {id, multipliers}, one multiplier per patternStep " +
         "seconds (3600 by default), repeating; a junction's pattern multiplies its demand (multiplier k applies on " +
-        "[k patternStep, (k + 1) patternStep)). controls[] are {link, set, when}: set {\"status\": \"open\"|\"closed\"} for a pipe " +
-        "or pump, or {\"speedRatio\": x} for a pump (a control valve keeps its own rule and is not switched by controls); when {\"tank\": id, \"levelBelow\": m}, {\"tank\": id, \"levelAbove\": m} or " +
+        "[k patternStep, (k + 1) patternStep)). controls[] are {link, set, when}: set {\"status\": \"open\"|\"closed\"} for a pipe, " +
+        "pump or control valve (closed: shut whatever the heads; open: regulating again), or {\"speedRatio\": x} for a pump; when {\"tank\": id, \"levelBelow\": m}, {\"tank\": id, \"levelAbove\": m} or " +
         "{\"time\": s}. Method: between events each level follows dL/dt = net inflow / area, an ordinary differential equation " +
         "whose right side is a full network solve (the global gradient algorithm of /v1/networks/solve, warm-started), " +
         "integrated by an adaptive embedded Runge-Kutta pair with error control; every tank reaching a limit and every level " +
@@ -45,7 +45,7 @@ public static class NetworkSimulationDocs
         "method, validity, warnings, elementWarnings (each element and code once, from the first report time it holds) and " +
         "assumptions (the defaults applied, the integration method and its tolerance). Levels and heads are in m (ft with " +
         "units=us), flows in the flow unit, times always in s. Bad input answers 400 naming the field path (controls[2].link for " +
-        "an unknown link or a control valve; a valve ending at a tank; an unknown tank or pattern; a tank connected to nothing or a pattern no junction names; initialLevel " +
+        "an unknown link; a valve ending at a tank; an unknown tank or pattern; a tank connected to nothing or a pattern no junction names; initialLevel " +
         "outside [minimumLevel, maximumLevel]; reportStep or patternStep below 1 s; a pattern without multipliers or with a " +
         "negative one; a junction's pattern sent to /v1/networks/solve). A duration over FlowSolve:Limits:NetworkMaxSimulationDuration " +
         "(604 800 s, 7 days, by default), or more report rows (the elements listed plus the tanks, times the report times) than " +

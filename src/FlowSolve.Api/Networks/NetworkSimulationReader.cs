@@ -183,13 +183,6 @@ internal static class NetworkSimulationReader
                 bool pump = false, ok = true;
                 if (string.IsNullOrEmpty(c.Link)) { fields.Add(at + ".link", "is required: the id of a pipe, pump or valve"); ok = false; }
                 else if (pumpIds.Contains(c.Link)) pump = true;
-                else if (valveIds.Contains(c.Link))
-                {
-                    // The integrator switches pipes and pumps; a control valve keeps its own rule (common practice: an
-                    // isolating valve on the pipe beside it is what an operator closes).
-                    errors.Add(at + ".link", label, c.Link, $"'{NetworkInput.Short(c.Link)}' is a control valve, which a control cannot switch in this service; switch the pipe beside it");
-                    ok = false;
-                }
                 else if (!pipeIds.Contains(c.Link) && !valveIds.Contains(c.Link))
                 {
                     errors.Add(at + ".link", label, c.Link, $"'{NetworkInput.Short(c.Link)}' is not the id of a pipe, pump or valve of this network");

@@ -67,7 +67,6 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
         { "control-bad-status", "controls[0].set.status" },
         { "control-speed-on-pipe", "controls[0].set.speedRatio" },
         { "control-no-link", "controls[0].link" },
-        { "control-on-a-valve", "controls[0].link" },
         { "valve-at-a-tank", "valves[0].from" },
         { "junction-unknown-pattern", "junctions[0].pattern" },
         { "pattern-named-nowhere", "patterns[1].id" },
@@ -114,11 +113,6 @@ public sealed class NetworkSimulationEndpointsTests(ApiFixture api)
             case "control-bad-status": Control(d)["set"]!["status"] = "shut"; break;
             case "control-speed-on-pipe": Control(d)["set"] = new JsonObject { ["speedRatio"] = 0.9 }; break;
             case "control-no-link": Control(d).Remove("link"); break;
-            case "control-on-a-valve":
-                d["junctions"]!.AsArray().Add(new JsonObject { ["id"] = "k", ["elevation"] = 5, ["demand"] = 0.001 });
-                d["valves"] = new JsonArray(new JsonObject { ["id"] = "v", ["from"] = "j", ["to"] = "k", ["diameter"] = 0.1, ["type"] = "throttle", ["setting"] = 2 });
-                Control(d)["link"] = "v";
-                break;
             case "valve-at-a-tank":
                 d["junctions"]!.AsArray().Add(new JsonObject { ["id"] = "k", ["elevation"] = 5, ["demand"] = 0.001 });
                 d["valves"] = new JsonArray(new JsonObject { ["id"] = "v", ["from"] = "t", ["to"] = "k", ["diameter"] = 0.1, ["type"] = "throttle", ["setting"] = 2 });

@@ -129,9 +129,12 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
         if (r.Duration is double d && double.IsFinite(d) && d > max)
             return NetworkSolveCalculation.LimitExceeded("The run is too long for this service.",
                 $"duration is {d} s; this service runs at most {max} s (FlowSolve:Limits:NetworkMaxSimulationDuration). Run the rest from the levels this run ends with, or ask the operator to raise the limit.",
-                "networkMaxSimulationDuration", (long)Math.Min(max, long.MaxValue), (long)Math.Min(Math.Ceiling(d), long.MaxValue), "duration");
+                "networkMaxSimulationDuration", Whole(max), Whole(d), "duration");
         return null;
     }
+
+    /// <summary>A non-negative number of seconds as a whole number for a problem's figures, long.MaxValue beyond it.</summary>
+    private static long Whole(double seconds) => seconds >= 9e18 ? long.MaxValue : (long)Math.Ceiling(Math.Max(seconds, 0));
 
     private static ValidationProblem Invalid(NetworkInput.Errors errors)
     {

@@ -8,7 +8,8 @@ namespace FlowSolve.Benchmarks;
 /// The non-Newtonian friction solves per call, beside exact Colebrook-White as the baseline, over a spread of 64 inputs
 /// each (so branch prediction cannot learn one case): Dodge-Metzner for n from 0.2 to 1.5 and Re_MR from 3e3 to 1e6;
 /// Buckingham-Reiner with Darby's combination for Re from 10 to 1e5 and He from 1e2 to 1e7; and the inverse flow of a
-/// Bingham paste (an outer Newton in ln Q with a Buckingham-Reiner solve per evaluation). Zero allocations expected.
+/// Bingham paste (an outer Newton in ln Q with a Buckingham-Reiner solve per evaluation), alone and with its
+/// sensitivities (implicit differentiation at the solved flow). Zero allocations expected.
 /// </summary>
 [MemoryDiagnoser]
 public class NonNewtonianBenchmarks
@@ -69,6 +70,34 @@ public class NonNewtonianBenchmarks
     {
         double sum = 0;
         for (int i = 0; i < Cases; i++) sum += NonNewtonianPipe.Flow(Paste, 1200, 0.15, 4.5, _heads[i]).State.Flow;
+        return sum;
+    }
+
+    [Benchmark(OperationsPerInvoke = Cases)]
+    public double BinghamFlowFromHeadWithSensitivities()
+    {
+        double sum = 0;
+        for (int i = 0; i < Cases; i++)
+        {
+            var r = NonNewtonianPipe.Flow(Paste, 1200, 0.15, 4.5, _heads[i]);
+            sum += NonNewtonianSensitivity.OfFlow(Paste, 1200, 0.15, 4.5, r).Output.YieldStress;
+        }
+        return sum;
+    }
+
+    [Benchmark(OperationsPerInvoke = Cases)]
+    public double DodgeMetznerFrictionSensitivities()
+    {
+        double sum = 0;
+        for (int i = 0; i < Cases; i++)
+        {
+            // A mud at 2 m/s in 0.1 m pipe with K set for the case's Re_MR: the friction factor, then its sensitivities.
+            double n = _index[i];
+            var mud = NonNewtonianFluid.PowerLaw(1200, 1200 * Math.Pow(2, 2 - n) * Math.Pow(0.1, n) /
+                (_reynolds[i] * Math.Pow(8, n - 1) * Math.Pow((3 * n + 1) / (4 * n), n)), n);
+            var f = NonNewtonianFriction.Compute(mud, 2, 0.1);
+            sum += NonNewtonianSensitivity.OfFriction(mud, 2, 0.1, f).Output.FlowBehaviorIndex;
+        }
         return sum;
     }
 }

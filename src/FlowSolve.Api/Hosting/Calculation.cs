@@ -177,7 +177,10 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
         string pattern = "/v1/" + info.Name;
         if (QueryExample is { } query)
         {
-            var get = routes.MapGet(pattern, ([AsParameters] TQuery q, HttpContext http) => AnswerQuery(q, http))
+            // The host's answer cache, looked up once per mapping rather than per request (a catalogue's calculations may
+            // be mapped by several hosts in one process, each with its own cache).
+            var cache = routes.ServiceProvider.GetRequiredService<AnswerCache>();
+            var get = routes.MapGet(pattern, ([AsParameters] TQuery q, HttpContext http) => AnswerQuery(q, http, cache))
                 .WithName("Get" + info.OperationName)
                 .WithSummary(info.GetSummary ?? (BodyExample is null ? info.Summary : info.Summary + " (query parameters)"))
                 .WithDescription(info.GetDescription ?? info.Description)
@@ -203,7 +206,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
         foreach (int status in info.Problems) route.ProducesProblem(status);
     }
 
-    private IResult AnswerQuery(TQuery query, HttpContext http)
+    private IResult AnswerQuery(TQuery query, HttpContext http, AnswerCache answerCache)
     {
         var (format, refused) = Formats.Read(http, Info);
         if (refused is not null) return refused;
@@ -213,7 +216,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
         string? tag = null;
         if (format != Format.Html)
         {
-            cache = http.RequestServices.GetRequiredService<AnswerCache>();
+            cache = answerCache;
             tag = cache.Tag(http.Request);
             if (AnswerCache.Matches(http.Request.Headers.IfNoneMatch, tag)) return new NotModified(cache, tag);
         }

@@ -54,12 +54,17 @@ public static class OpenApiSetup
 
     public static WebApplication UseFlowSolveOpenApi(this WebApplication app)
     {
-        app.UseSwagger(o => o.RouteTemplate = "openapi/{documentName}.json");
-        app.UseSwaggerUI(o =>
+        // Only requests for the document or the reference pages meet these middlewares: the UI's matches its path with a
+        // regular expression on every request it sees, which a calculation (a spreadsheet cell) should not pay for.
+        app.UseWhen(static ctx => ctx.Request.Path.StartsWithSegments("/openapi") || ctx.Request.Path.StartsWithSegments("/docs"), branch =>
         {
-            o.RoutePrefix = "docs";
-            o.SwaggerEndpoint(DocumentPath, "FlowSolve v1");
-            o.DocumentTitle = "FlowSolve API";
+            branch.UseSwagger(o => o.RouteTemplate = "openapi/{documentName}.json");
+            branch.UseSwaggerUI(o =>
+            {
+                o.RoutePrefix = "docs";
+                o.SwaggerEndpoint(DocumentPath, "FlowSolve v1");
+                o.DocumentTitle = "FlowSolve API";
+            });
         });
         return app;
     }

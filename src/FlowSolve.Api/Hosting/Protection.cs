@@ -84,7 +84,9 @@ public static class Protection
         app.UseCors(CorsPolicy);
         app.Use(CheckBodySize);
         app.Use(CheckApiKey);
-        app.UseRateLimiter();
+        // Without a configured limit no request is limited, so none passes through the limiter's partition lookup (a
+        // lock shared by every request).
+        if (app.Services.GetRequiredService<IOptions<FlowSolveOptions>>().Value.RateLimit.PermitsPerMinute > 0) app.UseRateLimiter();
         app.UseRequestTimeouts();
         return app;
     }

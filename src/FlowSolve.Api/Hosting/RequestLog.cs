@@ -55,7 +55,7 @@ public sealed class RequestLog(RequestDelegate next)
             new LogEventProperty("Route", new ScalarValue(route)),
         };
         var activity = Activity.Current;
-        _logger.Write(new LogEvent(DateTimeOffset.Now, level, exception, Template, properties,
+        _logger.Write(new LogEvent(DateTimeOffset.UtcNow, level, exception, Template, properties,
             activity?.TraceId ?? default, activity?.SpanId ?? default));
     }
 }

@@ -113,7 +113,11 @@ public sealed record NonNewtonianFrictionResponse(
     double? PlugRatio, double WallShearStress, double Velocity, double Diameter, double Density,
     int Iterations, bool Converged, double Residual, string Status, string SolveVariable, string Units,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary;
+    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary, ISensitive
+{
+    /// <summary>Present only with sensitivities=true: frictionFactor and reynolds, then each numeric input field given (velocity, diameter, density, and consistencyIndex and flowBehaviorIndex or yieldStress and plasticViscosity), then {derivative, elasticity}; see the sensitivities query parameter. By implicit differentiation of the solved relations. Derivatives in SI units whatever the request's units (per m/s, per m3/s, per m, per kg/m3, per Pa s^n, per Pa, per Pa s); elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+}
 
 /// <summary>Head loss of a non-Newtonian fluid in a pipe at a flow.</summary>
 /// <param name="HeadLoss">Friction + minor head loss hf + hm, m (ft with units=us).</param>
@@ -154,7 +158,11 @@ public sealed record NonNewtonianHeadLossResponse(
     double Diameter, double Length, double MinorLossCoefficient, double Density,
     int Iterations, bool Converged, double Residual, string Status, string SolveVariable, string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary;
+    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary, ISensitive
+{
+    /// <summary>Present only with sensitivities=true: headLoss, frictionFactor, reynolds and velocity, then each numeric input field given (flow (per m3/s whatever flowUnit), diameter, length, minorLossCoefficient when given, density, and the model's rheology fields), then {derivative, elasticity}; see the sensitivities query parameter. By implicit differentiation of the solved relations. Derivatives in SI units whatever the request's units (per m/s, per m3/s, per m, per kg/m3, per Pa s^n, per Pa, per Pa s); elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+}
 
 /// <summary>The flow of a non-Newtonian fluid that meets a head loss.</summary>
 /// <param name="Flow">Flow, in flowUnit.</param>
@@ -199,8 +207,11 @@ public sealed record NonNewtonianFlowResponse(
     int Iterations, int FrictionIterations, bool Converged, double Residual, string Status, string SolverStatus, string SolveVariable,
     string Units, string FlowUnit,
     IReadOnlyList<ValidityDto> Validity, IReadOnlyList<WarningDto> Warnings, IReadOnlyList<AssumptionDto> Assumptions,
-    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary
+    IReadOnlyList<TraceStepDto>? Trace) : ISolveSummary, ISensitive
 {
+    /// <summary>Present only with sensitivities=true: flow (m3/s whatever flowUnit), velocity, frictionFactor and reynolds, then each numeric input field given (headLoss, diameter, length, minorLossCoefficient when given, density, and the model's rheology fields), then {derivative, elasticity}; see the sensitivities query parameter. By implicit differentiation of the solved relations. Derivatives in SI units whatever the request's units (per m/s, per m3/s, per m, per kg/m3, per Pa s^n, per Pa, per Pa s); elasticity absent when the output or the input is zero.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities { get; init; }
+
     /// <summary>Present only when a second flow meets the same head (see the second-solution warning), in flowUnit: for a power-law fluid of small n, Dodge-Metzner at the critical Reynolds number lies below the laminar law, so heads within that drop are met by a laminar and a turbulent flow. flow is then the turbulent one and this the laminar one, the lower flow and the cautious estimate.</summary>
     public double? AlternateFlow { get; init; }
 }

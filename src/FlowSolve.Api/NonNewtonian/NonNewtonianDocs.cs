@@ -20,7 +20,10 @@ internal static class NonNewtonianDocs
         "factor (4 x Fanning), as everywhere in FlowSolve; fanningFrictionFactor is beside it. The wall is taken as smooth. A field " +
         "of the other model is a 400 naming it. units=us switches to ft, ft/s, lb/ft3, lbf/ft2 (stresses and K), lbf s/ft2 and psi, " +
         "with exact factors (NIST SP 811). Rheological constants must come from measurements of the actual fluid over the shear " +
-        "rates of the pipe; published correlations for these fluids scatter by 10 to 30 percent (common practice).\n\n" + OpenApiSetup.Cautions;
+        "rates of the pipe; published correlations for these fluids scatter by 10 to 30 percent (common practice). sensitivities=true " +
+        "adds d(output)/d(input) in SI for each input given, by implicit differentiation of Dodge-Metzner, Buckingham-Reiner and " +
+        "(for the flow) of h(Q) = headLoss, never by differences; the power law's jump at Re_c has no derivative, so each side is " +
+        "differentiated by its own law.\n\n" + OpenApiSetup.Cautions;
 
     public const string Friction =
         "Fanning and Darcy friction factors of a power-law fluid or a Bingham plastic at a mean velocity in a smooth pipe, with the " +

@@ -14,7 +14,7 @@ public sealed class NonNewtonianFlowCalculation : Calculation<NonNewtonianFlowRe
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
     public override CalculationInfo Info { get; } = new("non-newtonian/flow", "Non-Newtonian fluids", "NonNewtonianFlow",
-        "flow", "Flow of a power-law fluid or a Bingham plastic from a head loss", NonNewtonianDocs.Flow) { Options = [] };
+        "flow", "Flow of a power-law fluid or a Bingham plastic from a head loss", NonNewtonianDocs.Flow);
 
     public override IReadOnlyList<(string Name, string Value)> QueryExample { get; } =
         [("model", "bingham-plastic"), ("density", "1450"), ("yieldStress", "25"), ("plasticViscosity", "0.06"),
@@ -68,6 +68,8 @@ public sealed class NonNewtonianFlowCalculation : Calculation<NonNewtonianFlowRe
         var warnings = NonNewtonianInput.Warnings(f).ToList();
         if (r.Status == NonNewtonianFlowStatus.NotConverged)
             warnings.Add(new("not-converged", "The flow solve did not converge (" + r.SolverStatus.Reason() + "); the flow is the best iterate and must not be used."));
+        if (context.Sensitivities && r.Status != NonNewtonianFlowStatus.Solved)
+            warnings.Add(new("sensitivities-unavailable", "Sensitivities are given only for a flow that meets the head loss; this solve did not converge."));
         if (!double.IsNaN(r.AlternateFlow))
             warnings.Add(new("second-solution", string.Create(C,
                 $"Two flows meet this head: {flowUnit.FromSi(s.Flow):G6} {flowUnit.Code} (turbulent, Dodge-Metzner) and {flowUnit.FromSi(r.AlternateFlow):G6} {flowUnit.Code} (laminar, in alternateFlow), because Dodge-Metzner at the critical Reynolds number lies below the laminar law for n = {input.Fluid.FlowBehaviorIndex:G4}. Which one the pipe runs at depends on how it is started; the laminar flow is the cautious estimate.")));
@@ -81,6 +83,21 @@ public sealed class NonNewtonianFlowCalculation : Calculation<NonNewtonianFlowRe
             u.Code, flowUnit.Code, NonNewtonianInput.Validity(f), warnings, input.Assumptions, TraceStepDto.From(trace))
         {
             AlternateFlow = double.IsNaN(r.AlternateFlow) ? null : flowUnit.FromSi(r.AlternateFlow),
+            Sensitivities = context.Sensitivities && r.Status == NonNewtonianFlowStatus.Solved
+                ? Sensitivities(input, head, length, diameter, k, request.MinorLossCoefficient is not null, r) : null,
         };
+    }
+
+    /// <summary>d(flow, velocity, frictionFactor, reynolds)/d(input) in SI by implicit differentiation of h(Q) = headLoss
+    /// (<see cref="NonNewtonianSensitivity"/>).</summary>
+    private static IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities(NonNewtonianInput input,
+        double head, double length, double diameter, double k, bool kGiven, in NonNewtonianFlowResult r)
+    {
+        var s = NonNewtonianSensitivity.OfFlow(input.Fluid, length, diameter, k, r);
+        var state = r.State;
+        return input.Sensitivities(
+            [("flow", state.Flow, s.Output), ("velocity", state.Velocity, s.Velocity),
+             ("frictionFactor", state.Friction.Darcy, s.FrictionFactor), ("reynolds", state.Friction.Reynolds, s.Reynolds)],
+            "headLoss", head, diameter, length, kGiven ? k : null);
     }
 }

@@ -11,7 +11,7 @@ namespace FlowSolve.Api.NonNewtonian;
 public sealed class NonNewtonianFrictionCalculation : Calculation<NonNewtonianFrictionRequest, NonNewtonianFrictionResponse>
 {
     public override CalculationInfo Info { get; } = new("non-newtonian/friction-factor", "Non-Newtonian fluids", "NonNewtonianFrictionFactor",
-        "frictionFactor", "Friction factor of a power-law fluid or a Bingham plastic", NonNewtonianDocs.Friction) { Options = [] };
+        "frictionFactor", "Friction factor of a power-law fluid or a Bingham plastic", NonNewtonianDocs.Friction);
 
     public override IReadOnlyList<(string Name, string Value)> QueryExample { get; } =
         [("model", "power-law"), ("density", "1200"), ("consistencyIndex", "0.5"), ("flowBehaviorIndex", "0.6"), ("velocity", "2"), ("diameter", "0.1")];
@@ -45,6 +45,18 @@ public sealed class NonNewtonianFrictionCalculation : Calculation<NonNewtonianFr
             NonNewtonianInput.RegimeCode(f.Regime), f.Relation, input.ModelCode, f.LaminarFanning, NonNewtonianInput.Present(f.TurbulentFanning),
             NonNewtonianInput.Present(f.PlugRatio), input.Stress(f.WallShearStress), u.Velocity(velocity), u.Length(diameter), u.Density(input.Fluid.Density),
             f.Iterations, f.Converged, f.Residual, f.Status.Code(), f.SolveVariable, u.Code,
-            NonNewtonianInput.Validity(f), NonNewtonianInput.Warnings(f), input.Assumptions, TraceStepDto.From(trace));
+            NonNewtonianInput.Validity(f), NonNewtonianInput.Warnings(f), input.Assumptions, TraceStepDto.From(trace))
+        {
+            Sensitivities = context.Sensitivities ? Sensitivities(input, velocity, diameter, f) : null,
+        };
+    }
+
+    /// <summary>d(frictionFactor, reynolds)/d(input) in SI by implicit differentiation (<see cref="NonNewtonianSensitivity"/>).</summary>
+    private static IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities(NonNewtonianInput input,
+        double velocity, double diameter, in NonNewtonianFrictionResult f)
+    {
+        var s = NonNewtonianSensitivity.OfFriction(input.Fluid, velocity, diameter, f);
+        return input.Sensitivities([("frictionFactor", f.Darcy, s.FrictionFactor), ("reynolds", f.Reynolds, s.Reynolds)],
+            "velocity", velocity, diameter);
     }
 }

@@ -11,7 +11,7 @@ namespace FlowSolve.Api.NonNewtonian;
 public sealed class NonNewtonianHeadLossCalculation : Calculation<NonNewtonianHeadLossRequest, NonNewtonianHeadLossResponse>
 {
     public override CalculationInfo Info { get; } = new("non-newtonian/head-loss", "Non-Newtonian fluids", "NonNewtonianHeadLoss",
-        "headLoss", "Head loss of a power-law fluid or a Bingham plastic in a pipe", NonNewtonianDocs.HeadLoss) { Options = [] };
+        "headLoss", "Head loss of a power-law fluid or a Bingham plastic in a pipe", NonNewtonianDocs.HeadLoss);
 
     public override IReadOnlyList<(string Name, string Value)> QueryExample { get; } =
         [("model", "bingham-plastic"), ("density", "1450"), ("yieldStress", "25"), ("plasticViscosity", "0.06"),
@@ -52,6 +52,21 @@ public sealed class NonNewtonianHeadLossCalculation : Calculation<NonNewtonianHe
             NonNewtonianInput.RegimeCode(f.Regime), f.Relation, input.ModelCode, NonNewtonianInput.Present(f.PlugRatio), input.Stress(f.WallShearStress),
             u.Length(diameter), u.Length(length), k, u.Density(input.Fluid.Density),
             f.Iterations, f.Converged, f.Residual, f.Status.Code(), f.SolveVariable, u.Code, flowUnit.Code,
-            NonNewtonianInput.Validity(f), NonNewtonianInput.Warnings(f), input.Assumptions, TraceStepDto.From(trace));
+            NonNewtonianInput.Validity(f), NonNewtonianInput.Warnings(f), input.Assumptions, TraceStepDto.From(trace))
+        {
+            Sensitivities = context.Sensitivities ? Sensitivities(input, length, diameter, k, request.MinorLossCoefficient is not null, h) : null,
+        };
+    }
+
+    /// <summary>d(headLoss, frictionFactor, reynolds, velocity)/d(input) in SI by implicit differentiation
+    /// (<see cref="NonNewtonianSensitivity"/>).</summary>
+    private static IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities(NonNewtonianInput input,
+        double length, double diameter, double k, bool kGiven, in NonNewtonianHeadLoss h)
+    {
+        var s = NonNewtonianSensitivity.OfHeadLoss(input.Fluid, length, diameter, k, h);
+        return input.Sensitivities(
+            [("headLoss", h.HeadLoss, s.Output), ("frictionFactor", h.Friction.Darcy, s.FrictionFactor),
+             ("reynolds", h.Friction.Reynolds, s.Reynolds), ("velocity", h.Velocity, s.Velocity)],
+            "flow", h.Flow, diameter, length, kGiven ? k : null);
     }
 }

@@ -98,6 +98,36 @@ internal sealed class NonNewtonianInput
         return errors.Required("minorLossCoefficient", value, 0, MaxMinorLoss);
     }
 
+    /// <summary>The sensitivities table: each output (name, value in SI, partials from <see cref="NonNewtonianSensitivity"/>),
+    /// then each input field given: the given quantity, diameter, length (pipe routes), minorLossCoefficient (when given),
+    /// density and the model's rheology fields, all in SI.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, SensitivityDto>>? Sensitivities(
+        ReadOnlySpan<(string Output, double Value, NonNewtonianPartials Partials)> outputs, string given, double givenValue, double diameter,
+        double length = double.NaN, double? minorLossCoefficient = null)
+    {
+        var b = new SensitivityBuilder();
+        bool power = Fluid.Model == RheologyModel.PowerLaw;
+        foreach (var (name, y, p) in outputs)
+        {
+            b.Add(name, y, given, givenValue, p.Given);
+            b.Add(name, y, "diameter", diameter, p.Diameter);
+            if (!double.IsNaN(length)) b.Add(name, y, "length", length, p.Length);
+            if (minorLossCoefficient is double k) b.Add(name, y, "minorLossCoefficient", k, p.MinorLossCoefficient);
+            b.Add(name, y, "density", Fluid.Density, p.Density);
+            if (power)
+            {
+                b.Add(name, y, "consistencyIndex", Fluid.ConsistencyIndex, p.ConsistencyIndex);
+                b.Add(name, y, "flowBehaviorIndex", Fluid.FlowBehaviorIndex, p.FlowBehaviorIndex);
+            }
+            else
+            {
+                b.Add(name, y, "yieldStress", Fluid.YieldStress, p.YieldStress);
+                b.Add(name, y, "plasticViscosity", Fluid.PlasticViscosity, p.PlasticViscosity);
+            }
+        }
+        return b.Build();
+    }
+
     public double Stress(double pa) => Units.IsUs ? pa / PoundForcePerSquareFoot : pa;
 
     public static string RegimeCode(FlowRegime regime) => regime == FlowRegime.Laminar ? "laminar" : "turbulent";

@@ -46,7 +46,8 @@ public static class BinghamFriction
         if (!(reynolds > 0) || !double.IsFinite(reynolds)) NonNewtonianFluid.Throw(nameof(reynolds), reynolds, "must be finite and positive");
         if (!(hedstrom >= 0) || !double.IsFinite(hedstrom)) NonNewtonianFluid.Throw(nameof(hedstrom), hedstrom, "must be finite and 0 or more");
         double a = hedstrom / (8 * reynolds);
-        if (a == 0) return new BuckinghamReinerResult(16 / reynolds, 0, 0, 0, SolveStatus.ClosedForm, -1);
+        // He = 0: u = 1, phi'(1) = 4/3, so d ln f_L / dHe = 1/(6 Re), the slope of (16/Re)(1 + He/(6 Re)).
+        if (a == 0) return new BuckinghamReinerResult(16 / reynolds, 0, 0, 0, SolveStatus.ClosedForm, -1) { DLnFDHedstrom = 1 / (6 * reynolds) };
         if (!double.IsFinite(a)) NonNewtonianFluid.Throw(nameof(hedstrom), hedstrom, "He/Re overflows");
 
         var equation = new Equation(a);
@@ -59,7 +60,11 @@ public static class BinghamFriction
         double dphi = DPhi(u);
         double hu = 1 + a * dphi;
         double dlnf = -1 - dphi / phi * (a * phi / hu);
-        return new BuckinghamReinerResult(16 / (reynolds * phi), a * phi, root.Iterations, root.Residual, root.Status, dlnf);
+        // d ln f_L / dHe = (phi'/phi) (phi/h'(u)) / (8 Re) = phi'(u) / (8 Re h'(u)) (da/dHe = 1/(8 Re)); finite at He = 0.
+        return new BuckinghamReinerResult(16 / (reynolds * phi), a * phi, root.Iterations, root.Residual, root.Status, dlnf)
+        {
+            DLnFDHedstrom = dphi / (8 * reynolds * hu),
+        };
     }
 
     /// <summary>The residual of Buckingham-Reiner in the published form, f - (16/Re)(1 + He/(6 Re) - He^4/(3 f^3 Re^7)),
@@ -79,6 +84,9 @@ public static class BinghamFriction
         double a = -1.47 * (1 + 0.146 * Math.Exp(-2.9e-5 * hedstrom));
         return Math.Pow(10, a) * Math.Pow(reynolds, -0.193);
     }
+
+    /// <summary>d ln f_T / dHe of <see cref="DarbyTurbulent"/> at constant Re: ln 10 x 1.47 x 0.146 x 2.9e-5 exp(-2.9e-5 He).</summary>
+    public static double DarbyTurbulentDLnFDHedstrom(double hedstrom) => Ln10 * 1.47 * 0.146 * 2.9e-5 * Math.Exp(-2.9e-5 * hedstrom);
 
     /// <summary>The exponent of the combination, m = 1.7 + 40000/Re.</summary>
     public static double CombinationExponent(double reynolds) => 1.7 + 40000 / reynolds;
@@ -106,6 +114,15 @@ public static class BinghamFriction
         return wHi * slopeHi + wLo * slopeLo + dLnFdm * dmDLnRe;
     }
 
+    /// <summary>d ln F / dHe of F = combine(f_L, f_T, m) at constant Re: the parts' slopes weighted by f_i^m / sum f^m
+    /// (m does not depend on He).</summary>
+    internal static double CombinedHedstromSlope(double fL, double fT, double m, double dLnFLDHe, double dLnFTDHe)
+    {
+        double hi = Math.Max(fL, fT), lo = Math.Min(fL, fT);
+        double rm = Math.Pow(lo / hi, m), s = 1 + rm;
+        return fL >= fT ? (dLnFLDHe + rm * dLnFTDHe) / s : (dLnFTDHe + rm * dLnFLDHe) / s;
+    }
+
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private static double Phi(double u) => u * u * (2 - 4 * u / 3 + u * u / 3);
 
@@ -131,6 +148,9 @@ public static class BinghamFriction
 public readonly record struct BuckinghamReinerResult(double Fanning, double PlugRatio, int Iterations, double Residual,
     SolveStatus Status, double DLnFDLnReynolds)
 {
+    /// <summary>d ln f_L / dHe at constant Re (per unit of He), by implicit differentiation; 1/(6 Re) at He = 0.</summary>
+    public double DLnFDHedstrom { get; init; }
+
     /// <summary>True when the solve converged (or the value is closed-form).</summary>
     public bool Converged => Status.IsConverged();
 }

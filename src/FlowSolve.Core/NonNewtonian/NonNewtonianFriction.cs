@@ -55,6 +55,11 @@ public readonly record struct NonNewtonianFrictionResult(
     int Iterations, double Residual, SolveStatus Status, string SolveVariable, double DLnFDLnVelocity, double FlowBehaviorIndex,
     NonNewtonianWarnings Warnings)
 {
+    /// <summary>Bingham plastic: d ln f_F / dHe at constant Reynolds number (per unit of He), by implicit differentiation of
+    /// Buckingham-Reiner and the combination; NaN for a power-law fluid. With <see cref="DLnFDLnVelocity"/> (which is
+    /// d ln f_F / d ln Re for a Bingham plastic) it gives every sensitivity (<see cref="NonNewtonianSensitivity"/>).</summary>
+    public double DLnFDHedstrom { get; init; } = double.NaN;
+
     /// <summary>The Darcy friction factor, 4 f_F, as everywhere in FlowSolve.</summary>
     public double Darcy => 4 * Fanning;
 
@@ -238,7 +243,11 @@ public static class NonNewtonianFriction
         if (!double.IsFinite(tau) || laminar.PlugRatio == 0) tau = f * rhoV2;
         var result = new NonNewtonianFrictionResult(RheologyModel.BinghamPlastic, f, re, he, double.NaN,
             laminar.Fanning >= fT ? FlowRegime.Laminar : FlowRegime.Turbulent, DarbyMunBoger, laminar.Fanning, fT, laminar.PlugRatio, tau,
-            laminar.Iterations, laminar.Residual, laminar.Status, laminar.Iterations == 0 ? "none" : "u = 1 - tau0/tau_w", slope, double.NaN, warnings);
+            laminar.Iterations, laminar.Residual, laminar.Status, laminar.Iterations == 0 ? "none" : "u = 1 - tau0/tau_w", slope, double.NaN, warnings)
+        {
+            DLnFDHedstrom = BinghamFriction.CombinedHedstromSlope(laminar.Fanning, fT, m, laminar.DLnFDHedstrom,
+                BinghamFriction.DarbyTurbulentDLnFDHedstrom(he)),
+        };
         return OutsideRange(result);
     }
 

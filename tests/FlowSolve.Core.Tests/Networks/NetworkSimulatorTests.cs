@@ -667,6 +667,43 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
     }
 
     [Fact]
+    public void Run_TokenCancelledDuringTheRun_StopsAtTheLastStepBoundary()
+    {
+        // A century of the drain case: a pattern boundary every hour, so at least one step (three network solves) an
+        // hour, some 2.6 million solves (seconds on any machine); cancelled after 50 ms.
+        var model = DrainModel(100 * 365 * 86_400.0) with { ReportStep = 86_400 };
+        using var source = CancellationTokenSource.CreateLinkedTokenSource(TestContext.Current.CancellationToken);
+        source.CancelAfter(50);
+        var result = NetworkSimulator.Run(model, new SimulationOptions(MaxSteps: 10_000_000), source.Token);
+        output.WriteLine($"{result.Status} at {result.ReachedTime} s after {result.Steps.Count} steps");
+        Assert.Equal(SimulationStatus.Cancelled, result.Status);
+        Assert.InRange(result.ReachedTime, 0, model.Duration - 1);
+        Assert.Equal(result.Steps.Count == 0 ? 0 : result.Steps[^1].End, result.ReachedTime);
+        Assert.All(result.Reports, r => Assert.True(r.Time <= result.ReachedTime));
+        Assert.All(result.Events, e => Assert.True(e.Time <= result.ReachedTime));
+    }
+
+    [Fact]
+    public void Run_NetworkLeftWithoutFixedHead_StopsWhereItHappens()
+    {
+        // The booster over a day: the low tank has no inflow and empties; later the high tank, now the only fixed head,
+        // empties too, and demand-driven the estate's demand has no answer: the run stops there, never "completed".
+        var model = BoosterModel(86_400,
+        [
+            new NetworkControl("lift", new ControlAction(false, null), new ControlCondition("high", null, 6, null)),
+            new NetworkControl("lift", new ControlAction(true, null), new ControlCondition("high", 2, null, null)),
+        ]);
+        var result = Simulate(model);
+        Assert.Equal(SimulationStatus.NetworkNotConverged, result.Status);
+        Assert.False(result.Completed);
+        var last = result.Events[^1];
+        Assert.Equal(("tank-empty", "high"), (last.Kind, last.ElementId));
+        Assert.Equal(last.Time, result.ReachedTime);
+        Assert.Contains(result.Events, e => e is { Kind: "tank-empty", ElementId: "low" } && e.Time < last.Time);
+        Assert.All(result.Reports, r => Assert.True(r.Time <= result.ReachedTime));
+    }
+
+    [Fact]
     public void Run_StepCap_StopsWithTooManySteps()
     {
         var result = Simulate(FillModel(), new SimulationOptions(MaxSteps: 3));

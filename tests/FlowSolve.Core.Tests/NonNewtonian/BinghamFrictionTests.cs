@@ -1,5 +1,6 @@
 using FlowSolve.Core.NonNewtonian;
 using FlowSolve.Core.Numerics;
+using MathNet.Numerics;
 using MathNet.Numerics.RootFinding;
 
 namespace FlowSolve.Core.Tests.NonNewtonian;
@@ -121,5 +122,46 @@ public sealed class BinghamFrictionTests
         var r = NonNewtonianFriction.Compute(fluid, 2.0, d);
         CentralDifference.Check("dlnf/dlnV", r.DLnFDLnVelocity, lnV => Math.Log(NonNewtonianFriction.Compute(fluid, Math.Exp(lnV), d).Fanning),
             Math.Log(2.0), step: 1e-3);
+    }
+    /// <summary>
+    /// The flow of a Bingham plastic at a given wall stress, from the constitutive law alone: shear rate
+    /// gamma(s) = max(0, (tau_w s/R - tau0)/mu_p) at radius s (the stress grows linearly from the axis), velocity
+    /// u(r) = integral of gamma from r to R (no slip), flow Q = integral of 2 pi r u(r) from 0 to R, both by MathNet's
+    /// Gauss-Legendre quadrature split at the plug radius R tau0/tau_w (the integrands are polynomials on each piece, so
+    /// the quadrature is exact to rounding). An independent route to the laminar law: no friction factor, no
+    /// Buckingham-Reiner equation.
+    /// </summary>
+    private static double ProfileFlow(double tauW, double tau0, double mu, double radius)
+    {
+        double rp = radius * tau0 / tauW;
+        double Gamma(double s) => Math.Max(0, (tauW * s / radius - tau0) / mu);
+        double U(double r) => r >= rp
+            ? Integrate.GaussLegendre(Gamma, r, radius, 16)
+            : Integrate.GaussLegendre(Gamma, rp, radius, 16); // the plug moves as one at u(rp)
+        double Ring(double r) => 2 * Math.PI * r * U(r);
+        return Integrate.GaussLegendre(Ring, 0, rp, 32) + Integrate.GaussLegendre(Ring, rp, radius, 32);
+    }
+
+    [Theory]
+    [InlineData(0.0)]
+    [InlineData(0.1)]
+    [InlineData(0.5)]
+    [InlineData(0.9)]
+    [InlineData(0.99)]
+    [InlineData(0.999)]
+    public void BuckinghamReiner_EqualsTheIntegratedPlugFlowProfile(double plugRatio)
+    {
+        // A paste of 1450 kg/m3, plastic viscosity 0.06 Pa s, in a 150 mm pipe at a wall stress of 40 Pa (the yield stress
+        // set by the plug ratio). The mean velocity from the profile gives Re and He; Buckingham-Reiner must give back
+        // f = tau_w / (rho V^2/2) and the plug ratio.
+        double rho = 1450, mu = 0.06, d = 0.15, tauW = 40, tau0 = plugRatio * tauW;
+        double q = ProfileFlow(tauW, tau0, mu, d / 2);
+        double v = q / (Math.PI * d * d / 4);
+        double re = BinghamFriction.Reynolds(rho, mu, v, d), he = BinghamFriction.Hedstrom(rho, tau0, mu, d);
+        var r = BinghamFriction.BuckinghamReiner(re, he);
+        double expected = tauW / (rho * v * v / 2);
+        Assert.True(r.Converged);
+        Assert.Equal(expected, r.Fanning, 1e-12 * expected);
+        Assert.Equal(plugRatio, r.PlugRatio, 1e-12);
     }
 }

@@ -1,3 +1,4 @@
+using MathNet.Numerics;
 using FlowSolve.Core.Friction;
 using FlowSolve.Core.NonNewtonian;
 using FlowSolve.Core.Numerics;
@@ -132,5 +133,27 @@ public sealed class PowerLawFrictionTests
         Assert.Throws<ArgumentOutOfRangeException>(() => PowerLawFriction.DodgeMetzner(1e4, 0));
         Assert.Throws<ArgumentOutOfRangeException>(() => PowerLawFriction.DodgeMetzner(1e4, 2.5));
         Assert.Throws<ArgumentOutOfRangeException>(() => PowerLawFriction.DodgeMetzner(double.NaN, 1));
+    }
+    [Theory]
+    [InlineData(0.3)]
+    [InlineData(0.6)]
+    [InlineData(1.0)]
+    [InlineData(1.5)]
+    public void LaminarLaw_EqualsTheIntegratedVelocityProfile(double n)
+    {
+        // From the constitutive law alone: at a wall stress tau_w the stress at radius s is tau_w s/R, the shear rate
+        // (tau_w s/(R K))^(1/n), the velocity u(r) its integral from r to R, the flow the integral of 2 pi r u(r); both by
+        // MathNet's double-exponential quadrature. The laminar law (f = 16/Re_MR, as the wall stress
+        // K ((3n+1)/(4n) 8V/D)^n) must give back tau_w at the mean velocity of that profile.
+        double k = 0.5, d = 0.1, radius = d / 2, tauW = 30;
+        double Gamma(double s) => Math.Pow(tauW * s / (radius * k), 1 / n);
+        double U(double r) => Integrate.DoubleExponential(Gamma, r, radius, 1e-15);
+        double q = Integrate.DoubleExponential(r => 2 * Math.PI * r * U(r), 0, radius, 1e-15);
+        double v = q / (Math.PI * radius * radius);
+        double tau = PowerLawFriction.LaminarWallShearStress(k, n, v, d);
+        Assert.Equal(tauW, tau, 1e-10 * tauW);
+        // The same through the Reynolds number: 16/Re_MR = tau_w/(rho V^2/2).
+        double rho = 1200, re = PowerLawFriction.Reynolds(rho, k, n, v, d);
+        Assert.Equal(tauW / (rho * v * v / 2), 16 / re, 1e-10 * 16 / re);
     }
 }

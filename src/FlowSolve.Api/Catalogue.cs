@@ -39,6 +39,7 @@ public static class Catalogue
         new NetworkSolveCalculation(),
         new GasPipeFlowCalculation(),
         new FireFlowCalculation(),
+        new NetworkSimulationCalculation(),
         new NonNewtonianFrictionCalculation(),
         new NonNewtonianHeadLossCalculation(),
         new NonNewtonianFlowCalculation(),
@@ -101,6 +102,8 @@ public static class Catalogue
 [JsonSerializable(typeof(GasPipeFlowResponse))]
 [JsonSerializable(typeof(FireFlowRequest))]
 [JsonSerializable(typeof(FireFlowResponse))]
+[JsonSerializable(typeof(NetworkSimulationRequest))]
+[JsonSerializable(typeof(NetworkSimulationResponse))]
 [JsonSerializable(typeof(NonNewtonianFrictionRequest))]
 [JsonSerializable(typeof(NonNewtonianFrictionResponse))]
 [JsonSerializable(typeof(NonNewtonianHeadLossRequest))]

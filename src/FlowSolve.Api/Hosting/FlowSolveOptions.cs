@@ -64,6 +64,10 @@ public sealed class FlowSolveOptions
         /// <summary>Most junctions asked for in one fire-flow request (default 500); more answers 413. Each costs a few
         /// network solves (see docs/performance.md); the request's time budget still applies.</summary>
         public int NetworkMaxFireFlowJunctions { get; set; } = 500;
+
+        /// <summary>Longest extended-period run in seconds (default 7 days, 604 800 s); a longer duration answers 413
+        /// before anything is solved. The report times times the elements listed are bounded by NetworkMaxElementCases.</summary>
+        public double NetworkMaxSimulationDuration { get; set; } = 7 * 86_400;
     }
 
     public sealed class RateLimitSettings

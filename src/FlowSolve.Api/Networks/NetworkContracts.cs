@@ -16,7 +16,9 @@ public sealed record NetworkJunctionInput(
     [property: Description("Easting of the junction for the schematic on the calculation sheet, in any consistent length unit; optional (give x and y on every node, or on none).")]
     double? X = null,
     [property: Description("Northing of the junction for the schematic, in the same unit as x; optional.")]
-    double? Y = null);
+    double? Y = null,
+    [property: Description("Only in /v1/networks/simulate: the id of a demand pattern (patterns[]) whose multipliers scale this junction's demand over time; the demand stays as given when omitted. /v1/networks/solve and /v1/networks/fire-flow refuse it (400): a steady solve takes demandMultipliers instead.")]
+    string? Pattern = null);
 
 /// <summary>A reservoir (or tank held at a level): a node of fixed total head.</summary>
 public sealed record NetworkReservoirInput(

@@ -69,7 +69,16 @@ internal static class NetworkInput
     /// <summary>An id as quoted in a message: cut to the longest accepted length.</summary>
     public static string Short(string? id) => id is null ? "" : id.Length <= MaximumIdLength ? id : id[..MaximumIdLength] + "...";
 
-    public static NetworkProblem? Read(NetworkSolveRequest request, Errors errors)
+    /// <summary>Reads and validates a network document.</summary>
+    /// <param name="request">The document.</param>
+    /// <param name="errors">The collector.</param>
+    /// <param name="storage">For /v1/networks/simulate: reads the storage tanks (nodes of the document besides the
+    /// junctions and reservoirs), given the request's units and the node ids read so far (to which it adds the tanks'),
+    /// and gives each as a reservoir at its initial head, so that the links may end at tanks and the Core's backstop
+    /// check sees them; junctions may then name a pattern, read by the caller. Null for the steady routes, which
+    /// refuse a junction's pattern.</param>
+    public static NetworkProblem? Read(NetworkSolveRequest request, Errors errors,
+        Func<PumpUnits, Dictionary<string, string>, IReadOnlyList<Reservoir>>? storage = null)
     {
         var fields = errors.Fields;
         var assumptions = new List<AssumptionDto>();
@@ -149,6 +158,8 @@ internal static class NetworkInput
             if (j is null) { fields.Add(at, "must be an object {id, elevation, demand}"); continue; }
             string label = $"junction '{Short(j.Id)}'";
             bool idOk = Id(errors, at, label, j.Id, "junction", nodeAt);
+            if (storage is null && j.Pattern is not null)
+                errors.Add(at + ".pattern", label, j.Id, "a demand pattern belongs to /v1/networks/simulate (demands over time); a steady solve scales demands by demandMultipliers instead");
             var (z, q) = errors.Scoped(label, j.Id, e =>
             {
                 double z = u.HeadToSi(e.Required(at + ".elevation", j.Elevation, double.NegativeInfinity, double.PositiveInfinity, unit: hu));
@@ -161,7 +172,6 @@ internal static class NetworkInput
             if (idOk) junctions.Add(new Junction(j.Id!, z, q));
         }
         var rs = request.Reservoirs ?? [];
-        if (rs.Count == 0) fields.Add("reservoirs", "at least one reservoir (a node of fixed head) is needed: without one the heads are undefined");
         for (int i = 0; i < rs.Count; i++)
         {
             string at = $"reservoirs[{i}]";
@@ -178,6 +188,10 @@ internal static class NetworkInput
             });
             if (idOk) reservoirs.Add(new Reservoir(r.Id!, h));
         }
+        var tanks = storage?.Invoke(u, nodeAt) ?? [];
+        if (rs.Count == 0 && storage is null) fields.Add("reservoirs", "at least one reservoir (a node of fixed head) is needed: without one the heads are undefined");
+        else if (rs.Count == 0 && tanks.Count == 0)
+            fields.Add("reservoirs", "at least one reservoir or tank is needed: without a node of known head the heads are undefined");
 
         // Links.
         var linkAt = new Dictionary<string, string>(StringComparer.Ordinal);
@@ -274,7 +288,9 @@ internal static class NetworkInput
         var model = new NetworkModel(junctions, reservoirs, pipes, pumps, nu) { DemandModel = law, Valves = valves };
         // The Core's own checks, as a backstop: they find nothing the reading above let through, but a rule added
         // there must still answer 400 naming the element rather than fail the solve.
-        foreach (var issue in model.Validate())
+        // Tanks stand in as reservoirs at their initial heads, so that links ending at them are checked too.
+        var check = tanks.Count == 0 ? model : model with { Reservoirs = [.. reservoirs, .. tanks] };
+        foreach (var issue in check.Validate())
             errors.Add(PathOf(request, issue.ElementId), issue.ElementId.Length == 0 ? "network" : $"element '{Short(issue.ElementId)}'", issue.ElementId, issue.Message);
         if (errors.Any) return null;
 

@@ -314,7 +314,7 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
     /// <summary>Each correlation's range beside the extremes over every pipe and case: Colebrook-White's published range
     /// for the turbulent Darcy-Weisbach pipes, the usual range of Hazen-Williams (common practice) for the others. The
     /// extremes are gathered case by case (<see cref="Add"/>), so no case's result need be kept.</summary>
-    private sealed class ValidityExtremes
+    internal sealed class ValidityExtremes
     {
         private double _reMin = double.PositiveInfinity, _reMax, _vMax = -1;
 

@@ -19,6 +19,7 @@ public sealed class SheetBrowserTests
     {
         // POST: the browser's navigation is turned into a POST of the sample network (see the route below).
         { "networks-solve", "/v1/networks/solve?format=html", ["plot-schematic", "plot-convergence"] },
+        { "networks-simulate", "/v1/networks/simulate?format=html", ["plot-tank-levels", "plot-pump-states"] },
         { "friction-factor", "/v1/friction-factor?reynolds=75000&relativeRoughness=0.005&format=html", ["plot-moody", "plot-convergence"] },
         { "pipes-head-loss", "/v1/pipes/head-loss?flow=0.2&diameter=0.2&length=500&material=cast-iron&fittings=elbow-90-flanged-regular:3&format=html", ["plot-head-loss", "plot-convergence"] },
         { "pipes-flow", "/v1/pipes/flow?headLoss=20&diameter=0.15&length=800&roughness=0.000045&elevationChange=5&temperature=10&format=html", ["plot-head-loss", "plot-convergence"] },
@@ -60,8 +61,11 @@ public sealed class SheetBrowserTests
 
             if (url.StartsWith("/v1/networks/", StringComparison.Ordinal))
             {
-                // A network is POST only: the navigation itself carries the Vandrel sample as its body.
-                string body = File.ReadAllText(Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "vandrel-network.json"));
+                // A network is POST only: the navigation itself carries the Vandrel sample as its body (for a run, the
+                // operation's Vandrel Vale example).
+                string body = url.StartsWith("/v1/networks/simulate", StringComparison.Ordinal)
+                    ? System.Text.Json.JsonSerializer.Serialize(FlowSolve.Api.Networks.NetworkSimulationDocs.Example, FlowSolve.Api.Hosting.JsonSetup.Options)
+                    : File.ReadAllText(Path.Combine(Samples.LiveService.RepositoryRoot, "samples", "scenario", "vandrel-network.json"));
                 await page.RouteAsync("**/v1/networks/**", route => route.ContinueAsync(new RouteContinueOptions
                 {
                     Method = "POST",

@@ -179,7 +179,6 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
         var chosen = network.Chosen;
         bool Listed(string id) => all || (!none && chosen!.Contains(id));
         double nu = nm.KinematicViscosity;
-        var friction = NetworkSolveCalculation.SolverOptions.Friction;
 
         var validity = new NetworkSolveCalculation.ValidityExtremes();
         var reports = new List<NetworkSimulationReportDto>(result.Reports.Count);
@@ -201,72 +200,16 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
             }
             validity.Add(nm, r);
 
-            var pipes = new List<NetworkPipeResultDto>();
-            NetworkExtremeDto? fastest = null;
-            int transitional = 0, closed = 0;
-            double vMax = -1;
-            for (int i = 0; i < r.Pipes.Count; i++)
-            {
-                var p = r.Pipes[i];
-                if (p.Status != LinkStatus.Open) closed++;
-                double speed = Math.Abs(p.Velocity);
-                if (speed > vMax) { vMax = speed; fastest = new NetworkExtremeDto(p.Id, u.Head(speed)); }
-                double re = i < nm.Pipes.Count ? speed * nm.Pipes[i].Diameter / nu : 0;
-                if (i < nm.Pipes.Count && nm.Pipes[i].HazenWilliamsC is null && p.Status == LinkStatus.Open && p.Flow != 0
-                    && re >= friction.LaminarLimit && re < friction.TurbulentLimit) transitional++;
-                if (Listed(p.Id)) pipes.Add(new(p.Id, u.Flow(p.Flow), u.Head(p.Velocity), u.Head(p.HeadLoss), p.FrictionFactor, re, p.Status.Code()));
-            }
-            var junctions = new List<NetworkJunctionResultDto>();
-            NetworkExtremeDto? lowest = null, highest = null;
-            double pMin = double.PositiveInfinity, pMax = double.NegativeInfinity, demand = 0, delivered = 0;
-            foreach (var j in r.Junctions)
-            {
-                if (tankIds.Contains(j.Id)) continue;
-                demand += j.Demand;
-                delivered += j.DeliveredDemand;
-                if (j.PressureHead < pMin) { pMin = j.PressureHead; lowest = new NetworkExtremeDto(j.Id, u.Head(j.PressureHead)); }
-                if (j.PressureHead > pMax) { pMax = j.PressureHead; highest = new NetworkExtremeDto(j.Id, u.Head(j.PressureHead)); }
-                if (Listed(j.Id)) junctions.Add(new(j.Id, u.Head(j.Head), u.Head(j.PressureHead), u.Flow(j.Demand), u.Flow(j.DeliveredDemand)));
-            }
-            var pumps = new List<NetworkPumpResultDto>();
-            foreach (var p in r.Pumps)
-            {
-                if (p.Status != LinkStatus.Open) closed++;
-                if (Listed(p.Id)) pumps.Add(new(p.Id, u.Flow(p.Flow), u.Head(p.Head), p.Status.Code()));
-            }
-            var reservoirs = new List<NetworkReservoirResultDto>();
-            double supply = 0;
-            foreach (var x in r.Reservoirs)
-            {
-                if (tankIds.Contains(x.Id)) continue;
-                supply += x.Outflow;
-                if (Listed(x.Id)) reservoirs.Add(new(x.Id, u.Head(x.Head), u.Flow(x.Outflow)));
-            }
-            List<NetworkValveResultDto>? valves = null;
-            NetworkValveStatesDto? valveStates = null;
-            if (nm.Valves.Count > 0)
-            {
-                valves = [];
-                int active = 0, open = 0, shut = 0;
-                foreach (var v in r.Valves)
-                {
-                    if (v.State == ValveState.Active) active++;
-                    else if (v.State == ValveState.Open) open++;
-                    else shut++;
-                    if (Listed(v.Id)) valves.Add(new(v.Id, u.Flow(v.Flow), u.Head(v.HeadLoss), v.State.Code()));
-                }
-                valveStates = new NetworkValveStatesDto(active, open, shut);
-            }
+            var t = NetworkSolveCalculation.Tables(nm, r, u, Listed, all, tankIds);
             var tanks = new List<NetworkTankResultDto>(report.Tanks.Count);
             double tankInflow = 0;
-            foreach (var t in report.Tanks)
+            foreach (var tank in report.Tanks)
             {
-                tankInflow += t.Inflow;
-                tanks.Add(new(t.Id, u.Head(t.Level), u.Head(t.Head), u.Flow(t.Inflow), t.AtLimit));
+                tankInflow += tank.Inflow;
+                tanks.Add(new(tank.Id, u.Head(tank.Level), u.Head(tank.Head), u.Flow(tank.Inflow), tank.AtLimit));
             }
-            reports.Add(new NetworkSimulationReportDto(report.Time, r.Status.Code(), r.Converged, r.Iterations, pipes, junctions, pumps,
-                reservoirs, tanks, u.Flow(demand), u.Flow(supply), u.Flow(tankInflow),
-                new NetworkCaseSummaryDto(lowest, highest, fastest, transitional, closed, valveStates), valves));
+            reports.Add(new NetworkSimulationReportDto(report.Time, r.Status.Code(), r.Converged, r.Iterations, t.Pipes, t.Junctions, t.Pumps,
+                t.Reservoirs, tanks, u.Flow(t.Demand), u.Flow(t.Supply), u.Flow(tankInflow), t.Summary, t.Valves));
 
             foreach (var w in r.Warnings)
             {

@@ -218,11 +218,38 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
     {
         var u = input.Units;
         var model = input.Model;
-        double nu = model.KinematicViscosity;
         bool all = input.Detail == NetworkInput.FullDetail, none = input.Detail == NetworkInput.SummaryDetail;
         var chosen = input.Chosen;
         bool Listed(string id) => all || (!none && chosen!.Contains(id));
 
+        var t = Tables(model, r, u, Listed, all);
+        var record = r.Record.Select(t => new NetworkIterationDto(t.Iteration, t.StatusPass, u.Flow(t.MaxFlowChange),
+            u.Head(t.MaxHeadImbalance), u.Flow(t.MaxContinuityError), t.LinearIterations)).ToArray();
+        var warnings = new List<NetworkWarningDto>();
+        if (!r.Converged)
+            warnings.Add(new("not-converged", $"Load case {c + 1} (demand multiplier {r.DemandMultiplier.ToString("G6", CultureInfo.InvariantCulture)}) did not converge: {r.Status.Reason()}. The last iterate is reported; do not use it for design.", null));
+        // A warning about the whole case (demand-shortfall) has no element.
+        warnings.AddRange(r.Warnings.Select(w => { var d = w.Describe(SolverOptions); return new NetworkWarningDto(d.Code, d.Message, w.ElementId.Length == 0 ? null : w.ElementId); }));
+        return new NetworkCaseDto(r.DemandMultiplier, r.Status.Code(), r.Status.Reason(), r.Converged, r.Iterations, r.StatusPasses,
+            t.Pipes, t.Junctions, t.Pumps, t.Reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply),
+            u.Flow(r.TotalDeliveredDemand), u.Flow(r.DemandShortfall), record,
+            CapPerCode(warnings, warningsPerCode, c + 1), t.Summary, t.Valves);
+    }
+
+    /// <summary>The tables of one network solve as an answer carries them: the rows of the elements listed, the extremes
+    /// and counts over every element, and the totals of demand and supply.</summary>
+    /// <param name="model">The network solved.</param>
+    /// <param name="r">Its result.</param>
+    /// <param name="u">The units of the answer.</param>
+    /// <param name="listed">Whether an element's row is written.</param>
+    /// <param name="all">Every row is written (the lists are sized for them).</param>
+    /// <param name="skip">Nodes that are not junctions or reservoirs of the answer (the tanks of a run, which the solve
+    /// holds as either): left out of the rows, the extremes and the totals; null for none.</param>
+    internal static NetworkTables Tables(NetworkModel model, NetworkResult r, PumpUnits u, Func<string, bool> listed, bool all,
+        IReadOnlySet<string>? skip = null)
+    {
+        double nu = model.KinematicViscosity;
+        var friction = SolverOptions.Friction;
         var pipes = new List<NetworkPipeResultDto>(all ? r.Pipes.Count : 0);
         NetworkExtremeDto? fastest = null;
         int transitional = 0, closed = 0;
@@ -235,27 +262,33 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
             if (speed > vMax) { vMax = speed; fastest = new NetworkExtremeDto(p.Id, u.Head(speed)); }
             double re = speed * model.Pipes[i].Diameter / nu;
             if (model.Pipes[i].HazenWilliamsC is null && p.Status == LinkStatus.Open && p.Flow != 0
-                && re >= SolverOptions.Friction.LaminarLimit && re < SolverOptions.Friction.TurbulentLimit) transitional++;
-            if (Listed(p.Id)) pipes.Add(new(p.Id, u.Flow(p.Flow), u.Head(p.Velocity), u.Head(p.HeadLoss), p.FrictionFactor, re, p.Status.Code()));
+                && re >= friction.LaminarLimit && re < friction.TurbulentLimit) transitional++;
+            if (listed(p.Id)) pipes.Add(new(p.Id, u.Flow(p.Flow), u.Head(p.Velocity), u.Head(p.HeadLoss), p.FrictionFactor, re, p.Status.Code()));
         }
         var junctions = new List<NetworkJunctionResultDto>(all ? r.Junctions.Count : 0);
         NetworkExtremeDto? lowest = null, highest = null;
-        double pMin = double.PositiveInfinity, pMax = double.NegativeInfinity;
+        double pMin = double.PositiveInfinity, pMax = double.NegativeInfinity, demand = 0, supply = 0;
         foreach (var j in r.Junctions)
         {
+            if (skip is not null && skip.Contains(j.Id)) continue;
+            demand += j.Demand;
             if (j.PressureHead < pMin) { pMin = j.PressureHead; lowest = new NetworkExtremeDto(j.Id, u.Head(j.PressureHead)); }
             if (j.PressureHead > pMax) { pMax = j.PressureHead; highest = new NetworkExtremeDto(j.Id, u.Head(j.PressureHead)); }
-            if (Listed(j.Id)) junctions.Add(new(j.Id, u.Head(j.Head), u.Head(j.PressureHead), u.Flow(j.Demand), u.Flow(j.DeliveredDemand)));
+            if (listed(j.Id)) junctions.Add(new(j.Id, u.Head(j.Head), u.Head(j.PressureHead), u.Flow(j.Demand), u.Flow(j.DeliveredDemand)));
         }
         var pumps = new List<NetworkPumpResultDto>();
         foreach (var p in r.Pumps)
         {
             if (p.Status != LinkStatus.Open) closed++;
-            if (Listed(p.Id)) pumps.Add(new(p.Id, u.Flow(p.Flow), u.Head(p.Head), p.Status.Code()));
+            if (listed(p.Id)) pumps.Add(new(p.Id, u.Flow(p.Flow), u.Head(p.Head), p.Status.Code()));
         }
         var reservoirs = new List<NetworkReservoirResultDto>();
         foreach (var x in r.Reservoirs)
-            if (Listed(x.Id)) reservoirs.Add(new(x.Id, u.Head(x.Head), u.Flow(x.Outflow)));
+        {
+            if (skip is not null && skip.Contains(x.Id)) continue;
+            supply += x.Outflow;
+            if (listed(x.Id)) reservoirs.Add(new(x.Id, u.Head(x.Head), u.Flow(x.Outflow)));
+        }
         List<NetworkValveResultDto>? valves = null;
         NetworkValveStatesDto? valveStates = null;
         if (model.Valves.Count > 0)
@@ -267,23 +300,18 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
                 if (v.State == ValveState.Active) active++;
                 else if (v.State == ValveState.Open) open++;
                 else shut++;
-                if (Listed(v.Id)) valves.Add(new(v.Id, u.Flow(v.Flow), u.Head(v.HeadLoss), v.State.Code()));
+                if (listed(v.Id)) valves.Add(new(v.Id, u.Flow(v.Flow), u.Head(v.HeadLoss), v.State.Code()));
             }
             valveStates = new NetworkValveStatesDto(active, open, shut);
         }
-        var record = r.Record.Select(t => new NetworkIterationDto(t.Iteration, t.StatusPass, u.Flow(t.MaxFlowChange),
-            u.Head(t.MaxHeadImbalance), u.Flow(t.MaxContinuityError), t.LinearIterations)).ToArray();
-        var warnings = new List<NetworkWarningDto>();
-        if (!r.Converged)
-            warnings.Add(new("not-converged", $"Load case {c + 1} (demand multiplier {r.DemandMultiplier.ToString("G6", CultureInfo.InvariantCulture)}) did not converge: {r.Status.Reason()}. The last iterate is reported; do not use it for design.", null));
-        // A warning about the whole case (demand-shortfall) has no element.
-        warnings.AddRange(r.Warnings.Select(w => { var d = w.Describe(SolverOptions); return new NetworkWarningDto(d.Code, d.Message, w.ElementId.Length == 0 ? null : w.ElementId); }));
-        return new NetworkCaseDto(r.DemandMultiplier, r.Status.Code(), r.Status.Reason(), r.Converged, r.Iterations, r.StatusPasses,
-            pipes, junctions, pumps, reservoirs, u.Flow(r.TotalDemand), u.Flow(r.TotalSupply),
-            u.Flow(r.TotalDeliveredDemand), u.Flow(r.DemandShortfall), record,
-            CapPerCode(warnings, warningsPerCode, c + 1),
-            new NetworkCaseSummaryDto(lowest, highest, fastest, transitional, closed, valveStates), valves);
+        return new NetworkTables(pipes, junctions, pumps, reservoirs, valves,
+            new NetworkCaseSummaryDto(lowest, highest, fastest, transitional, closed, valveStates), demand, supply);
     }
+
+    /// <summary>What <see cref="Tables"/> gives: the rows, the summary, and the totals (SI) of demand and supply.</summary>
+    internal sealed record NetworkTables(List<NetworkPipeResultDto> Pipes, List<NetworkJunctionResultDto> Junctions,
+        List<NetworkPumpResultDto> Pumps, List<NetworkReservoirResultDto> Reservoirs, List<NetworkValveResultDto>? Valves,
+        NetworkCaseSummaryDto Summary, double Demand, double Supply);
 
     /// <summary>At most <paramref name="cap"/> warnings of each code, in their order; in place of the first one over the
     /// cap, one summary of that code counting the rest. The list itself when no code exceeds the cap, or cap is 0 or less.</summary>

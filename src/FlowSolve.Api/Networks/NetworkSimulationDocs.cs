@@ -201,7 +201,7 @@ public static class NetworkSimulationDocs
 
     private static string[] TankIds(NetworkSimulationResponse r) => r.Reports.Count > 0 ? r.Reports[0].Tanks.Select(t => t.Id).ToArray() : [];
 
-    /// <summary>Each tank's level at the report times (with the event instants of that tank between them), its limits dashed.</summary>
+    /// <summary>Each tank's level at the report times and at the instants of its events (<see cref="EventLevels"/>), its limits dashed.</summary>
     private static SheetFigure Levels(NetworkSimulationRequest request, NetworkSimulationResponse r, string[] ids, double scale, string xLabel, double xMax)
     {
         var limits = (request.Tanks ?? []).Where(t => t?.Id is not null).GroupBy(t => t.Id!).ToDictionary(g => g.Key, g => g.First());
@@ -217,7 +217,9 @@ public static class NetworkSimulationDocs
         for (int i = 0; i < ids.Length; i++)
         {
             string id = ids[i];
-            var points = r.Reports.Select(k => (k.Time / scale, k.Tanks.First(x => x.Id == id).Level)).ToArray();
+            var points = r.Reports.Select(k => (X: k.Time / scale, Y: k.Tanks.First(x => x.Id == id).Level))
+                .Concat(EventLevels(request, r, id, limits).Select(p => (X: p.Time / scale, Y: p.Level)))
+                .OrderBy(p => p.X).ToArray();
             plot.Curve($"tank '{id}'", points, accent: i == 0, dashed: i > 0, role: "tank-level");
             if (limits.TryGetValue(id, out var t) && ids.Length <= 3)
             {
@@ -234,8 +236,40 @@ public static class NetworkSimulationDocs
             if (limits.TryGetValue(e.Element, out var t))
                 plot.Marker($"{e.Kind} '{e.Element}'", e.Time / scale, e.Kind == "tank-full" ? t.MaximumLevel ?? 0 : t.MinimumLevel ?? 0, e.Kind, role: "event");
         return new SheetFigure("tank-levels", plot.Render(),
-            "Each tank's level at the report times (first tank solid, others dashed), its full and empty levels as lines, each tank-full or tank-empty event marked at the instant located, and the first tank's level at the end marked. Between report times the line is straight; the level itself follows the mass balance.");
+            "Each tank's level at the report times and at the instants of its events (its limit at a tank-full or tank-empty event, the threshold at a control its level fired), first tank solid, others dashed; its full and empty levels as lines, each tank-full or tank-empty event marked at the instant located, and the first tank's level at the end marked. Between those points the line is straight; the level itself follows the mass balance.");
     }
+
+    /// <summary>The level of tank <paramref name="id"/> at the instants of its events, known without the interpolant: its
+    /// limit at a tank-full or tank-empty event, the threshold at a control fired by its level (when the event's link and
+    /// change name one threshold of that tank).</summary>
+    private static IEnumerable<(double Time, double Level)> EventLevels(NetworkSimulationRequest request, NetworkSimulationResponse r,
+        string id, IReadOnlyDictionary<string, NetworkTankInput> limits)
+    {
+        var controls = request.Controls ?? [];
+        foreach (var e in r.Events.Take(10_000))
+        {
+            if (e.Kind is "tank-full" or "tank-empty")
+            {
+                if (e.Element == id && limits.TryGetValue(id, out var t) && (e.Kind == "tank-full" ? t.MaximumLevel : t.MinimumLevel ?? 0) is double limit)
+                    yield return (e.Time, limit);
+                continue;
+            }
+            if (e.Kind != "control") continue;
+            var thresholds = controls
+                .Where(c => c?.Link == e.Element && c.When?.Tank == id && Describes(c.Set, e.Change))
+                .Select(c => c!.When!.LevelBelow ?? c.When!.LevelAbove)
+                .Where(v => v is double level && double.IsFinite(level)).Distinct().ToArray();
+            if (thresholds is [double only]) yield return (e.Time, only);
+        }
+    }
+
+    /// <summary>Whether an event's change text is what <paramref name="set"/> does.</summary>
+    private static bool Describes(NetworkControlSetInput? set, string change) => set switch
+    {
+        { SpeedRatio: double s } => change == "speedRatio " + s.ToString("G6", C),
+        { Status: { } status } => string.Equals(status, change, StringComparison.OrdinalIgnoreCase),
+        _ => false,
+    };
 
     /// <summary>Each pump's flow at the report times, and its state (running 1, off 0) as a step line.</summary>
     private static SheetFigure Pumps(NetworkSimulationResponse r, string[] pumpIds, double scale, string xLabel, double xMax)

@@ -141,7 +141,9 @@ public sealed class SvgPlot
     {
         string colour = accent ? Accent : Ink;
         _body.Append(C, $"<circle data-role=\"{Enc(role)}\" data-name=\"{Enc(name)}\" data-x=\"{Num(x)}\" data-y=\"{Num(y)}\" cx=\"{Px(x)}\" cy=\"{Py(y)}\" r=\"4.5\" fill=\"{colour}\" stroke=\"#ffffff\" stroke-width=\"1\"/>");
-        _body.Append(C, $"<text x=\"{Px(x) + 8:0.##}\" y=\"{Py(y) - 8:0.##}\" font-size=\"11\" fill=\"{colour}\">{Enc(label)}</text>");
+        // Near the right edge the label stands to the left of the point, so that it stays inside the drawing.
+        bool right = Px(x) > Left + 0.85 * PlotWidth;
+        _body.Append(C, $"<text x=\"{(right ? Px(x) - 8 : Px(x) + 8):0.##}\" y=\"{Py(y) - 8:0.##}\" font-size=\"11\"{(right ? " text-anchor=\"end\"" : "")} fill=\"{colour}\">{Enc(label)}</text>");
         return this;
     }
 

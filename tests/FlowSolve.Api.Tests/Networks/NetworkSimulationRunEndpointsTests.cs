@@ -379,11 +379,19 @@ public sealed class NetworkSimulationRunEndpointsTests(ApiFixture api)
         Assert.NotNull(curve);
         var points = SheetPage.Points(curve!);
         var reports = json.Body.GetProperty("reports").EnumerateArray().ToArray();
-        Assert.Equal(reports.Length, points.Length);
-        for (int k = 0; k < reports.Length; k++)
+        // The vertices: every report's level, and the threshold at each control the tank's level fired (the example's
+        // pump stops above one level and starts below another), in time order.
+        var controls = json.Body.GetProperty("events").EnumerateArray().Where(e => e.GetProperty("kind").GetString() == "control").ToArray();
+        Assert.Equal(reports.Length + controls.Length, points.Length);
+        for (int k = 1; k < points.Length; k++) Assert.True(points[k].X >= points[k - 1].X, "the curve runs forward in time");
+        foreach (var report in reports)
+            Assert.Contains(points, p => Math.Abs(p.X - report.GetProperty("time").GetDouble() / 3600) < 1e-9 // hours
+                && Math.Abs(p.Y - TankAt(report, "kestrel-tank").GetProperty("level").GetDouble()) < 1e-9);
+        foreach (var e in controls)
         {
-            Assert.Equal(reports[k].GetProperty("time").GetDouble() / 3600, points[k].X, 1e-9); // hours
-            Assert.Equal(TankAt(reports[k], "kestrel-tank").GetProperty("level").GetDouble(), points[k].Y, 1e-9);
+            var control = body["controls"]!.AsArray().Single(c => (string?)c!["set"]!["status"] == e.GetProperty("change").GetString())!;
+            double threshold = (double)(control["when"]!["levelAbove"] ?? control["when"]!["levelBelow"])!;
+            Assert.Contains(points, p => Math.Abs(p.X - e.GetProperty("time").GetDouble() / 3600) < 1e-9 && p.Y == threshold);
         }
         // The pump's state switches at the instants its controls fired (the events' times, in hours).
         var state = page.Document.QuerySelector("svg#plot-pump-states polyline[data-role='pump-state']");

@@ -135,20 +135,7 @@ public sealed partial class NetworkSolver
         {
             var record = _drawOffRecord ??= [];
             record.Clear();
-            var status = NetworkStatus.StatusesNotSettled;
-            int pass = 0;
-            while (pass < _options.MaxStatusPasses)
-            {
-                pass++;
-                var newton = HeldNewton(pass, record, held, heldHead, tolerance);
-                if (newton != NetworkStatus.Solved) { status = newton; break; }
-                if (UpdateStatuses() == 0) { status = NetworkStatus.Solved; break; }
-            }
-            if (status == NetworkStatus.Solved)
-            {
-                for (int l = _pipes; l < _links; l++)
-                    if (_status[l] == LinkStatus.PumpOff && _speed[l] > 0) { status = NetworkStatus.PumpCannotLift; break; }
-            }
+            var status = SettleStatuses(record, (p, r) => HeldNewton(p, r, held, heldHead, tolerance), watchCycles: false, out int pass);
             _factorCurrent = record.Count > 0 && record[^1].StatusPass == pass;
             _warm = status.HasAnswer();
             return new DrawOffSolve(status, record.Count);

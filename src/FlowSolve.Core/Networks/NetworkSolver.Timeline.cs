@@ -180,23 +180,7 @@ public sealed partial class NetworkSolver
         if (_unsupplied.Length > 0) return NetworkStatus.NoPathToFixedHead;
         if (!_warm) ResetTimeline();
         if (_law is not null) PlaceOnLaw();
-        var status = NetworkStatus.StatusesNotSettled;
-        int pass = 0;
-        var seen = _valveOf.Length > 0 ? new List<byte[]> { StateSnapshot() } : null;
-        _cycle = [];
-        while (pass < _options.MaxStatusPasses)
-        {
-            pass++;
-            var newton = Newton(pass, record);
-            if (newton != NetworkStatus.Solved) { status = newton; break; }
-            if (UpdateStatuses() == 0) { status = NetworkStatus.Solved; break; }
-            if (seen is not null && SeenBefore(seen)) { status = NetworkStatus.StatusCycle; break; }
-        }
-        if (status == NetworkStatus.Solved)
-        {
-            for (int l = _pipes; l < _pumpEnd; l++)
-                if (_status[l] == LinkStatus.PumpOff && _speed[l] > 0) { status = NetworkStatus.PumpCannotLift; break; }
-        }
+        var status = SettleStatuses(record, _newton ??= Newton, watchCycles: true, out int pass);
         iterations = record.Count;
         _lastPasses = pass;
         _warm = status.HasAnswer();

@@ -373,30 +373,54 @@ public sealed partial class NetworkSolver
         if (_law is not null) PlaceOnLaw();
 
         var record = new List<NetworkIteration>();
-        var status = NetworkStatus.StatusesNotSettled;
-        int pass = 0;
-        var seen = _valveOf.Length > 0 ? new List<byte[]> { StateSnapshot() } : null;
-        _cycle = [];
-        while (pass < _options.MaxStatusPasses)
-        {
-            pass++;
-            var newton = Newton(pass, record);
-            if (newton != NetworkStatus.Solved) { status = newton; break; }
-            if (UpdateStatuses() == 0) { status = NetworkStatus.Solved; break; }
-            if (seen is not null && SeenBefore(seen)) { status = NetworkStatus.StatusCycle; break; }
-        }
-        bool converged = status == NetworkStatus.Solved;
-        if (converged)
-        {
-            for (int l = _pipes; l < _pumpEnd; l++)
-                if (_status[l] == LinkStatus.PumpOff && _speed[l] > 0) { status = NetworkStatus.PumpCannotLift; break; }
-        }
+        var status = SettleStatuses(record, _newton ??= Newton, watchCycles: true, out int pass);
+        bool converged = status.HasAnswer();
         // Report the final iterate first; a failed solve then leaves the default start for the next one.
         var result = Report(status, demandMultiplier, record.ToArray(), pass);
         _warm = converged;
         if (!converged) Reset();
         return result;
     }
+
+    /// <summary>The status passes of a solve: a Newton solve at fixed statuses (<paramref name="newton"/>), then the check
+    /// valves' and pumps' statuses updated, until none changes (<see cref="NetworkStatus.Solved"/>, or
+    /// <see cref="NetworkStatus.PumpCannotLift"/> when a running pump is left stopped), a Newton solve fails (its status),
+    /// <see cref="NetworkOptions.MaxStatusPasses"/> is reached, or, with <paramref name="watchCycles"/> and control valves,
+    /// a state of the statuses comes back (<see cref="NetworkStatus.StatusCycle"/>).</summary>
+    /// <param name="record">Receives every Newton iteration.</param>
+    /// <param name="newton">One Newton solve at fixed statuses: (pass, record) to its status.</param>
+    /// <param name="watchCycles">Detect a cycle of valve states (and start <see cref="_cycle"/> afresh).</param>
+    /// <param name="passes">The passes taken.</param>
+    private NetworkStatus SettleStatuses(List<NetworkIteration> record, Func<int, List<NetworkIteration>, NetworkStatus> newton,
+        bool watchCycles, out int passes)
+    {
+        var status = NetworkStatus.StatusesNotSettled;
+        int pass = 0;
+        List<byte[]>? seen = null;
+        if (watchCycles)
+        {
+            if (_valveOf.Length > 0) seen = [StateSnapshot()];
+            _cycle = [];
+        }
+        while (pass < _options.MaxStatusPasses)
+        {
+            pass++;
+            var solved = newton(pass, record);
+            if (solved != NetworkStatus.Solved) { status = solved; break; }
+            if (UpdateStatuses() == 0) { status = NetworkStatus.Solved; break; }
+            if (seen is not null && SeenBefore(seen)) { status = NetworkStatus.StatusCycle; break; }
+        }
+        if (status == NetworkStatus.Solved)
+        {
+            for (int l = _pipes; l < _pumpEnd; l++)
+                if (_status[l] == LinkStatus.PumpOff && _speed[l] > 0) { status = NetworkStatus.PumpCannotLift; break; }
+        }
+        passes = pass;
+        return status;
+    }
+
+    // Newton as a delegate, made once per solver rather than at every solve.
+    private Func<int, List<NetworkIteration>, NetworkStatus>? _newton;
 
     /// <summary>Newton iterations with the statuses fixed, until the tolerances are met or the cap is reached.</summary>
     /// <remarks>Under pressure-driven demand, from step <see cref="FreeSteps"/> + 1 on, each step is followed by

@@ -94,7 +94,7 @@ public sealed partial class NetworkSolver
     /// <summary>Sets pump l's speed ratio (0 switches it off), with the limits that depend on it.</summary>
     internal void SetPumpSpeed(int l, double speed)
     {
-        var curve = _curve[l];
+        var curve = _curve[l - _pipes];
         double qRef = curve.ZeroHeadFlow ?? curve.SearchLimit;
         _speed[l] = speed;
         _pumpSlopeFloor[l] = 1e-6 * Math.Abs(curve.C0) * Math.Max(speed, 1e-3) / qRef;

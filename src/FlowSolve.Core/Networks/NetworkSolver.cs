@@ -90,10 +90,11 @@ public sealed partial class NetworkSolver
     private readonly PipeGeometry[] _geometry;
     private readonly double[] _area, _hazenConstant, _minorConstant;
     private readonly bool[] _checkValve;
-    private readonly PumpCurve[] _curve;
+    private readonly PumpCurve[] _curve;      // by pump: link l is pump l - _pipes
     private readonly double[] _speed, _pumpSlopeFloor, _reverseCurvature;
     private readonly double[] _stepLimit;     // m3/s: the largest flow change of one Newton step before it is shortened
-    private readonly TransitionalFriction[] _transition; // Darcy pipes: the transition zone's joined relation
+    private readonly TransitionalFriction[] _joins; // the transition zone's joined relations, one per relative roughness
+    private readonly int[] _joinOf;                   // Darcy pipes: the index of theirs in _joins
     private readonly double[] _baseDemand, _demand, _elevation;
 
     private readonly LinkStatus[] _status;
@@ -186,14 +187,15 @@ public sealed partial class NetworkSolver
         _hazenConstant = new double[_links];
         _minorConstant = new double[_links];
         _checkValve = new bool[_links];
-        _curve = new PumpCurve[_links];
+        _curve = new PumpCurve[model.Pumps.Count];
         _speed = new double[_links];
         _pumpSlopeFloor = new double[_links];
         _reverseCurvature = new double[_links];
         _stepLimit = new double[_links];
         _status = new LinkStatus[_links];
-        _transition = new TransitionalFriction[_pipes];
-        var joins = new Dictionary<double, TransitionalFriction>();
+        _joinOf = new int[_pipes];
+        var joins = new Dictionary<double, int>();
+        var joinList = new List<TransitionalFriction>();
         var linkIndex = new Dictionary<string, int>(_links, StringComparer.Ordinal);
         double g = Physical.StandardGravity;
         for (int l = 0; l < _pipes; l++)
@@ -219,9 +221,12 @@ public sealed partial class NetworkSolver
                 _geometry[l] = new PipeGeometry(p.Length, p.Diameter, p.Roughness, p.MinorLossCoefficient);
                 // Pipes of one size and material share a relative roughness: prepare the transition zone once for each.
                 double relative = p.Roughness / p.Diameter;
-                if (!joins.TryGetValue(relative, out var join))
-                    joins[relative] = join = new TransitionalFriction(relative, _options.Friction);
-                _transition[l] = join;
+                if (!joins.TryGetValue(relative, out int join))
+                {
+                    joins[relative] = join = joinList.Count;
+                    joinList.Add(new TransitionalFriction(relative, _options.Friction));
+                }
+                _joinOf[l] = join;
             }
         }
         for (int k = 0; k < model.Pumps.Count; k++)
@@ -232,7 +237,7 @@ public sealed partial class NetworkSolver
             _from[l] = Node(p.From);
             _to[l] = Node(p.To);
             _kind[l] = Kind.Pump;
-            _curve[l] = p.Curve;
+            _curve[k] = p.Curve;
             _speed[l] = p.SpeedRatio;
             double qRef = p.Curve.ZeroHeadFlow ?? p.Curve.SearchLimit;
             // A pump's slope can vanish (a flat curve at shut-off); floor it at a millionth of the curve's mean slope.
@@ -243,6 +248,7 @@ public sealed partial class NetworkSolver
             _reverseCurvature[l] = p.Curve.C0 / (qRef * qRef);
             _stepLimit[l] = Math.Max(p.SpeedRatio, 1e-3) * qRef;
         }
+        _joins = joinList.ToArray();
         _linkIndex = linkIndex;
         _valveOf = PrepareValves(model, Node);
 
@@ -340,7 +346,7 @@ public sealed partial class NetworkSolver
             if (_kind[l] == Kind.Pump)
             {
                 _status[l] = _speed[l] > 0 ? LinkStatus.Open : LinkStatus.PumpOff;
-                _flow[l] = _status[l] == LinkStatus.Open ? 0.5 * _speed[l] * (_curve[l].ZeroHeadFlow ?? _curve[l].SearchLimit) : 0;
+                _flow[l] = _status[l] == LinkStatus.Open ? 0.5 * _speed[l] * (_curve[l - _pipes].ZeroHeadFlow ?? _curve[l - _pipes].SearchLimit) : 0;
             }
             else if (_kind[l] == Kind.Valve)
             {
@@ -618,7 +624,7 @@ public sealed partial class NetworkSolver
                 default:
                 {
                     double s = _speed[l], x = q / s;
-                    var (head, slope) = _curve[l].HeadAndSlope(Math.Max(x, 0));
+                    var (head, slope) = _curve[l - _pipes].HeadAndSlope(Math.Max(x, 0));
                     if (x < 0)
                     {
                         // Reverse flow: the continuation H(0) + H'(0) x + K x^2 (see the constructor).
@@ -701,7 +707,7 @@ public sealed partial class NetworkSolver
         }
         if (!(re >= friction.LaminarLimit && re < friction.TurbulentLimit))
             return PipeHeadLoss.WithDerivative(pipe, nu, q, friction);
-        var (f, dfdRe) = _transition[l].Evaluate(re);
+        var (f, dfdRe) = _joins[_joinOf[l]].Evaluate(re);
         double v = aq / _area[l];
         double velocityHead = v * v / (2 * Physical.StandardGravity);
         double lOverD = pipe.Length / pipe.Diameter;
@@ -962,10 +968,10 @@ public sealed partial class NetworkSolver
                     _flow[l] = 0;
                     changes++;
                 }
-                else if (_status[l] == LinkStatus.PumpOff && s * s * _curve[l].C0 + across > headMargin)
+                else if (_status[l] == LinkStatus.PumpOff && s * s * _curve[l - _pipes].C0 + across > headMargin)
                 {
                     _status[l] = LinkStatus.Open;
-                    _flow[l] = 0.5 * s * (_curve[l].ZeroHeadFlow ?? _curve[l].SearchLimit);
+                    _flow[l] = 0.5 * s * (_curve[l - _pipes].ZeroHeadFlow ?? _curve[l - _pipes].SearchLimit);
                     changes++;
                 }
             }
@@ -1009,7 +1015,7 @@ public sealed partial class NetworkSolver
                     f = double.NaN; // FlowsOutOfRange: no friction factor exists there
                 else if (_kind[l] == Kind.Darcy && re >= o.Friction.LaminarLimit && re < o.Friction.TurbulentLimit)
                 {
-                    f = _transition[l].Evaluate(re).F;
+                    f = _joins[_joinOf[l]].Evaluate(re).F;
                     warnings.Add(new NetworkWarning(id, NetworkWarningCode.TransitionalFlow, re));
                 }
                 else if (_kind[l] == Kind.Darcy)
@@ -1039,10 +1045,10 @@ public sealed partial class NetworkSolver
                 unable.Add(id);
                 warnings.Add(new NetworkWarning(id, NetworkWarningCode.PumpCannotLift, added));
             }
-            else if (_status[l] == LinkStatus.Open && _curve[l].DataMaximumFlow is double qmax)
+            else if (_status[l] == LinkStatus.Open && _curve[l - _pipes].DataMaximumFlow is double qmax)
             {
                 double rated = _flow[l] / _speed[l];
-                if (rated > qmax || rated < (_curve[l].DataMinimumFlow ?? 0))
+                if (rated > qmax || rated < (_curve[l - _pipes].DataMinimumFlow ?? 0))
                     warnings.Add(new NetworkWarning(id, NetworkWarningCode.PumpOutsideCurveRange, rated));
             }
         }

@@ -233,13 +233,16 @@ public static class FireFlow
             return new FireFlowReport(background, results);
         }
         // Each worker takes the next junction not yet taken, on its own solver started from the same background state,
-        // and writes its answer in that junction's place: the answers do not depend on which worker found them.
+        // and writes its answer in that junction's place: the answers do not depend on which worker found them. The
+        // workers fill the cores, so each solver keeps to one.
+        solver.UseOneCore();
+        var workerOptions = (networkOptions ?? NetworkOptions.Default) with { MaxParallelism = 1 };
         int next = -1;
         try
         {
             Parallel.For(0, workers, new ParallelOptions { MaxDegreeOfParallelism = workers }, w =>
             {
-                var own = w == 0 ? search : search.Fork(networkOptions);
+                var own = w == 0 ? search : search.Fork(workerOptions);
                 for (int i = Interlocked.Increment(ref next); i < index.Length; i = Interlocked.Increment(ref next))
                     results[i] = own.Run(index[i], start[i]);
             });

@@ -34,6 +34,12 @@ public readonly record struct NetworkOptions(
     /// (the default value, 0) unless set.</summary>
     public NetworkLinearSolver LinearSolver { get; init; }
 
+    /// <summary>Cores a large network's solve may use (0, the default: every core; 1: one). The friction pass of a network
+    /// of at least <see cref="NetworkSolver.ParallelLinks"/> links is split across them, each link's loss computed by the
+    /// same operations as on one core, so the answer is the same bit for bit. A caller that already runs solves side by
+    /// side (fire flow, one solver per core) sets 1.</summary>
+    public int MaxParallelism { get; init; }
+
     /// <summary>Friction one pipe at a time, as before the span solve of the friction pass: kept for the benchmark that
     /// compares the two passes and the test that holds them equal bit for bit.</summary>
     internal bool ScalarFrictionPass { get; init; }
@@ -54,6 +60,7 @@ public readonly record struct NetworkOptions(
             throw new ArgumentOutOfRangeException(nameof(MaximumDesignVelocity), "need 0 <= minimum <= maximum design velocity");
         if (!(Friction.LaminarLimit > 0) || !(Friction.TurbulentLimit >= Friction.LaminarLimit))
             throw new ArgumentOutOfRangeException(nameof(Friction), "need 0 < laminar limit <= turbulent limit");
+        ArgumentOutOfRangeException.ThrowIfNegative(MaxParallelism);
         if (!Enum.IsDefined(LinearSolver))
             throw new ArgumentOutOfRangeException(nameof(LinearSolver), LinearSolver, "not a known linear solver");
     }

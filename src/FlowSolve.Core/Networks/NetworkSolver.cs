@@ -105,6 +105,8 @@ public sealed partial class NetworkSolver
     private readonly double[] _nodeScale;  // per junction: |demand| + sum of |Q| of its links, for the continuity floor
     private bool _outOfRange; // an iterate's Reynolds number left the friction relations' range
     // The friction pass: Darcy pipes in turbulent flow, gathered each evaluation and solved as one span.
+    private int _frictionParts;                        // parts of the friction pass run side by side (1: one core)
+    private ParallelOptions? _parallel;
     private readonly int[] _turbulentLink;
     private readonly double[] _turbulentReynolds, _turbulentRoughness, _turbulentVelocity, _turbulentFriction;
 
@@ -267,6 +269,9 @@ public sealed partial class NetworkSolver
         _turbulentRoughness = new double[_pipes];
         _turbulentVelocity = new double[_pipes];
         _turbulentFriction = new double[_pipes];
+        int cores = _options.MaxParallelism == 0 ? Environment.ProcessorCount : _options.MaxParallelism;
+        _frictionParts = _links >= ParallelLinks ? Math.Min(cores, _links / (ParallelLinks / 2)) : 1;
+        if (_frictionParts > 1) _parallel = new ParallelOptions { MaxDegreeOfParallelism = _frictionParts };
 
         _law = model.DemandModel;
         bool pdd = _law is not null;
@@ -598,14 +603,42 @@ public sealed partial class NetworkSolver
         }
     }
 
+    /// <summary>The least number of links at which the friction pass is split across cores (when
+    /// <see cref="NetworkOptions.MaxParallelism"/> allows): below it the pass takes well under a millisecond, and handing
+    /// it to another core would cost a good part of that (a FlowSolve choice).</summary>
+    public const int ParallelLinks = 20_000;
+
+    /// <summary>From now on this solver uses one core whatever <see cref="NetworkOptions.MaxParallelism"/> said: for a
+    /// caller that runs several solvers side by side.</summary>
+    internal void UseOneCore()
+    {
+        _frictionParts = 1;
+        _parallel = null;
+    }
+
     /// <summary>h and dh/dQ of every open link at the current flows.</summary>
     private void EvaluateLinks()
+    {
+        int parts = _frictionParts;
+        if (parts <= 1)
+        {
+            EvaluateLinks(0, _links);
+            return;
+        }
+        // Contiguous parts, each gathering its turbulent pipes into its own stretch of the span arrays (a part's pipes
+        // fit in the stretch that starts at its first link), so the parts share nothing but _outOfRange (only set).
+        Parallel.For(0, parts, _parallel!, part =>
+            EvaluateLinks((int)((long)_links * part / parts), (int)((long)_links * (part + 1) / parts)));
+    }
+
+    /// <summary>h and dh/dQ of the open links in [<paramref name="start"/>, <paramref name="end"/>).</summary>
+    private void EvaluateLinks(int start, int end)
     {
         double nu = _model.KinematicViscosity;
         var friction = _options.Friction;
         bool spanFriction = !_options.ScalarFrictionPass;
-        int turbulent = 0;
-        for (int l = 0; l < _links; l++)
+        int turbulent = start;
+        for (int l = start; l < end; l++)
         {
             if (_status[l] != LinkStatus.Open) { _headLoss[l] = 0; _slope[l] = 0; continue; }
             double q = _flow[l];
@@ -637,7 +670,7 @@ public sealed partial class NetworkSolver
                 }
             }
         }
-        if (turbulent > 0) TurbulentFrictionPass(turbulent);
+        if (turbulent > start) TurbulentFrictionPass(start, turbulent);
     }
 
     /// <summary>Adds an open Darcy pipe to the friction pass's span when <see cref="DarcyLoss"/> would reach the exact
@@ -668,11 +701,11 @@ public sealed partial class NetworkSolver
     /// (<see cref="ColebrookWhite.Solve(ReadOnlySpan{double}, ReadOnlySpan{double}, Span{double}, Span{int})"/>, equal bit
     /// for bit to the scalar solve), then PipeHeadLoss.Evaluate's head loss and slope in its operations, so the pass
     /// answers exactly what <see cref="DarcyLoss"/> would.</summary>
-    private void TurbulentFrictionPass(int count)
+    private void TurbulentFrictionPass(int start, int end)
     {
-        ColebrookWhite.Solve(_turbulentReynolds.AsSpan(0, count), _turbulentRoughness.AsSpan(0, count),
-            _turbulentFriction.AsSpan(0, count));
-        for (int k = 0; k < count; k++)
+        ColebrookWhite.Solve(_turbulentReynolds.AsSpan(start, end - start), _turbulentRoughness.AsSpan(start, end - start),
+            _turbulentFriction.AsSpan(start, end - start));
+        for (int k = start; k < end; k++)
         {
             int l = _turbulentLink[k];
             ref readonly var pipe = ref _geometry[l];

@@ -361,9 +361,8 @@ public sealed partial class NetworkSolverTests
 
     // A 23 x 23 grid of Darcy-Weisbach pipes, 150 to 400 mm, fed by four reservoirs at the corners (a fictional layout
     // for scale tests): 1,056 pipes (including the feeds), 529 junctions, 484 loops.
-    private static NetworkModel LargeGrid()
+    private static NetworkModel LargeGrid(int k = 23)
     {
-        const int k = 23;
         var random = new Random(529);
         double[] sizes = [0.15, 0.2, 0.25, 0.3, 0.4];
         var junctions = new List<Junction>();

@@ -211,16 +211,29 @@ public sealed partial class NetworkSolver
     /// their form: a pattern boundary, a control, a tank held or released).</summary>
     internal void ForgetHistory() => _history = 0;
 
-    /// <summary>Starts the solve at time t from the line through the last two solved states, B + w (B - A) with
-    /// w = (t - tB)/(tB - tA), for |w| at most 2 (else from B as it stands): between pattern boundaries and controls
-    /// the state moves smoothly with the tank levels, so the start is off by O(dt^2) instead of O(dt), and the Newton
-    /// iteration needs about one step less. Only for a demand-driven model without control valves (their states and
-    /// the law's positions are not extrapolated); the known heads are the run's own.</summary>
+    /// <summary>Starts the solve from the line through the last two solved states A and B, at B + w (B - A), for |w| at
+    /// most 4 (else from B as it stands). Between pattern boundaries and controls the demands are fixed and the state is
+    /// a smooth function of the tanks' heads alone, so w is taken where the line comes nearest the new tank heads y:
+    /// w = &lt;y - y_B, y_B - y_A&gt; / |y_B - y_A|^2 (the projection on the line of the heads), rather than from the times
+    /// (w = (t - t_B)/(t_B - t_A)), which the step's stages miss: they sit at levels off the trajectory (y + h/2 k1,
+    /// y + 3h/4 k2) and a rejected step goes back in time. On the 10 000-pipe benchmark day 874 Newton iterations instead
+    /// of 961 by the times (a fit through up to four earlier states did worse: 880 to 931). The times serve when no tank
+    /// head moved. Only for a demand-driven model without control valves (their states and the law's positions are not
+    /// extrapolated); the known heads are the run's own.</summary>
     private void Predict(double t)
     {
         if (_history < 2 || _law is not null || _valveOf.Length > 0) return;
         double w = (t - _timeB) / (_timeB - _timeA);
-        if (!(Math.Abs(w) <= 2)) return;
+        double along = 0, length = 0;
+        for (int j = 0; j < _junctions; j++)
+        {
+            if (!_dirichlet[j]) continue;
+            double d = _headB[j] - _headA[j];
+            along += (_knownHead[j] - _headB[j]) * d;
+            length += d * d;
+        }
+        if (length > 0) w = along / length;
+        if (!(Math.Abs(w) <= 4)) return;
         for (int j = 0; j < _junctions; j++)
             if (!_dirichlet[j]) _head[j] = _headB[j] + w * (_headB[j] - _headA[j]);
         for (int l = 0; l < _links; l++)

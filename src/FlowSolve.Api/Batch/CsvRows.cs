@@ -48,54 +48,53 @@ internal static class CsvRows
         return true;
     }
 
-    /// <summary>Everything one batch's workers share: the header, its binding, the columns written and how rows that
-    /// leave the binder are bound.</summary>
+    /// <summary>Everything one batch's workers share: the header, its binding, the columns written (each with its UTF-8
+    /// cell writer) and how rows that leave the binder are bound.</summary>
     internal sealed class Job(CalculationDescriptor descriptor, List<string> header, CsvRowBinder.RowPlan plan,
         IReadOnlyList<ResponseColumn> columns, Func<object, double?>[]? shortcuts, ILogger logger)
     {
         private readonly bool[] _numeric = header.Select(h => BatchEndpoints.IsNumericField(descriptor.RequestType, h)).ToArray();
         private readonly Csv.HeaderPlan _jsonPlan = new(header);
+        private readonly Action<object, Utf8Lines>[] _cells = Utf8Cells.For(descriptor.ResponseType, columns);
 
         /// <summary>Solves rows [first, first + count) of <paramref name="lines"/> into <paramref name="output"/>, one CSV
         /// line each as the text path writes it, in UTF-8; counts ok and refused rows.</summary>
-        /// <remarks>Each line is built in the worker's own small builder and encoded at once: a builder the size of a
-        /// block would sit on the large-object heap and be copied whole when cleared.</remarks>
-        public void Solve(ReadOnlySpan<byte> body, (int Start, int Length)[] lines, int first, int count, Worker worker, BlockOutput output,
+        /// <remarks>A row's cells go straight into the block's UTF-8 buffer (numbers formatted into its bytes); only an
+        /// error row is built as text first.</remarks>
+        public void Solve(ReadOnlySpan<byte> body, (int Start, int Length)[] lines, int first, int count, Worker worker, Utf8Lines output,
             out int ok, out int refused)
         {
             ok = refused = 0;
             output.Length = 0;
-            var text = worker.Line;
             for (int i = first; i < first + count; i++)
             {
-                if (i > first) output.Append(text);
-                text.Clear();
                 var line = body.Slice(lines[i].Start, lines[i].Length);
-                text.Append(i + 1).Append(',');
+                output.Number(i + 1);
+                output.Byte((byte)',');
                 if (plan.TryBind(line, worker.Values, out var request))
                 {
-                    if (shortcuts is not null && Shortcut(request!, text))
+                    if (shortcuts is not null && Shortcut(request!, output))
                     {
                         ok++;
                         continue;
                     }
                     var (status, value) = BatchEndpoints.Invoke(descriptor, request!, logger);
-                    if (Write(status, value, text)) ok++; else refused++;
+                    if (Write(status, value, output)) ok++; else refused++;
                 }
                 else
                 {
                     var (status, value) = ThroughJson(line, worker);
-                    if (Write(status, value, text)) ok++; else refused++;
+                    if (Write(status, value, output)) ok++; else refused++;
                 }
             }
-            if (count > 0) output.Append(text);
         }
 
         /// <summary>Writes "200,,v1,v2..." from the declared shortcuts, or nothing and false when one declines the row.</summary>
-        private bool Shortcut(object request, StringBuilder text)
+        private bool Shortcut(object request, Utf8Lines output)
         {
-            int mark = text.Length;
-            text.Append(StatusCodes.Status200OK).Append(',');
+            int mark = output.Length;
+            output.Number(StatusCodes.Status200OK);
+            output.Byte((byte)',');
             foreach (var shortcut in shortcuts!)
             {
                 double? given;
@@ -109,18 +108,37 @@ internal static class CsvRows
                 }
                 if (given is not { } value)
                 {
-                    text.Length = mark;
+                    output.Length = mark;
                     return false;
                 }
-                CellWriter.Append(text.Append(','), value);
+                output.Byte((byte)',');
+                output.Number(value);
             }
-            text.Append("\r\n");
+            output.LineEnd();
             return true;
         }
 
-        private bool Write(int status, object? value, StringBuilder text)
+        /// <summary>The row's status, error and output cells after its number, and the line end, as
+        /// <see cref="BatchEndpoints.AppendRow"/> writes them.</summary>
+        private bool Write(int status, object? value, Utf8Lines output)
         {
-            BatchEndpoints.AppendRow(text, status, value, columns);
+            if (status is >= 200 and < 300)
+            {
+                output.Number(status);
+                output.Byte((byte)',');
+                foreach (var cell in _cells)
+                {
+                    output.Byte((byte)',');
+                    cell(value!, output);
+                }
+                output.LineEnd();
+            }
+            else
+            {
+                var text = output.Scratch.Clear();
+                BatchEndpoints.AppendRow(text, status, value, columns);
+                output.Raw(text);
+            }
             return status < 300;
         }
 
@@ -146,37 +164,10 @@ internal static class CsvRows
         public Worker NewWorker() => new(plan.NewValues());
     }
 
-    /// <summary>One block's answer lines as UTF-8, in a pooled buffer that grows as needed.</summary>
-    internal sealed class BlockOutput
-    {
-        public byte[] Buffer = [];
-        public int Length;
-
-        public void Append(StringBuilder line)
-        {
-            int most = Encoding.UTF8.GetMaxByteCount(line.Length);
-            if (Buffer.Length - Length < most)
-            {
-                var larger = System.Buffers.ArrayPool<byte>.Shared.Rent(Math.Max(2 * Buffer.Length, Length + most + 65_536));
-                Buffer.AsSpan(0, Length).CopyTo(larger);
-                Release();
-                Buffer = larger;
-            }
-            foreach (var chunk in line.GetChunks()) Length += Encoding.UTF8.GetBytes(chunk.Span, Buffer.AsSpan(Length));
-        }
-
-        public void Release()
-        {
-            if (Buffer.Length > 0) System.Buffers.ArrayPool<byte>.Shared.Return(Buffer);
-            Buffer = [];
-        }
-    }
-
     /// <summary>One worker's reusable scratch space.</summary>
     internal sealed class Worker(CsvRowBinder.RowValues values)
     {
         public CsvRowBinder.RowValues Values { get; } = values;
-        public StringBuilder Line { get; } = new(1024);
         public List<string> Record { get; } = [];
         public System.Buffers.ArrayBufferWriter<byte> Json { get; } = new(512);
     }
@@ -184,7 +175,7 @@ internal static class CsvRows
     /// <summary>One window of blocks: each block's answer lines as UTF-8, and its counts.</summary>
     private sealed class Window(int size)
     {
-        public readonly BlockOutput[] Outputs = Enumerable.Range(0, size).Select(_ => new BlockOutput()).ToArray();
+        public readonly Utf8Lines[] Outputs = Enumerable.Range(0, size).Select(_ => new Utf8Lines()).ToArray();
         public readonly bool[] Done = new bool[size];
         public readonly int[] Ok = new int[size];
         public readonly int[] Refused = new int[size];
@@ -254,7 +245,7 @@ internal static class CsvRows
                         SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
                         return;
                     }
-                    await output.WriteAsync(current.Outputs[k].Buffer.AsMemory(0, current.Outputs[k].Length), aborted);
+                    await output.WriteAsync(current.Outputs[k].Written, aborted);
                     okRows.Inc(current.Ok[k]);
                     errorRows.Inc(current.Refused[k]);
                 }

@@ -55,11 +55,34 @@ public sealed class Utf8Lines
         Buffer[Length++] = (byte)'\n';
     }
 
+    /// <summary>Recently written numbers by their bits (a small direct-mapped table): a batch's rows repeat many values
+    /// (the echoed fluid and roughness, a head loss that is also the total head), and copying the bytes of a value
+    /// already formatted costs a fraction of formatting it again. The bytes are those the formatting gave for the same
+    /// bits, so the cell is the same either way.</summary>
+    private const int RecentSlots = 64;
+
+    private readonly long[] _recentBits = new long[RecentSlots];
+    private readonly byte[] _recentLength = new byte[RecentSlots];
+    private readonly byte[] _recentText = new byte[RecentSlots * NumberRoom];
+
     public void Number(double value)
     {
+        long bits = BitConverter.DoubleToInt64Bits(value);
+        int slot = (int)((ulong)(bits * unchecked((long)0x9E3779B97F4A7C15)) >> 58);
+        var room = Room(NumberRoom);
+        int length = _recentLength[slot];
+        if (length > 0 && _recentBits[slot] == bits)
+        {
+            _recentText.AsSpan(slot * NumberRoom, length).CopyTo(room);
+            Length += length;
+            return;
+        }
         // Same formatting code as the text cell's $"{value:R}", writing bytes instead of chars.
-        if (!value.TryFormat(Room(NumberRoom), out int written, "R", CultureInfo.InvariantCulture))
+        if (!value.TryFormat(room, out int written, "R", CultureInfo.InvariantCulture))
             throw new InvalidOperationException("a double's round-trip form exceeded its room");
+        room[..written].CopyTo(_recentText.AsSpan(slot * NumberRoom));
+        _recentBits[slot] = bits;
+        _recentLength[slot] = (byte)written;
         Length += written;
     }
 

@@ -115,6 +115,34 @@ public class Utf8CellsTests
         }, iter: 300);
     }
 
+    [Fact]
+    public void Repeated_numbers_are_written_as_formatting_writes_them()
+    {
+        // Property: numbers drawn from a small pool (so that values repeat, and share slots of the table of recent
+        // numbers) are written as the concatenation of each one's invariant round-trip text.
+        var pool = AnyDouble.Array[1, 80];
+        Gen.Select(pool, Gen.Int.Array[1, 600]).Sample((values, picks) =>
+        {
+            var lines = new Utf8Lines();
+            try
+            {
+                var expected = new StringBuilder();
+                foreach (int pick in picks)
+                {
+                    double v = values[(int)((uint)pick % values.Length)];
+                    lines.Number(v);
+                    lines.Byte((byte)';');
+                    expected.Append(v.ToString("R", CultureInfo.InvariantCulture)).Append(';');
+                }
+                Assert.Equal(expected.ToString(), Encoding.UTF8.GetString(lines.Written.Span));
+            }
+            finally
+            {
+                lines.Release();
+            }
+        }, iter: 500);
+    }
+
     [Theory]
     [InlineData(0.0), InlineData(double.Epsilon), InlineData(double.MaxValue), InlineData(-1.2345678901234567E-308)]
     [InlineData(1.0034e-6), InlineData(998.2), InlineData(302973.93665757566)]

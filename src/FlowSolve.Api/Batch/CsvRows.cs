@@ -172,105 +172,91 @@ internal static class CsvRows
         public System.Buffers.ArrayBufferWriter<byte> Json { get; } = new(512);
     }
 
-    /// <summary>One window of blocks: each block's answer lines as UTF-8, and its counts.</summary>
-    private sealed class Window(int size)
+    /// <summary>One place in the ring of blocks in hand: the block's answer lines as UTF-8, the worker that solves it,
+    /// and what its solve gave (false when the time budget ran out before it started).</summary>
+    private sealed class Slot
     {
-        public readonly Utf8Lines[] Outputs = Enumerable.Range(0, size).Select(_ => new Utf8Lines()).ToArray();
-        public readonly bool[] Done = new bool[size];
-        public readonly int[] Ok = new int[size];
-        public readonly int[] Refused = new int[size];
-        public int First;
-        public int Count;
-
-        public void Release()
-        {
-            foreach (var output in Outputs) output.Release();
-        }
+        public readonly Utf8Lines Output = new();
+        public Worker? Worker;
+        public Task<bool> Solved = Task.FromResult(false);
+        public int Ok;
+        public int Refused;
     }
 
-    /// <summary>Solves every row in blocks spread over the cores, a window of blocks at a time, each block encoded to
-    /// UTF-8 by its worker; while one window's blocks are written in order, the next window is solved (so at most two
-    /// windows' text is held). Stops, as the text path does, with a final error row naming the first row not written
-    /// when the time budget runs out.</summary>
+    /// <summary>Solves every row in blocks handed to the thread pool in their order, each block encoded to UTF-8 by the
+    /// thread that solves it, and writes the blocks in order, each as soon as it and those before it are done. At most
+    /// a ring of cores x 4 blocks is in hand (solving, solved or being written); a block's place, with its buffer and
+    /// worker, goes to the next block once it is written. No pool thread waits for another: a block runs from start to
+    /// end, and the writer awaits. Stops, as the text path does, with a final error row naming the first row not
+    /// written when the time budget runs out.</summary>
     public static async Task Run(Job job, byte[] body, int bodyLength, (int Start, int Length)[] lines, int rowCount, Stream output,
         string calculation, double timeBudget, CancellationToken ct, CancellationToken aborted, int columnCount)
     {
         int blocks = (rowCount + BlockRows - 1) / BlockRows;
         if (blocks == 0) return;
         int cores = Math.Max(1, Environment.ProcessorCount);
-        int size = Math.Min(blocks, cores * 4);
-        var windows = new[] { new Window(size), new Window(size) };
+        var ring = new Slot[Math.Min(blocks, cores * 4)];
+        for (int i = 0; i < ring.Length; i++) ring[i] = new Slot();
         var okRows = SolverMetrics.BatchRows.WithLabels(calculation, "ok");
         var errorRows = SolverMetrics.BatchRows.WithLabels(calculation, "error");
-        var parallel = new ParallelOptions { MaxDegreeOfParallelism = cores };
+        int started = 0;
 
-        void Solve(Window window)
+        void Start(int block)
         {
-            Parallel.For(0, window.Count, parallel, job.NewWorker, (k, _, worker) =>
-            {
-                window.Done[k] = false;
-                if (ct.IsCancellationRequested) return worker;
-                int first = (window.First + k) * BlockRows;
-                job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), worker, window.Outputs[k],
-                    out window.Ok[k], out window.Refused[k]);
-                window.Done[k] = true;
-                return worker;
-            }, static _ => { });
+            var slot = ring[block % ring.Length];
+            // The pool's shared queue runs blocks first in, first out, so the block the writer waits for comes first.
+            slot.Solved = Task.Factory.StartNew(() => Solve(block, slot), CancellationToken.None, TaskCreationOptions.PreferFairness,
+                TaskScheduler.Default);
         }
 
-        // The workers read the body: every way out waits for them before the body's buffer goes back to the pool.
-        Task pending = Task.CompletedTask;
+        bool Solve(int block, Slot slot)
+        {
+            if (ct.IsCancellationRequested) return false;
+            int first = block * BlockRows;
+            slot.Worker ??= job.NewWorker();
+            job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), slot.Worker, slot.Output,
+                out slot.Ok, out slot.Refused);
+            return true;
+        }
+
         try
         {
-            pending = Task.Run(() => Solve(Set(windows[0], 0)));
-            for (int w = 0, turn = 0; w < blocks; w += size, turn ^= 1)
+            while (started < ring.Length) Start(started++);
+            for (int k = 0; k < blocks; k++)
             {
-                await pending;
-                var current = windows[turn];
-                // The next window is chosen here, not in the task: the loop moves on before the task starts.
-                if (w + size < blocks)
+                var slot = ring[k % ring.Length];
+                bool solved = await slot.Solved;
+                int first = k * BlockRows;
+                if (!solved || ct.IsCancellationRequested)
                 {
-                    var next = Set(windows[turn ^ 1], w + size);
-                    pending = Task.Run(() => Solve(next));
+                    if (aborted.IsCancellationRequested) return;
+                    await output.WriteAsync(Encoding.UTF8.GetBytes(
+                        $"{first + 1},503,{Csv.Escape(BatchEndpoints.TimeBudgetMessage(timeBudget, first + 1))}{new string(',', columnCount)}\r\n"), aborted);
+                    SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
+                    return;
                 }
-                else pending = Task.CompletedTask;
-                for (int k = 0; k < current.Count; k++)
-                {
-                    int first = (current.First + k) * BlockRows;
-                    if (!current.Done[k] || ct.IsCancellationRequested)
-                    {
-                        if (aborted.IsCancellationRequested) return;
-                        await output.WriteAsync(Encoding.UTF8.GetBytes(
-                            $"{first + 1},503,{Csv.Escape(BatchEndpoints.TimeBudgetMessage(timeBudget, first + 1))}{new string(',', columnCount)}\r\n"), aborted);
-                        SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
-                        return;
-                    }
-                    await output.WriteAsync(current.Outputs[k].Written, aborted);
-                    okRows.Inc(current.Ok[k]);
-                    errorRows.Inc(current.Refused[k]);
-                }
+                await output.WriteAsync(slot.Output.Written, aborted);
+                okRows.Inc(slot.Ok);
+                errorRows.Inc(slot.Refused);
+                // This place is free again: the block a ring further on takes it.
+                if (started < blocks) Start(started++);
             }
-            await pending;
         }
         finally
         {
-            try
+            // The blocks read the body: every way out waits for them all before the body's buffer goes back to the pool.
+            foreach (var slot in ring)
             {
-                await pending;
+                try
+                {
+                    await slot.Solved;
+                }
+                catch (Exception)
+                {
+                    // Seen by the loop above when it reached that block; otherwise the answer is already cut off or abandoned.
+                }
             }
-            catch (Exception) when (aborted.IsCancellationRequested || ct.IsCancellationRequested)
-            {
-                // The answer is already cut off or abandoned; a worker's failure has nowhere to go.
-            }
-            windows[0].Release();
-            windows[1].Release();
-        }
-
-        Window Set(Window window, int firstBlock)
-        {
-            window.First = firstBlock;
-            window.Count = Math.Min(size, blocks - firstBlock);
-            return window;
+            foreach (var slot in ring) slot.Output.Release();
         }
     }
 }

@@ -12,6 +12,9 @@ namespace FlowSolve.Benchmarks;
 /// two paths are compared in one run. A friction-factor batch asking only for frictionFactor stands beside the library's
 /// friction call on the same rows.
 /// </summary>
+/// <remarks>The pipe rows share their roughness, loss coefficient and fluid, as a study of one network's pipes does;
+/// <see cref="BatchCsvNoRepeats"/> gives every row its own, so what a worker remembers from row to row (a column's last
+/// cell, recently formatted numbers) is measured both ways.</remarks>
 [MemoryDiagnoser]
 public class BatchBenchmarks
 {
@@ -21,6 +24,7 @@ public class BatchBenchmarks
     private string _csv = "";
     private string _quoted = "";
     private string _frictionCsv = "";
+    private string _variedCsv = "";
     private readonly double[] _reynolds = new double[Rows];
     private readonly double[] _roughness = new double[Rows];
     private string _json = "";
@@ -52,6 +56,16 @@ public class BatchBenchmarks
                 $"{{\"flow\":{q},\"diameter\":{d},\"length\":{l},\"roughness\":0.00026,\"minorLossCoefficient\":2,\"kinematicViscosity\":1.0034e-6,\"density\":998.2}}");
         }
         _csv = csv.ToString();
+        // The same pipes with a roughness, loss coefficient and fluid of their own: no column repeats a cell.
+        var own = new Random(11); // its own generator: the friction rows below stay as they were
+        var varied = new StringBuilder("flow,diameter,length,roughness,minorLossCoefficient,kinematicViscosity,density\n");
+        foreach (var line in _csv.Split('\n').Skip(1).Where(l => l.Length > 0))
+        {
+            var cells = line.Split(',');
+            FormattableString row = $"{cells[0]},{cells[1]},{cells[2]},{0.00005 + 0.0005 * own.NextDouble():R},{4 * own.NextDouble():R},{(0.8 + 0.6 * own.NextDouble()) * 1e-6:R},{995 + 5 * own.NextDouble():R}\n";
+            varied.Append(row.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        }
+        _variedCsv = varied.ToString();
         _quoted = string.Join("\n", _csv.Split('\n').Select(line => line.Length == 0 ? line : "\"" + line.Replace(",", "\",\"") + "\""));
         var friction = new StringBuilder("reynolds,relativeRoughness\n");
         for (int i = 0; i < Rows; i++)
@@ -128,6 +142,16 @@ public class BatchBenchmarks
     public async Task<int> BatchCsv()
     {
         using var content = new StringContent(_csv, Encoding.UTF8, "text/csv");
+        using var response = await _client.PostAsync("/v1/batch/pipes/head-loss", content);
+        return (await response.Content.ReadAsStringAsync()).Length;
+    }
+
+    /// <summary>The same pipes with every cell of every row its own (no column repeats a value from row to row), so
+    /// that nothing a worker remembers from the row before applies.</summary>
+    [Benchmark(OperationsPerInvoke = Rows)]
+    public async Task<int> BatchCsvNoRepeats()
+    {
+        using var content = new StringContent(_variedCsv, Encoding.UTF8, "text/csv");
         using var response = await _client.PostAsync("/v1/batch/pipes/head-loss", content);
         return (await response.Content.ReadAsStringAsync()).Length;
     }

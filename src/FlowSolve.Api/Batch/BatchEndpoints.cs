@@ -240,25 +240,42 @@ public static class BatchEndpoints
                 if (problem is not null) return problem;
                 if (binder.Plan(plainHeader!) is { } plan)
                 {
-                    var lines = new List<(int, int)>();
-                    int offset = length - rest.Length;
-                    while (!rest.IsEmpty)
+                    // Where each row lies in the body, in a pooled array (a batch of many rows would otherwise build a
+                    // list on the large-object heap and copy it).
+                    var lines = System.Buffers.ArrayPool<(int, int)>.Shared.Rent(1024);
+                    try
                     {
-                        int before = rest.Length;
-                        var line = CsvRows.NextLine(ref rest);
-                        int at = offset;
-                        offset += before - rest.Length;
-                        if (CsvRows.IsBlank(line)) continue;
-                        if (lines.Count == limit) return TooMany(limit);
-                        lines.Add((at, line.Length));
+                        int count = 0;
+                        int offset = length - rest.Length;
+                        while (!rest.IsEmpty)
+                        {
+                            int before = rest.Length;
+                            var line = CsvRows.NextLine(ref rest);
+                            int at = offset;
+                            offset += before - rest.Length;
+                            if (CsvRows.IsBlank(line)) continue;
+                            if (count == limit) return TooMany(limit);
+                            if (count == lines.Length)
+                            {
+                                var larger = System.Buffers.ArrayPool<(int, int)>.Shared.Rent(2 * lines.Length);
+                                lines.AsSpan(0, count).CopyTo(larger);
+                                System.Buffers.ArrayPool<(int, int)>.Shared.Return(lines);
+                                lines = larger;
+                            }
+                            lines[count++] = (at, line.Length);
+                        }
+                        Func<object, double?>[]? shortcuts = selected && descriptor.Shortcuts is { } declared
+                            && columns.All(c => declared.ContainsKey(c.Name)) ? columns.Select(c => declared[c.Name]).ToArray() : null;
+                        var job = new CsvRows.Job(descriptor, plainHeader!, plan, columns, shortcuts, logger);
+                        http.Response.ContentType = "text/csv; charset=utf-8";
+                        await http.Response.Body.WriteAsync(Encoding.UTF8.GetBytes(HeaderLine(columns)), http.RequestAborted);
+                        await CsvRows.Run(job, body, length, lines, count, http.Response.Body, descriptor.Name, timeBudget, ct, http.RequestAborted, columns.Count);
+                        return Results.Empty;
                     }
-                    Func<object, double?>[]? shortcuts = selected && descriptor.Shortcuts is { } declared
-                        && columns.All(c => declared.ContainsKey(c.Name)) ? columns.Select(c => declared[c.Name]).ToArray() : null;
-                    var job = new CsvRows.Job(descriptor, plainHeader!, plan, columns, shortcuts, logger);
-                    http.Response.ContentType = "text/csv; charset=utf-8";
-                    await http.Response.Body.WriteAsync(Encoding.UTF8.GetBytes(HeaderLine(columns)), http.RequestAborted);
-                    await CsvRows.Run(job, body, length, [.. lines], lines.Count, http.Response.Body, descriptor.Name, timeBudget, ct, http.RequestAborted, columns.Count);
-                    return Results.Empty;
+                    finally
+                    {
+                        System.Buffers.ArrayPool<(int, int)>.Shared.Return(lines);
+                    }
                 }
             }
             using var stream = new MemoryStream(body, 0, length, writable: false);

@@ -126,7 +126,7 @@ public sealed class CsvRowBinder
     public sealed class RowPlan(CsvRowBinder binder, (int Position, Kind Kind)[] columns)
     {
         /// <summary>A fresh set of values for one worker (not shared between threads).</summary>
-        public RowValues NewValues() => new(binder.Arity);
+        public RowValues NewValues() => new(binder.Arity, columns.Length);
 
         /// <summary>Binds one row (ASCII bytes without quotes or line breaks) into a request, or answers false when a cell
         /// is not clean for its field (the row then takes the JSON path).</summary>
@@ -141,12 +141,19 @@ public sealed class CsvRowBinder
                 int comma = line.IndexOf((byte)',');
                 var raw = comma < 0 ? line : line[..comma];
                 var (position, kind) = columns[c];
-                if (position >= 0)
+                if (position >= 0 && kind == Kind.Number && values.Repeats(c, raw, out double repeated))
+                {
+                    // The same cell as this column's last number: the same value, read once.
+                    values.Numbers[position] = repeated;
+                    values.Present[position] = true;
+                }
+                else if (position >= 0)
                 {
                     if (raw.Length > text.Length) return false;
                     for (int k = 0; k < raw.Length; k++) text[k] = (char)raw[k];
                     var cell = text[..raw.Length].Trim();
                     if (cell.Length > 0 && !Read(cell, kind, position, values)) return false;
+                    if (cell.Length > 0 && kind == Kind.Number) values.Remember(c, raw, values.Numbers[position]);
                 }
                 if (comma < 0) break;
                 line = line[(comma + 1)..];
@@ -189,9 +196,36 @@ public sealed class CsvRowBinder
         }
     }
 
-    /// <summary>The cells of one row by constructor position, one array per kind.</summary>
-    public sealed class RowValues(int arity)
+    /// <summary>The cells of one row by constructor position, one array per kind; and, by column, the last number cell
+    /// read (its bytes and value), since a batch's columns often repeat a value row after row.</summary>
+    public sealed class RowValues(int arity, int columns = 0)
     {
+        /// <summary>Longest cell remembered (the binder reads cells of up to 128 characters).</summary>
+        private const int CellRoom = 128;
+
+        private readonly byte[] _lastCell = new byte[columns * CellRoom];
+        private readonly int[] _lastLength = new int[columns];
+        private readonly double[] _lastValue = new double[columns];
+
+        /// <summary>True, with its value, when the cell's bytes are those of the column's last number cell read.</summary>
+        public bool Repeats(int column, ReadOnlySpan<byte> cell, out double value)
+        {
+            value = 0;
+            if (column >= _lastLength.Length || _lastLength[column] == 0 || _lastLength[column] != cell.Length) return false;
+            if (!cell.SequenceEqual(_lastCell.AsSpan(column * CellRoom, cell.Length))) return false;
+            value = _lastValue[column];
+            return true;
+        }
+
+        /// <summary>Remembers a number cell read cleanly, as its bytes and value.</summary>
+        public void Remember(int column, ReadOnlySpan<byte> cell, double value)
+        {
+            if (column >= _lastLength.Length || cell.Length > CellRoom) return;
+            cell.CopyTo(_lastCell.AsSpan(column * CellRoom));
+            _lastLength[column] = cell.Length;
+            _lastValue[column] = value;
+        }
+
         public bool[] Present { get; } = new bool[arity];
         public double[] Numbers { get; } = new double[arity];
         public int[] Integers { get; } = new int[arity];

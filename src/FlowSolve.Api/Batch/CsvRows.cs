@@ -48,54 +48,53 @@ internal static class CsvRows
         return true;
     }
 
-    /// <summary>Everything one batch's workers share: the header, its binding, the columns written and how rows that
-    /// leave the binder are bound.</summary>
+    /// <summary>Everything one batch's workers share: the header, its binding, the columns written (each with its UTF-8
+    /// cell writer) and how rows that leave the binder are bound.</summary>
     internal sealed class Job(CalculationDescriptor descriptor, List<string> header, CsvRowBinder.RowPlan plan,
         IReadOnlyList<ResponseColumn> columns, Func<object, double?>[]? shortcuts, ILogger logger)
     {
         private readonly bool[] _numeric = header.Select(h => BatchEndpoints.IsNumericField(descriptor.RequestType, h)).ToArray();
         private readonly Csv.HeaderPlan _jsonPlan = new(header);
+        private readonly Action<object, Utf8Lines>[] _cells = Utf8Cells.For(descriptor.ResponseType, columns);
 
         /// <summary>Solves rows [first, first + count) of <paramref name="lines"/> into <paramref name="output"/>, one CSV
         /// line each as the text path writes it, in UTF-8; counts ok and refused rows.</summary>
-        /// <remarks>Each line is built in the worker's own small builder and encoded at once: a builder the size of a
-        /// block would sit on the large-object heap and be copied whole when cleared.</remarks>
-        public void Solve(ReadOnlySpan<byte> body, (int Start, int Length)[] lines, int first, int count, Worker worker, BlockOutput output,
+        /// <remarks>A row's cells go straight into the block's UTF-8 buffer (numbers formatted into its bytes); only an
+        /// error row is built as text first.</remarks>
+        public void Solve(ReadOnlySpan<byte> body, (int Start, int Length)[] lines, int first, int count, Worker worker, Utf8Lines output,
             out int ok, out int refused)
         {
             ok = refused = 0;
             output.Length = 0;
-            var text = worker.Line;
             for (int i = first; i < first + count; i++)
             {
-                if (i > first) output.Append(text);
-                text.Clear();
                 var line = body.Slice(lines[i].Start, lines[i].Length);
-                text.Append(i + 1).Append(',');
+                output.Number(i + 1);
+                output.Byte((byte)',');
                 if (plan.TryBind(line, worker.Values, out var request))
                 {
-                    if (shortcuts is not null && Shortcut(request!, text))
+                    if (shortcuts is not null && Shortcut(request!, output))
                     {
                         ok++;
                         continue;
                     }
                     var (status, value) = BatchEndpoints.Invoke(descriptor, request!, logger);
-                    if (Write(status, value, text)) ok++; else refused++;
+                    if (Write(status, value, output)) ok++; else refused++;
                 }
                 else
                 {
                     var (status, value) = ThroughJson(line, worker);
-                    if (Write(status, value, text)) ok++; else refused++;
+                    if (Write(status, value, output)) ok++; else refused++;
                 }
             }
-            if (count > 0) output.Append(text);
         }
 
         /// <summary>Writes "200,,v1,v2..." from the declared shortcuts, or nothing and false when one declines the row.</summary>
-        private bool Shortcut(object request, StringBuilder text)
+        private bool Shortcut(object request, Utf8Lines output)
         {
-            int mark = text.Length;
-            text.Append(StatusCodes.Status200OK).Append(',');
+            int mark = output.Length;
+            output.Number(StatusCodes.Status200OK);
+            output.Byte((byte)',');
             foreach (var shortcut in shortcuts!)
             {
                 double? given;
@@ -109,18 +108,37 @@ internal static class CsvRows
                 }
                 if (given is not { } value)
                 {
-                    text.Length = mark;
+                    output.Length = mark;
                     return false;
                 }
-                CellWriter.Append(text.Append(','), value);
+                output.Byte((byte)',');
+                output.Number(value);
             }
-            text.Append("\r\n");
+            output.LineEnd();
             return true;
         }
 
-        private bool Write(int status, object? value, StringBuilder text)
+        /// <summary>The row's status, error and output cells after its number, and the line end, as
+        /// <see cref="BatchEndpoints.AppendRow"/> writes them.</summary>
+        private bool Write(int status, object? value, Utf8Lines output)
         {
-            BatchEndpoints.AppendRow(text, status, value, columns);
+            if (status is >= 200 and < 300)
+            {
+                output.Number(status);
+                output.Byte((byte)',');
+                foreach (var cell in _cells)
+                {
+                    output.Byte((byte)',');
+                    cell(value!, output);
+                }
+                output.LineEnd();
+            }
+            else
+            {
+                var text = output.Scratch.Clear();
+                BatchEndpoints.AppendRow(text, status, value, columns);
+                output.Raw(text);
+            }
             return status < 300;
         }
 
@@ -146,140 +164,99 @@ internal static class CsvRows
         public Worker NewWorker() => new(plan.NewValues());
     }
 
-    /// <summary>One block's answer lines as UTF-8, in a pooled buffer that grows as needed.</summary>
-    internal sealed class BlockOutput
-    {
-        public byte[] Buffer = [];
-        public int Length;
-
-        public void Append(StringBuilder line)
-        {
-            int most = Encoding.UTF8.GetMaxByteCount(line.Length);
-            if (Buffer.Length - Length < most)
-            {
-                var larger = System.Buffers.ArrayPool<byte>.Shared.Rent(Math.Max(2 * Buffer.Length, Length + most + 65_536));
-                Buffer.AsSpan(0, Length).CopyTo(larger);
-                Release();
-                Buffer = larger;
-            }
-            foreach (var chunk in line.GetChunks()) Length += Encoding.UTF8.GetBytes(chunk.Span, Buffer.AsSpan(Length));
-        }
-
-        public void Release()
-        {
-            if (Buffer.Length > 0) System.Buffers.ArrayPool<byte>.Shared.Return(Buffer);
-            Buffer = [];
-        }
-    }
-
     /// <summary>One worker's reusable scratch space.</summary>
     internal sealed class Worker(CsvRowBinder.RowValues values)
     {
         public CsvRowBinder.RowValues Values { get; } = values;
-        public StringBuilder Line { get; } = new(1024);
         public List<string> Record { get; } = [];
         public System.Buffers.ArrayBufferWriter<byte> Json { get; } = new(512);
     }
 
-    /// <summary>One window of blocks: each block's answer lines as UTF-8, and its counts.</summary>
-    private sealed class Window(int size)
+    /// <summary>One place in the ring of blocks in hand: the block's answer lines as UTF-8, the worker that solves it,
+    /// and what its solve gave (false when the time budget ran out before it started).</summary>
+    private sealed class Slot
     {
-        public readonly BlockOutput[] Outputs = Enumerable.Range(0, size).Select(_ => new BlockOutput()).ToArray();
-        public readonly bool[] Done = new bool[size];
-        public readonly int[] Ok = new int[size];
-        public readonly int[] Refused = new int[size];
-        public int First;
-        public int Count;
-
-        public void Release()
-        {
-            foreach (var output in Outputs) output.Release();
-        }
+        public readonly Utf8Lines Output = new();
+        public Worker? Worker;
+        public Task<bool> Solved = Task.FromResult(false);
+        public int Ok;
+        public int Refused;
     }
 
-    /// <summary>Solves every row in blocks spread over the cores, a window of blocks at a time, each block encoded to
-    /// UTF-8 by its worker; while one window's blocks are written in order, the next window is solved (so at most two
-    /// windows' text is held). Stops, as the text path does, with a final error row naming the first row not written
-    /// when the time budget runs out.</summary>
+    /// <summary>Solves every row in blocks handed to the thread pool in their order, each block encoded to UTF-8 by the
+    /// thread that solves it, and writes the blocks in order, each as soon as it and those before it are done. At most
+    /// a ring of cores x 4 blocks is in hand (solving, solved or being written); a block's place, with its buffer and
+    /// worker, goes to the next block once it is written. No pool thread waits for another: a block runs from start to
+    /// end, and the writer awaits. Stops, as the text path does, with a final error row naming the first row not
+    /// written when the time budget runs out.</summary>
     public static async Task Run(Job job, byte[] body, int bodyLength, (int Start, int Length)[] lines, int rowCount, Stream output,
         string calculation, double timeBudget, CancellationToken ct, CancellationToken aborted, int columnCount)
     {
         int blocks = (rowCount + BlockRows - 1) / BlockRows;
         if (blocks == 0) return;
         int cores = Math.Max(1, Environment.ProcessorCount);
-        int size = Math.Min(blocks, cores * 4);
-        var windows = new[] { new Window(size), new Window(size) };
+        var ring = new Slot[Math.Min(blocks, cores * 4)];
+        for (int i = 0; i < ring.Length; i++) ring[i] = new Slot();
         var okRows = SolverMetrics.BatchRows.WithLabels(calculation, "ok");
         var errorRows = SolverMetrics.BatchRows.WithLabels(calculation, "error");
-        var parallel = new ParallelOptions { MaxDegreeOfParallelism = cores };
+        int started = 0;
 
-        void Solve(Window window)
+        void Start(int block)
         {
-            Parallel.For(0, window.Count, parallel, job.NewWorker, (k, _, worker) =>
-            {
-                window.Done[k] = false;
-                if (ct.IsCancellationRequested) return worker;
-                int first = (window.First + k) * BlockRows;
-                job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), worker, window.Outputs[k],
-                    out window.Ok[k], out window.Refused[k]);
-                window.Done[k] = true;
-                return worker;
-            }, static _ => { });
+            var slot = ring[block % ring.Length];
+            // The pool's shared queue runs blocks first in, first out, so the block the writer waits for comes first.
+            slot.Solved = Task.Factory.StartNew(() => Solve(block, slot), CancellationToken.None, TaskCreationOptions.PreferFairness,
+                TaskScheduler.Default);
         }
 
-        // The workers read the body: every way out waits for them before the body's buffer goes back to the pool.
-        Task pending = Task.CompletedTask;
+        bool Solve(int block, Slot slot)
+        {
+            if (ct.IsCancellationRequested) return false;
+            int first = block * BlockRows;
+            slot.Worker ??= job.NewWorker();
+            job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), slot.Worker, slot.Output,
+                out slot.Ok, out slot.Refused);
+            return true;
+        }
+
         try
         {
-            pending = Task.Run(() => Solve(Set(windows[0], 0)));
-            for (int w = 0, turn = 0; w < blocks; w += size, turn ^= 1)
+            while (started < ring.Length) Start(started++);
+            for (int k = 0; k < blocks; k++)
             {
-                await pending;
-                var current = windows[turn];
-                // The next window is chosen here, not in the task: the loop moves on before the task starts.
-                if (w + size < blocks)
+                var slot = ring[k % ring.Length];
+                bool solved = await slot.Solved;
+                int first = k * BlockRows;
+                if (!solved || ct.IsCancellationRequested)
                 {
-                    var next = Set(windows[turn ^ 1], w + size);
-                    pending = Task.Run(() => Solve(next));
+                    if (aborted.IsCancellationRequested) return;
+                    await output.WriteAsync(Encoding.UTF8.GetBytes(
+                        $"{first + 1},503,{Csv.Escape(BatchEndpoints.TimeBudgetMessage(timeBudget, first + 1))}{new string(',', columnCount)}\r\n"), aborted);
+                    SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
+                    return;
                 }
-                else pending = Task.CompletedTask;
-                for (int k = 0; k < current.Count; k++)
-                {
-                    int first = (current.First + k) * BlockRows;
-                    if (!current.Done[k] || ct.IsCancellationRequested)
-                    {
-                        if (aborted.IsCancellationRequested) return;
-                        await output.WriteAsync(Encoding.UTF8.GetBytes(
-                            $"{first + 1},503,{Csv.Escape(BatchEndpoints.TimeBudgetMessage(timeBudget, first + 1))}{new string(',', columnCount)}\r\n"), aborted);
-                        SolverMetrics.BatchRows.WithLabels(calculation, "cut-off").Inc(rowCount - first);
-                        return;
-                    }
-                    await output.WriteAsync(current.Outputs[k].Buffer.AsMemory(0, current.Outputs[k].Length), aborted);
-                    okRows.Inc(current.Ok[k]);
-                    errorRows.Inc(current.Refused[k]);
-                }
+                await output.WriteAsync(slot.Output.Written, aborted);
+                okRows.Inc(slot.Ok);
+                errorRows.Inc(slot.Refused);
+                // This place is free again: the block a ring further on takes it.
+                if (started < blocks) Start(started++);
             }
-            await pending;
         }
         finally
         {
-            try
+            // The blocks read the body: every way out waits for them all before the body's buffer goes back to the pool.
+            foreach (var slot in ring)
             {
-                await pending;
+                try
+                {
+                    await slot.Solved;
+                }
+                catch (Exception)
+                {
+                    // Seen by the loop above when it reached that block; otherwise the answer is already cut off or abandoned.
+                }
             }
-            catch (Exception) when (aborted.IsCancellationRequested || ct.IsCancellationRequested)
-            {
-                // The answer is already cut off or abandoned; a worker's failure has nowhere to go.
-            }
-            windows[0].Release();
-            windows[1].Release();
-        }
-
-        Window Set(Window window, int firstBlock)
-        {
-            window.First = firstBlock;
-            window.Count = Math.Min(size, blocks - firstBlock);
-            return window;
+            foreach (var slot in ring) slot.Output.Release();
         }
     }
 }

@@ -62,6 +62,33 @@ public class CsvTests
         Assert.Equal(expected, n);
     }
 
+    public sealed record Row(double Flow, double? Diameter, int Count, bool? Flag, string? Label);
+
+    /// <summary>Cells of every kind, drawn from a small pool so that a column repeats its cell row after row, changes
+    /// it, and comes back to it; hostile cells and spaces included.</summary>
+    private static readonly Gen<string> PoolCell = Gen.Int[0, 14].Select(i => new[]
+        { "0.00026", " 0.00026", "0.00026 ", "1.0034e-6", "1.0034E-6", "998.2", "2", "2.0", "", "abc", "1e400", "true", "-0", "+5", ".5" }[i]);
+
+    [Fact]
+    public void A_row_binds_alike_after_any_earlier_rows_of_the_batch()
+    {
+        // Property: a worker's values, reused across rows (and remembering the cells each column read before), bind
+        // every row exactly as fresh values bind that row alone.
+        var plan = CsvRowBinder.For(typeof(Row))!.Plan(["flow", "diameter", "count", "flag", "label"])!;
+        PoolCell.Array[5].Array[1, 40].Sample(rows =>
+        {
+            var reused = plan.NewValues();
+            foreach (var cells in rows)
+            {
+                var line = Encoding.ASCII.GetBytes(string.Join(',', cells));
+                bool alone = plan.TryBind(line, plan.NewValues(), out var expected);
+                bool after = plan.TryBind(line, reused, out var actual);
+                Assert.Equal(alone, after);
+                Assert.Equal(expected, actual);
+            }
+        }, iter: 3_000);
+    }
+
     private sealed record Inner(double? Value, string? Note);
 
     private sealed record Sample(double Flow, bool Converged, int Iterations, string Label, Inner? Nested);

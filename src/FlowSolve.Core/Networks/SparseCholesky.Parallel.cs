@@ -101,8 +101,16 @@ public sealed partial class SparseCholesky
     /// Each part runs its subtrees in postorder on its own front and stack; the calling thread takes part 0.</summary>
     private sealed class ParallelPlan : Plan
     {
+        public enum Phase { Factor, Forward, Backward }
+
         public readonly Part[] Parts;
         public readonly double TopShare, Imbalance;
+        /// <summary>Each part front's first row that belongs to a front above the parts (its row count when none).</summary>
+        public readonly int[] Cut;
+        /// <summary>In postorder, the fronts above the parts and the part fronts with rows above the parts: the forward
+        /// solve's sequential rest.</summary>
+        public readonly int[] ForwardTail;
+        private Phase _phase;
         private readonly SparseCholesky _owner;
         private readonly Item[] _items;
         private readonly ManualResetEventSlim _done = new(false);
@@ -112,7 +120,7 @@ public sealed partial class SparseCholesky
         public sealed class Part(int[] nodes)
         {
             public readonly int[] Nodes = nodes;
-            public double[] Front = [], Stack = [];
+            public double[] Front = [], Stack = [], Gather = [];
         }
 
         public ParallelPlan(SparseCholesky c, int parts) : base(c._supernodes)
@@ -207,6 +215,25 @@ public sealed partial class SparseCholesky
             TopStack = topStack.Length <= c._sequential.TopStack.Length ? c._sequential.TopStack : topStack;
             Stacks[parts] = TopStack;
 
+            // The forward solve's split of each part front's rows: its subtree's rows, then those of the fronts above.
+            var superOf = new int[c.Size];
+            for (int sn = 0; sn < count; sn++) for (int j = c._superStart[sn]; j < c._superStart[sn + 1]; j++) superOf[j] = sn;
+            Cut = new int[count];
+            var tail = new List<int>();
+            for (int sn = 0; sn < count; sn++)
+            {
+                int m = c._structStart[sn + 1] - c._structStart[sn], cut = m;
+                if (Owner[sn] < parts)
+                {
+                    for (int r = 0; r < m; r++)
+                        if (Owner[superOf[c._structure[c._structStart[sn] + r]]] == parts) { cut = r; break; }
+                }
+                Cut[sn] = cut;
+                if (Owner[sn] == parts || cut < m) tail.Add(sn);
+            }
+            ForwardTail = tail.ToArray();
+            foreach (var part in Parts) part.Gather = new double[c._gather.Length];
+
             double topTotal = 0;
             foreach (int s in Top)
             {
@@ -220,10 +247,12 @@ public sealed partial class SparseCholesky
             for (int p = 1; p < parts; p++) _items[p] = new Item(this, p);
         }
 
-        /// <summary>Factorises every part, part 0 on the calling thread and the others on the thread pool (or here, when
-        /// no pool thread has started them by then); false when a pivot failed in any part.</summary>
-        public bool Run()
+        /// <summary>Runs one phase (factorisation, forward or backward solve) of every part, part 0 on the calling thread
+        /// and the others on the thread pool (or here, when no pool thread has started them by then); false when a pivot
+        /// failed in any part.</summary>
+        public bool Run(Phase phase)
         {
+            _phase = phase;
             _failed = 0;
             _error = null;
             _pending = Parts.Length - 1;
@@ -243,7 +272,19 @@ public sealed partial class SparseCholesky
             try
             {
                 var part = Parts[p];
-                if (!_owner.FactorNodes(this, part.Nodes, part.Front, part.Stack)) Volatile.Write(ref _failed, 1);
+                var nodes = part.Nodes;
+                switch (_phase)
+                {
+                    case Phase.Factor:
+                        if (!_owner.FactorNodes(this, nodes, part.Front, part.Stack)) Volatile.Write(ref _failed, 1);
+                        break;
+                    case Phase.Forward:
+                        foreach (int s in nodes) _owner.ForwardHead(s, Cut[s], part.Gather);
+                        break;
+                    default:
+                        for (int i = nodes.Length - 1; i >= 0; i--) _owner.Backward(nodes[i], part.Gather);
+                        break;
+                }
             }
             catch (Exception e)
             {

@@ -286,7 +286,7 @@ public sealed partial class SparseCholesky
         int parts = _maxDegreeOfParallelism;
         if (parts <= 1 || _supernodes < 2) return FactorNodes(_sequential, _sequential.Top, _sequential.TopFront, _sequential.TopStack);
         var plan = _plan is { Parts.Length: var p } && p == parts ? _plan : (_plan = new ParallelPlan(this, parts));
-        return plan.Run() && FactorNodes(plan, plan.Top, plan.TopFront, plan.TopStack);
+        return plan.Run(ParallelPlan.Phase.Factor) && FactorNodes(plan, plan.Top, plan.TopFront, plan.TopStack);
     }
 
     /// <summary>Factorises the fronts of <paramref name="nodes"/> in their order (a postorder of whole subtrees, or the
@@ -397,48 +397,94 @@ public sealed partial class SparseCholesky
     /// <summary>Solves A x = b with the factor of the last successful <see cref="Factorise"/>; allocation-free.</summary>
     /// <param name="b">Right-hand side, length n.</param>
     /// <param name="x">Solution, length n (may be the same memory as <paramref name="b"/>).</param>
+    /// <remarks>With the parallel schedule of <see cref="Factorise"/> the parts' subtrees are solved at the same time as
+    /// well, with the same operations on every entry in the same order as the sequential solve, so the solution is the
+    /// same bit for bit: forward, each part solves its fronts' own rows, then the rows of the fronts above the parts are
+    /// updated on the calling thread in postorder; backward, the fronts above first, then the parts.</remarks>
     public void Solve(ReadOnlySpan<double> b, Span<double> x)
     {
         int n = Size;
         var y = _work.AsSpan(0, n);
         for (int i = 0; i < n; i++) y[i] = b[_order[i]];
-        var factor = _factor.AsSpan();
-        var structure = _structure.AsSpan();
-        // L y = P b, supernode by supernode: gather the supernode's rows, solve densely, scatter back.
-        for (int s = 0; s < _supernodes; s++)
+        var plan = _maxDegreeOfParallelism > 1 && _plan is { Parts.Length: var p } && p == _maxDegreeOfParallelism ? _plan : null;
+        if (plan is null)
         {
-            int f = _superStart[s], k = _superStart[s + 1] - f;
-            int m = _structStart[s + 1] - _structStart[s];
-            var rows = structure.Slice(_structStart[s], m);
-            var block = factor.Slice(_blockStart[s], m * k);
-            var t = _gather.AsSpan(0, m);
-            for (int r = 0; r < m; r++) t[r] = y[rows[r]];
-            for (int j = 0; j < k; j++)
-            {
-                var column = block.Slice(j * m, m);
-                double tj = t[j] / column[j];
-                t[j] = tj;
-                if (tj != 0) SubtractOne(t[(j + 1)..], column[(j + 1)..], tj);
-            }
-            for (int r = 0; r < m; r++) y[rows[r]] = t[r];
+            // L y = P b, supernode by supernode: gather the supernode's rows, solve densely, scatter back; then
+            // L^T z = y in reverse.
+            for (int s = 0; s < _supernodes; s++) ForwardHead(s, _structStart[s + 1] - _structStart[s], _gather);
+            for (int s = _supernodes - 1; s >= 0; s--) Backward(s, _gather);
         }
-        // L^T z = y, in reverse.
-        for (int s = _supernodes - 1; s >= 0; s--)
+        else
         {
-            int f = _superStart[s], k = _superStart[s + 1] - f;
-            int m = _structStart[s + 1] - _structStart[s];
-            var rows = structure.Slice(_structStart[s], m);
-            var block = factor.Slice(_blockStart[s], m * k);
-            var t = _gather.AsSpan(0, m);
-            for (int r = 0; r < m; r++) t[r] = y[rows[r]];
-            for (int j = k - 1; j >= 0; j--)
+            plan.Run(ParallelPlan.Phase.Forward);
+            foreach (int s in plan.ForwardTail)
             {
-                var column = block.Slice(j * m, m);
-                t[j] = (t[j] - Dot(column[(j + 1)..], t[(j + 1)..])) / column[j];
+                int m = _structStart[s + 1] - _structStart[s];
+                if (plan.Owner[s] == plan.Parts.Length) ForwardHead(s, m, _gather);
+                else ForwardTail(s, plan.Cut[s], _gather);
             }
-            for (int j = 0; j < k; j++) y[f + j] = t[j];
+            for (int t = plan.Top.Length - 1; t >= 0; t--) Backward(plan.Top[t], _gather);
+            plan.Run(ParallelPlan.Phase.Backward);
         }
         for (int i = 0; i < n; i++) x[_order[i]] = y[i];
+    }
+
+    /// <summary>Forward solve of supernode s on its rows [0, cut): the supernode's own columns divided out and their
+    /// products subtracted from the rows below up to cut (all of them when cut is its row count).</summary>
+    private void ForwardHead(int s, int cut, double[] gather)
+    {
+        var y = _work.AsSpan();
+        int k = _superStart[s + 1] - _superStart[s];
+        int m = _structStart[s + 1] - _structStart[s];
+        var rows = _structure.AsSpan(_structStart[s], cut);
+        var block = _factor.AsSpan(_blockStart[s], m * k);
+        var t = gather.AsSpan(0, cut);
+        for (int r = 0; r < cut; r++) t[r] = y[rows[r]];
+        for (int j = 0; j < k; j++)
+        {
+            var column = block.Slice(j * m, cut);
+            double tj = t[j] / column[j];
+            t[j] = tj;
+            if (tj != 0) SubtractOne(t[(j + 1)..], column[(j + 1)..], tj);
+        }
+        for (int r = 0; r < cut; r++) y[rows[r]] = t[r];
+    }
+
+    /// <summary>The rest of supernode s's forward solve after <see cref="ForwardHead"/> stopped at cut: the products of
+    /// its solved columns subtracted from its rows [cut, m), in the same order as a whole forward step.</summary>
+    private void ForwardTail(int s, int cut, double[] gather)
+    {
+        var y = _work.AsSpan();
+        int f = _superStart[s], k = _superStart[s + 1] - f;
+        int m = _structStart[s + 1] - _structStart[s], w = m - cut;
+        var rows = _structure.AsSpan(_structStart[s] + cut, w);
+        var block = _factor.AsSpan(_blockStart[s], m * k);
+        var t = gather.AsSpan(0, w);
+        for (int r = 0; r < w; r++) t[r] = y[rows[r]];
+        for (int j = 0; j < k; j++)
+        {
+            double tj = y[f + j];
+            if (tj != 0) SubtractOne(t, block.Slice(j * m + cut, w), tj);
+        }
+        for (int r = 0; r < w; r++) y[rows[r]] = t[r];
+    }
+
+    /// <summary>Backward solve of supernode s: its own unknowns from the rows below, which are solved already.</summary>
+    private void Backward(int s, double[] gather)
+    {
+        var y = _work.AsSpan();
+        int f = _superStart[s], k = _superStart[s + 1] - f;
+        int m = _structStart[s + 1] - _structStart[s];
+        var rows = _structure.AsSpan(_structStart[s], m);
+        var block = _factor.AsSpan(_blockStart[s], m * k);
+        var t = gather.AsSpan(0, m);
+        for (int r = 0; r < m; r++) t[r] = y[rows[r]];
+        for (int j = k - 1; j >= 0; j--)
+        {
+            var column = block.Slice(j * m, m);
+            t[j] = (t[j] - Dot(column[(j + 1)..], t[(j + 1)..])) / column[j];
+        }
+        for (int j = 0; j < k; j++) y[f + j] = t[j];
     }
 
     /// <summary>Relaxed supernodes (Ashcraft and Grimes 1989, ACM TOMS 15(4)): a fundamental supernode is merged into the

@@ -36,9 +36,9 @@ public sealed partial class SparseCholesky
     /// of the tree), for the last parallel schedule; 0 before one is made.</summary>
     internal int ParallelTopFronts => _plan?.Top.Length ?? 0;
 
-    /// <summary>Share of the factorisation's work in the fronts after the parallel parts, and the largest part's share
-    /// of the rest against an even split (1 is perfect balance), for the last parallel schedule.</summary>
-    internal (double TopShare, double Imbalance) ParallelBalance => _plan is null ? (0, 0) : (_plan.TopShare, _plan.Imbalance);
+    /// <summary>Shares of the factorisation's work in the longest chain of fronts above the parts (each waiting for the
+    /// one below) and in the largest part, for the last parallel schedule.</summary>
+    internal (double TopChain, double LargestPart) ParallelBalance => _plan is null ? (0, 0) : (_plan.TopChain, _plan.LargestPart);
 
     /// <summary>Sequential multifrontal schedule: the nodes of <see cref="Top"/> run in this order on one update stack.
     /// <see cref="Owner"/>[s] indexes <see cref="Stacks"/>, the stack that holds front s's update matrix, at
@@ -94,38 +94,54 @@ public sealed partial class SparseCholesky
         }
     }
 
-    /// <summary>A static split of the elimination tree (Geist and Ng 1989, Int. J. Parallel Programming 18(4), the
-    /// subtree-to-processor mapping): the heaviest subtree of a candidate set is replaced by its children (its root joins
-    /// the fronts above, <see cref="Plan.Top"/>) until the candidates, dealt heaviest first to the least loaded part,
-    /// balance; the schedule kept is the one with the least work on the longest path (largest part plus top fronts).
-    /// Each part runs its subtrees in postorder on its own front and stack; the calling thread takes part 0.</summary>
+    /// <summary>A split of the elimination tree into tasks (after Geist and Ng 1989, Int. J. Parallel Programming 18(4),
+    /// the subtree-to-processor mapping): the heaviest subtree of a candidate set is replaced by its children (its root
+    /// joins the fronts above, <see cref="Plan.Top"/>) while it holds more than a part's share of the work, then the
+    /// subtrees are dealt heaviest first to the least loaded of <see cref="PartsPerThread"/> parts a thread. Each part
+    /// (whole subtrees in postorder, on its own update stack) and each front above the parts is a task; a front above
+    /// becomes ready when its children are done, and the threads take ready tasks as they come free, so that the
+    /// separators under the top one run side by side too, and a thread that the machine's load holds back delays the
+    /// others by one task at most.</summary>
     private sealed class ParallelPlan : Plan
     {
         public enum Phase { Factor, Forward, Backward }
 
+        /// <summary>Parts for each thread: enough that a held-back thread costs little, few enough that the separators
+        /// above them stay a small share of the work (measured, see docs/performance.md).</summary>
+        public const int PartsPerThread = 4;
+
+        public readonly int Threads;
         public readonly Part[] Parts;
-        public readonly double TopShare, Imbalance;
+        public readonly double TopChain, LargestPart;
         /// <summary>Each part front's first row that belongs to a front above the parts (its row count when none).</summary>
         public readonly int[] Cut;
         /// <summary>In postorder, the fronts above the parts and the part fronts with rows above the parts: the forward
         /// solve's sequential rest.</summary>
         public readonly int[] ForwardTail;
-        private Phase _phase;
         private readonly SparseCholesky _owner;
-        private readonly Item[] _items;
-        private readonly ManualResetEventSlim _done = new(false);
-        private int _generation, _pending, _failed;
+        private readonly int[] _topIndex;            // supernode -> index in Top, -1 elsewhere
+        private readonly int[] _waitingStart;        // children of each top front, as a count of tasks
+        private readonly int[] _notify, _notifyStart; // each task's fronts above to tell when it is done
+        private readonly int[] _waiting, _ready;
+        private readonly double[][] _fronts, _gathers; // one per thread slot
+        private readonly bool[] _slotBusy;
+        private readonly Helper[] _helpers;
+        private readonly object _gate = new();
+        private Phase _phase;
+        private int _readyCount, _unfinished, _failed;
         private Exception? _error;
 
         public sealed class Part(int[] nodes)
         {
             public readonly int[] Nodes = nodes;
-            public double[] Front = [], Stack = [], Gather = [];
+            public double[] Stack = [];
         }
 
-        public ParallelPlan(SparseCholesky c, int parts) : base(c._supernodes)
+        public ParallelPlan(SparseCholesky c, int threads) : base(c._supernodes)
         {
             _owner = c;
+            Threads = threads;
+            int parts = PartsPerThread * threads;
             int count = c._supernodes;
             // Work of each front (its multiply-adds plus the front's size, for the assembly) and of each subtree.
             var work = new double[count];
@@ -144,76 +160,113 @@ public sealed partial class SparseCholesky
                 }
                 work[s] = w;
             }
-            var isChild = new bool[count];
-            foreach (int child in c._children) isChild[child] = true;
+            var parent = new int[count];
+            Array.Fill(parent, -1);
+            for (int s = 0; s < count; s++)
+                for (int i = c._childStart[s]; i < c._childStart[s + 1]; i++) parent[c._children[i]] = s;
             var candidates = new List<int>();
             double total = 0;
-            for (int s = 0; s < count; s++) if (!isChild[s]) { candidates.Add(s); total += work[s]; }
+            for (int s = 0; s < count; s++) if (parent[s] < 0) { candidates.Add(s); total += work[s]; }
 
+            // Split the heaviest subtree while it holds more than a part's share of the work.
             var top = new List<int>();
-            double topWork = 0;
-            var bins = new double[parts];
-            var best = (Length: double.MaxValue, Top: 0, Candidates: Array.Empty<int>());
-            for (int step = 0; step < 64 * parts + 64; step++)
+            double share = total / parts;
+            for (int step = 0; step < 16 * parts && candidates.Count > 0; step++)
             {
                 candidates.Sort((a, b) => work[b].CompareTo(work[a]));
-                Array.Clear(bins);
-                foreach (int s in candidates) bins[Array.IndexOf(bins, bins.Min())] += work[s];
-                double length = topWork + bins.Max();
-                if (length < best.Length) best = (length, top.Count, candidates.ToArray());
-                double even = (total - topWork) / parts;
-                if (bins.Max() <= 1.02 * even) break;
                 int heaviest = candidates[0];
-                if (c._childStart[heaviest] == c._childStart[heaviest + 1]) break; // a leaf: nothing left to split
+                if (work[heaviest] <= share || c._childStart[heaviest] == c._childStart[heaviest + 1]) break;
                 candidates.RemoveAt(0);
                 top.Add(heaviest);
-                // The front's own work moves to the top; its children's subtrees become candidates.
-                double own = work[heaviest];
-                for (int i = c._childStart[heaviest]; i < c._childStart[heaviest + 1]; i++)
-                {
-                    candidates.Add(c._children[i]);
-                    own -= work[c._children[i]];
-                }
-                topWork += own;
+                for (int i = c._childStart[heaviest]; i < c._childStart[heaviest + 1]; i++) candidates.Add(c._children[i]);
             }
 
-            // Deal the best candidate set again, then give each part its subtrees in ascending order (a postorder).
-            var chosen = best.Candidates;
+            // Deal the subtrees, heaviest first to the least loaded part; each part takes its subtrees in ascending
+            // order (a postorder). Parts are offered heaviest first, so that the last ones taken are short.
+            var chosen = candidates.ToArray();
             Array.Sort(chosen, (a, b) => work[b].CompareTo(work[a]));
+            var bins = new double[parts];
             var dealt = new List<int>[parts];
             for (int p = 0; p < parts; p++) dealt[p] = [];
-            Array.Clear(bins);
             foreach (int s in chosen)
             {
                 int p = Array.IndexOf(bins, bins.Min());
                 bins[p] += work[s];
                 dealt[p].Add(s);
             }
+            var byWork = new int[parts];
+            for (int p = 0; p < parts; p++) byWork[p] = p;
+            Array.Sort(byWork, (x, y) => bins[y].CompareTo(bins[x]));
             Parts = new Part[parts];
             for (int p = 0; p < parts; p++)
             {
-                dealt[p].Sort();
+                var roots = dealt[byWork[p]];
+                roots.Sort();
                 var nodes = new List<int>();
-                foreach (int root in dealt[p]) for (int s = first[root]; s <= root; s++) nodes.Add(s);
+                foreach (int root in roots) for (int s = first[root]; s <= root; s++) nodes.Add(s);
                 Parts[p] = new Part(nodes.ToArray());
                 foreach (int s in Parts[p].Nodes) Owner[s] = p;
             }
-            var topNodes = top.GetRange(0, best.Top).ToArray();
+            var topNodes = top.ToArray();
             Array.Sort(topNodes);
             Top = topNodes;
             foreach (int s in Top) Owner[s] = parts;
             Stacks = new double[parts + 1][];
+            long frontMax = 0;
             for (int p = 0; p < parts; p++)
             {
-                (Parts[p].Front, Parts[p].Stack) = Lay(c, Parts[p].Nodes, p);
-                Stacks[p] = Parts[p].Stack;
+                var (front, stack) = Lay(c, Parts[p].Nodes, p);
+                Parts[p].Stack = stack;
+                Stacks[p] = stack;
+                frontMax = Math.Max(frontMax, front.Length);
             }
-            // The top fronts reuse the sequential front and stack when they are large enough (they are: the sequential
-            // stack holds at least the top fronts' pending updates at every step).
-            var (topFront, topStack) = Lay(c, Top, parts);
-            TopFront = topFront.Length <= c._sequential.TopFront.Length ? c._sequential.TopFront : topFront;
-            TopStack = topStack.Length <= c._sequential.TopStack.Length ? c._sequential.TopStack : topStack;
+            // The fronts above the parts keep their updates apart (they finish in any order), one after another.
+            long updates = 0;
+            foreach (int s in Top)
+            {
+                int m = c._structStart[s + 1] - c._structStart[s], k = c._superStart[s + 1] - c._superStart[s];
+                UpdateOffset[s] = (int)updates;
+                updates += (long)(m - k) * (m - k);
+                frontMax = Math.Max(frontMax, (long)m * m);
+                if (updates > Array.MaxLength) throw new ArgumentException("the factor is too large for this pattern", "columns");
+            }
+            TopStack = new double[updates];
             Stacks[parts] = TopStack;
+            _fronts = new double[threads][];
+            _gathers = new double[threads][];
+            for (int t = 0; t < threads; t++)
+            {
+                _fronts[t] = t == 0 && c._sequential.TopFront.Length >= frontMax ? c._sequential.TopFront : new double[frontMax];
+                _gathers[t] = t == 0 ? c._gather : new double[c._gather.Length];
+            }
+            TopFront = _fronts[0];
+            _slotBusy = new bool[threads];
+
+            // Tasks: parts 0..P-1, then the fronts above, P + index in Top. Each front above waits for its children's
+            // tasks (a part holding several of its children counts once for each); each task tells its fronts above.
+            _topIndex = new int[count];
+            Array.Fill(_topIndex, -1);
+            for (int t = 0; t < Top.Length; t++) _topIndex[Top[t]] = t;
+            _waitingStart = new int[Top.Length];
+            _waiting = new int[Top.Length];
+            _ready = new int[parts + Top.Length];
+            var notify = new List<int>();
+            _notifyStart = new int[parts + Top.Length + 1];
+            for (int task = 0; task < parts + Top.Length; task++)
+            {
+                if (task < parts)
+                {
+                    foreach (int root in dealt[byWork[task]])
+                        if (parent[root] >= 0) { notify.Add(_topIndex[parent[root]]); _waitingStart[_topIndex[parent[root]]]++; }
+                }
+                else
+                {
+                    int s = Top[task - parts];
+                    if (parent[s] >= 0) { notify.Add(_topIndex[parent[s]]); _waitingStart[_topIndex[parent[s]]]++; }
+                }
+                _notifyStart[task + 1] = notify.Count;
+            }
+            _notify = notify.ToArray();
 
             // The forward solve's split of each part front's rows: its subtree's rows, then those of the fronts above.
             var superOf = new int[c.Size];
@@ -232,57 +285,117 @@ public sealed partial class SparseCholesky
                 if (Owner[sn] == parts || cut < m) tail.Add(sn);
             }
             ForwardTail = tail.ToArray();
-            foreach (var part in Parts) part.Gather = new double[c._gather.Length];
 
-            double topTotal = 0;
+            // The longest chain of fronts above the parts, each waiting for the one below: the part of the work that no
+            // number of threads shortens.
+            var chain = new double[count];
+            double longest = 0;
             foreach (int s in Top)
             {
-                double own = work[s];
-                for (int i = c._childStart[s]; i < c._childStart[s + 1]; i++) own -= work[c._children[i]];
-                topTotal += own;
+                double own = work[s], below = 0;
+                for (int i = c._childStart[s]; i < c._childStart[s + 1]; i++)
+                {
+                    int child = c._children[i];
+                    own -= work[child];
+                    below = Math.Max(below, chain[child]);
+                }
+                chain[s] = own + below;
+                longest = Math.Max(longest, chain[s]);
             }
-            TopShare = total > 0 ? topTotal / total : 0;
-            Imbalance = total > topTotal ? bins.Max() / ((total - topTotal) / parts) : 1;
-            _items = new Item[parts];
-            for (int p = 1; p < parts; p++) _items[p] = new Item(this, p);
+            TopChain = total > 0 ? longest / total : 0;
+            LargestPart = total > 0 ? bins.Max() / total : 0;
+            _helpers = new Helper[threads - 1];
+            for (int h = 0; h < _helpers.Length; h++) _helpers[h] = new Helper(this);
         }
 
-        /// <summary>Runs one phase (factorisation, forward or backward solve) of every part, part 0 on the calling thread
-        /// and the others on the thread pool (or here, when no pool thread has started them by then); false when a pivot
-        /// failed in any part.</summary>
+        /// <summary>Runs one phase: the factorisation (every part and every front above them), or the parts of the
+        /// forward or backward solve. The calling thread and <see cref="Threads"/> - 1 thread-pool work items take ready
+        /// tasks until none is left (when the pool is busy, the calling thread runs them all); false when a pivot failed.</summary>
         public bool Run(Phase phase)
         {
-            _phase = phase;
-            _failed = 0;
-            _error = null;
-            _pending = Parts.Length - 1;
-            _done.Reset();
-            int generation = Interlocked.Increment(ref _generation); // publishes the lines above to the pool threads
-            for (int p = 1; p < Parts.Length; p++) ThreadPool.UnsafeQueueUserWorkItem(_items[p], preferLocal: false);
-            RunPart(0);
-            for (int p = 1; p < Parts.Length; p++)
-                if (_items[p].TryClaim(generation)) { RunPart(p); Finish(); }
-            if (Volatile.Read(ref _pending) > 0) _done.Wait();
+            lock (_gate)
+            {
+                _phase = phase;
+                _failed = 0;
+                _error = null;
+                int parts = Parts.Length;
+                _unfinished = phase == Phase.Factor ? parts + Top.Length : parts;
+                Array.Copy(_waitingStart, _waiting, _waiting.Length);
+                // A stack: the heaviest part is taken first.
+                _readyCount = 0;
+                for (int p = parts - 1; p >= 0; p--) _ready[_readyCount++] = p;
+            }
+            foreach (var helper in _helpers) ThreadPool.UnsafeQueueUserWorkItem(helper, preferLocal: false);
+            Work(0);
             if (_error is not null) ExceptionDispatchInfo.Throw(_error);
-            return Volatile.Read(ref _failed) == 0;
+            return _failed == 0;
         }
 
-        private void RunPart(int p)
+        /// <summary>Takes ready tasks until every task of the current phase is done; the calling thread (slot 0) returns
+        /// only then. A helper takes a free slot (its front and gather space) or leaves when there is none; a helper
+        /// queued for an earlier call that runs late finds nothing unfinished and leaves, or helps the current call.</summary>
+        private void Work(int slot)
         {
+            lock (_gate)
+            {
+                if (slot != 0)
+                {
+                    slot = Array.IndexOf(_slotBusy, false, 1);
+                    if (slot < 0 || _unfinished == 0) return;
+                }
+                _slotBusy[slot] = true;
+            }
             try
             {
-                var part = Parts[p];
+                while (true)
+                {
+                    int task;
+                    lock (_gate)
+                    {
+                        while (_readyCount == 0 && _unfinished > 0) Monitor.Wait(_gate);
+                        if (_unfinished == 0) return;
+                        task = _ready[--_readyCount];
+                    }
+                    RunTask(task, slot);
+                    lock (_gate)
+                    {
+                        if (_phase == Phase.Factor)
+                            for (int i = _notifyStart[task]; i < _notifyStart[task + 1]; i++)
+                                if (--_waiting[_notify[i]] == 0) _ready[_readyCount++] = Parts.Length + _notify[i];
+                        _unfinished--;
+                        Monitor.PulseAll(_gate);
+                    }
+                }
+            }
+            finally
+            {
+                lock (_gate) _slotBusy[slot] = false;
+            }
+        }
+
+        private void RunTask(int task, int slot)
+        {
+            if (Volatile.Read(ref _failed) != 0) return; // a failed pivot: the rest is not needed
+            try
+            {
+                if (task >= Parts.Length)
+                {
+                    if (!_owner.FactorNode(this, Top[task - Parts.Length], _fronts[slot], TopStack)) Volatile.Write(ref _failed, 1);
+                    return;
+                }
+                var part = Parts[task];
                 var nodes = part.Nodes;
                 switch (_phase)
                 {
                     case Phase.Factor:
-                        if (!_owner.FactorNodes(this, nodes, part.Front, part.Stack)) Volatile.Write(ref _failed, 1);
+                        foreach (int s in nodes)
+                            if (!_owner.FactorNode(this, s, _fronts[slot], part.Stack)) { Volatile.Write(ref _failed, 1); return; }
                         break;
                     case Phase.Forward:
-                        foreach (int s in nodes) _owner.ForwardHead(s, Cut[s], part.Gather);
+                        foreach (int s in nodes) _owner.ForwardHead(s, Cut[s], _gathers[slot]);
                         break;
                     default:
-                        for (int i = nodes.Length - 1; i >= 0; i--) _owner.Backward(nodes[i], part.Gather);
+                        for (int i = nodes.Length - 1; i >= 0; i--) _owner.Backward(nodes[i], _gathers[slot]);
                         break;
                 }
             }
@@ -293,24 +406,9 @@ public sealed partial class SparseCholesky
             }
         }
 
-        private void Finish()
+        private sealed class Helper(ParallelPlan plan) : IThreadPoolWorkItem
         {
-            if (Interlocked.Decrement(ref _pending) == 0) _done.Set();
-        }
-
-        /// <summary>One part's work item, queued again at every factorisation. It runs the part of the current
-        /// factorisation only if nobody has claimed it yet (a stale queue entry finds it claimed and does nothing).</summary>
-        private sealed class Item(ParallelPlan plan, int part) : IThreadPoolWorkItem
-        {
-            private int _claimed;
-
-            public bool TryClaim(int generation) =>
-                Interlocked.CompareExchange(ref _claimed, generation, generation - 1) == generation - 1;
-
-            public void Execute()
-            {
-                if (TryClaim(Volatile.Read(ref plan._generation))) { plan.RunPart(part); plan.Finish(); }
-            }
+            public void Execute() => plan.Work(-1);
         }
     }
 }

@@ -285,47 +285,50 @@ public sealed partial class SparseCholesky
     {
         int parts = _maxDegreeOfParallelism;
         if (parts <= 1 || _supernodes < 2) return FactorNodes(_sequential, _sequential.Top, _sequential.TopFront, _sequential.TopStack);
-        var plan = _plan is { Parts.Length: var p } && p == parts ? _plan : (_plan = new ParallelPlan(this, parts));
-        return plan.Run(ParallelPlan.Phase.Factor) && FactorNodes(plan, plan.Top, plan.TopFront, plan.TopStack);
+        var plan = _plan is { Threads: var p } && p == parts ? _plan : (_plan = new ParallelPlan(this, parts));
+        return plan.Run(ParallelPlan.Phase.Factor);
     }
 
-    /// <summary>Factorises the fronts of <paramref name="nodes"/> in their order (a postorder of whole subtrees, or the
-    /// fronts above them), with this front and update stack. Each child's update is read where the plan put it (its
-    /// owner's stack), and each front's update written where the plan puts it.</summary>
-    private bool FactorNodes(Plan plan, int[] nodes, double[] frontStore, double[] stackStore)
+    /// <summary>Factorises the fronts of <paramref name="nodes"/> in their order (a postorder of whole subtrees) with
+    /// this front and update stack.</summary>
+    private bool FactorNodes(Plan plan, int[] nodes, double[] front, double[] stack)
+    {
+        foreach (int s in nodes) if (!FactorNode(plan, s, front, stack)) return false;
+        return true;
+    }
+
+    /// <summary>Factorises front s in this front space: its entries of A, then its children's updates from the last
+    /// child to the first, read where the plan put them (their owner's stack); its update is written where the plan
+    /// puts it in <paramref name="stackStore"/>.</summary>
+    private bool FactorNode(Plan plan, int s, double[] frontStore, double[] stackStore)
     {
         var values = _values;
-        var front = frontStore.AsSpan();
-        var stack = stackStore.AsSpan();
         var offset = plan.UpdateOffset;
         var owner = plan.Owner;
         var stacks = plan.Stacks;
-        foreach (int s in nodes)
+        int k = _superStart[s + 1] - _superStart[s];
+        int m = _structStart[s + 1] - _structStart[s], u = m - k;
+        var f = frontStore.AsSpan(0, m * m);
+        f.Clear();
+        for (int a = _assemblyStart[s]; a < _assemblyStart[s + 1]; a++) f[_assemblyTarget[a]] += values[_assemblySource[a]];
+        // Extend-add the children's updates, last child first (the order of a sequential update stack).
+        for (int c = _childStart[s + 1] - 1; c >= _childStart[s]; c--)
         {
-            int k = _superStart[s + 1] - _superStart[s];
-            int m = _structStart[s + 1] - _structStart[s], u = m - k;
-            var f = front[..(m * m)];
-            f.Clear();
-            for (int a = _assemblyStart[s]; a < _assemblyStart[s + 1]; a++) f[_assemblyTarget[a]] += values[_assemblySource[a]];
-            // Extend-add the children's updates, last child first (the order of a sequential update stack).
-            for (int c = _childStart[s + 1] - 1; c >= _childStart[s]; c--)
+            int child = _children[c];
+            int cu = _structStart[child + 1] - _structStart[child] - (_superStart[child + 1] - _superStart[child]);
+            var update = stacks[owner[child]].AsSpan(offset[child], cu * cu);
+            var rel = _relative.AsSpan(_relativeStart[child], cu);
+            for (int q = 0; q < cu; q++)
             {
-                int child = _children[c];
-                int cu = _structStart[child + 1] - _structStart[child] - (_superStart[child + 1] - _superStart[child]);
-                var update = stacks[owner[child]].AsSpan(offset[child], cu * cu);
-                var rel = _relative.AsSpan(_relativeStart[child], cu);
-                for (int q = 0; q < cu; q++)
-                {
-                    var column = f[(rel[q] * m)..];
-                    var source = update.Slice(q * cu, cu);
-                    for (int r = q; r < cu; r++) column[rel[r]] += source[r];
-                }
+                var column = f[(rel[q] * m)..];
+                var source = update.Slice(q * cu, cu);
+                for (int r = q; r < cu; r++) column[rel[r]] += source[r];
             }
-            if (!FactorFront(f, m, k)) return false;
-            f[..(m * k)].CopyTo(_factor.AsSpan(_blockStart[s], m * k));
-            var to = stack.Slice(offset[s], u * u);
-            for (int q = 0; q < u; q++) f.Slice((k + q) * m + k, u).CopyTo(to.Slice(q * u, u));
         }
+        if (!FactorFront(f, m, k)) return false;
+        f[..(m * k)].CopyTo(_factor.AsSpan(_blockStart[s], m * k));
+        var to = stackStore.AsSpan(offset[s], u * u);
+        for (int q = 0; q < u; q++) f.Slice((k + q) * m + k, u).CopyTo(to.Slice(q * u, u));
         return true;
     }
 
@@ -406,7 +409,7 @@ public sealed partial class SparseCholesky
         int n = Size;
         var y = _work.AsSpan(0, n);
         for (int i = 0; i < n; i++) y[i] = b[_order[i]];
-        var plan = _maxDegreeOfParallelism > 1 && _plan is { Parts.Length: var p } && p == _maxDegreeOfParallelism ? _plan : null;
+        var plan = _maxDegreeOfParallelism > 1 && _plan is { Threads: var p } && p == _maxDegreeOfParallelism ? _plan : null;
         if (plan is null)
         {
             // L y = P b, supernode by supernode: gather the supernode's rows, solve densely, scatter back; then

@@ -18,9 +18,10 @@ public sealed partial class SparseCholesky
     /// <summary>How many threads one <see cref="Factorise"/> may use (at least 1). The default is
     /// <see cref="Environment.ProcessorCount"/> when the factorisation is large enough to gain from it (about 5 000 pipes
     /// on a grid and more) and 1 below. Set it to 1 when the caller already runs one solver per core. The factor is the
-    /// same bit for bit whatever the setting. The first factorisation after a change sets up the schedule and each
-    /// thread's work space (allocated once); the thread pool runs the other parts, and the calling thread takes any part
-    /// that no pool thread has started, so a busy pool slows a factorisation but cannot stall it.</summary>
+    /// same bit for bit whatever the setting, and so is the solution of <see cref="Solve"/>. The first factorisation
+    /// after a change sets up the schedule and each thread's work space (allocated once; later factorisations allocate
+    /// nothing); thread-pool work items help the calling thread, which itself takes every task that no pool thread has
+    /// started, so a busy pool slows a factorisation but cannot stall it.</summary>
     /// <exception cref="ArgumentOutOfRangeException">The value is below 1.</exception>
     public int MaxDegreeOfParallelism
     {
@@ -32,8 +33,8 @@ public sealed partial class SparseCholesky
         }
     }
 
-    /// <summary>Number of fronts factorised on the calling thread after the parallel parts (the separators at the top
-    /// of the tree), for the last parallel schedule; 0 before one is made.</summary>
+    /// <summary>Number of fronts above the parallel parts (the separators at the top of the tree), each a task of its
+    /// own, for the last parallel schedule; 0 before one is made.</summary>
     internal int ParallelTopFronts => _plan?.Top.Length ?? 0;
 
     /// <summary>Shares of the factorisation's work in the longest chain of fronts above the parts (each waiting for the
@@ -62,15 +63,15 @@ public sealed partial class SparseCholesky
             Top = new int[c._supernodes];
             for (int s = 0; s < Top.Length; s++) Top[s] = s;
             var (front, stack) = Lay(c, Top, 0);
-            TopFront = front;
+            TopFront = new double[front];
             TopStack = stack;
             Stacks = [stack];
         }
 
         /// <summary>Replays <paramref name="nodes"/> (owned by <paramref name="owner"/>) as an update stack: each front
         /// pops its children of the same owner (they are on top, a postorder of whole subtrees keeps that) and pushes its
-        /// own update. Sets the offsets and returns a front and a stack large enough.</summary>
-        protected (double[] Front, double[] Stack) Lay(SparseCholesky c, int[] nodes, int owner)
+        /// own update. Sets the offsets and returns the largest front's length and a stack large enough.</summary>
+        protected (long FrontLength, double[] Stack) Lay(SparseCholesky c, int[] nodes, int owner)
         {
             long depth = 0, peak = 0, frontMax = 0;
             foreach (int s in nodes)
@@ -84,7 +85,7 @@ public sealed partial class SparseCholesky
                 frontMax = Math.Max(frontMax, m * m);
             }
             if (peak > Array.MaxLength) throw new ArgumentException("the factor is too large for this pattern", "columns");
-            return (new double[frontMax], new double[peak]);
+            return (frontMax, new double[peak]);
         }
 
         private static long Update(SparseCholesky c, int s)
@@ -218,7 +219,7 @@ public sealed partial class SparseCholesky
                 var (front, stack) = Lay(c, Parts[p].Nodes, p);
                 Parts[p].Stack = stack;
                 Stacks[p] = stack;
-                frontMax = Math.Max(frontMax, front.Length);
+                frontMax = Math.Max(frontMax, front);
             }
             // The fronts above the parts keep their updates apart (they finish in any order), one after another.
             long updates = 0;

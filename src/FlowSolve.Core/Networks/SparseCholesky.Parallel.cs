@@ -18,7 +18,7 @@ public sealed partial class SparseCholesky
     /// <summary>How many threads one <see cref="Factorise"/> may use (at least 1). The default is
     /// <see cref="Environment.ProcessorCount"/> when the factorisation is large enough to gain from it (about 5 000 pipes
     /// on a grid and more) and 1 below. Set it to 1 when the caller already runs one solver per core. The factor is the
-    /// same bit for bit whatever the setting, and so is the solution of <see cref="Solve"/>. The first factorisation
+    /// same bit for bit whatever the setting. The first factorisation
     /// after a change sets up the schedule and each thread's work space (allocated once; later factorisations allocate
     /// nothing); thread-pool work items help the calling thread, which itself takes every task that no pool thread has
     /// started, so a busy pool slows a factorisation but cannot stall it.</summary>
@@ -105,8 +105,6 @@ public sealed partial class SparseCholesky
     /// others by one task at most.</summary>
     private sealed class ParallelPlan : Plan
     {
-        public enum Phase { Factor, Forward, Backward }
-
         /// <summary>Parts for each thread: enough that a held-back thread costs little, few enough that the separators
         /// above them stay a small share of the work (measured, see docs/performance.md).</summary>
         public const int PartsPerThread = 4;
@@ -114,21 +112,15 @@ public sealed partial class SparseCholesky
         public readonly int Threads;
         public readonly Part[] Parts;
         public readonly double TopChain, LargestPart;
-        /// <summary>Each part front's first row that belongs to a front above the parts (its row count when none).</summary>
-        public readonly int[] Cut;
-        /// <summary>In postorder, the fronts above the parts and the part fronts with rows above the parts: the forward
-        /// solve's sequential rest.</summary>
-        public readonly int[] ForwardTail;
         private readonly SparseCholesky _owner;
         private readonly int[] _topIndex;            // supernode -> index in Top, -1 elsewhere
         private readonly int[] _waitingStart;        // children of each top front, as a count of tasks
         private readonly int[] _notify, _notifyStart; // each task's fronts above to tell when it is done
         private readonly int[] _waiting, _ready;
-        private readonly double[][] _fronts, _gathers; // one per thread slot
+        private readonly double[][] _fronts;          // one per thread slot
         private readonly bool[] _slotBusy;
         private readonly Helper[] _helpers;
         private readonly object _gate = new();
-        private Phase _phase;
         private int _readyCount, _unfinished, _failed;
         private Exception? _error;
 
@@ -234,12 +226,8 @@ public sealed partial class SparseCholesky
             TopStack = new double[updates];
             Stacks[parts] = TopStack;
             _fronts = new double[threads][];
-            _gathers = new double[threads][];
             for (int t = 0; t < threads; t++)
-            {
                 _fronts[t] = t == 0 && c._sequential.TopFront.Length >= frontMax ? c._sequential.TopFront : new double[frontMax];
-                _gathers[t] = t == 0 ? c._gather : new double[c._gather.Length];
-            }
             TopFront = _fronts[0];
             _slotBusy = new bool[threads];
 
@@ -269,24 +257,6 @@ public sealed partial class SparseCholesky
             }
             _notify = notify.ToArray();
 
-            // The forward solve's split of each part front's rows: its subtree's rows, then those of the fronts above.
-            var superOf = new int[c.Size];
-            for (int sn = 0; sn < count; sn++) for (int j = c._superStart[sn]; j < c._superStart[sn + 1]; j++) superOf[j] = sn;
-            Cut = new int[count];
-            var tail = new List<int>();
-            for (int sn = 0; sn < count; sn++)
-            {
-                int m = c._structStart[sn + 1] - c._structStart[sn], cut = m;
-                if (Owner[sn] < parts)
-                {
-                    for (int r = 0; r < m; r++)
-                        if (Owner[superOf[c._structure[c._structStart[sn] + r]]] == parts) { cut = r; break; }
-                }
-                Cut[sn] = cut;
-                if (Owner[sn] == parts || cut < m) tail.Add(sn);
-            }
-            ForwardTail = tail.ToArray();
-
             // The longest chain of fronts above the parts, each waiting for the one below: the part of the work that no
             // number of threads shortens.
             var chain = new double[count];
@@ -309,18 +279,17 @@ public sealed partial class SparseCholesky
             for (int h = 0; h < _helpers.Length; h++) _helpers[h] = new Helper(this);
         }
 
-        /// <summary>Runs one phase: the factorisation (every part and every front above them), or the parts of the
-        /// forward or backward solve. The calling thread and <see cref="Threads"/> - 1 thread-pool work items take ready
-        /// tasks until none is left (when the pool is busy, the calling thread runs them all); false when a pivot failed.</summary>
-        public bool Run(Phase phase)
+        /// <summary>Factorises every part and every front above them: the calling thread and <see cref="Threads"/> - 1
+        /// thread-pool work items take ready tasks until none is left (when the pool is busy, the calling thread runs
+        /// them all); false when a pivot failed.</summary>
+        public bool Run()
         {
             lock (_gate)
             {
-                _phase = phase;
                 _failed = 0;
                 _error = null;
                 int parts = Parts.Length;
-                _unfinished = phase == Phase.Factor ? parts + Top.Length : parts;
+                _unfinished = parts + Top.Length;
                 Array.Copy(_waitingStart, _waiting, _waiting.Length);
                 // A stack: the heaviest part is taken first.
                 _readyCount = 0;
@@ -332,7 +301,7 @@ public sealed partial class SparseCholesky
             return _failed == 0;
         }
 
-        /// <summary>Takes ready tasks until every task of the current phase is done; the calling thread (slot 0) returns
+        /// <summary>Takes ready tasks until every task of the current factorisation is done; the calling thread (slot 0) returns
         /// only then. A helper takes a free slot (its front and gather space) or leaves when there is none; a helper
         /// queued for an earlier call that runs late finds nothing unfinished and leaves, or helps the current call.</summary>
         private void Work(int slot)
@@ -360,9 +329,8 @@ public sealed partial class SparseCholesky
                     RunTask(task, slot);
                     lock (_gate)
                     {
-                        if (_phase == Phase.Factor)
-                            for (int i = _notifyStart[task]; i < _notifyStart[task + 1]; i++)
-                                if (--_waiting[_notify[i]] == 0) _ready[_readyCount++] = Parts.Length + _notify[i];
+                        for (int i = _notifyStart[task]; i < _notifyStart[task + 1]; i++)
+                            if (--_waiting[_notify[i]] == 0) _ready[_readyCount++] = Parts.Length + _notify[i];
                         _unfinished--;
                         Monitor.PulseAll(_gate);
                     }
@@ -385,20 +353,8 @@ public sealed partial class SparseCholesky
                     return;
                 }
                 var part = Parts[task];
-                var nodes = part.Nodes;
-                switch (_phase)
-                {
-                    case Phase.Factor:
-                        foreach (int s in nodes)
-                            if (!_owner.FactorNode(this, s, _fronts[slot], part.Stack)) { Volatile.Write(ref _failed, 1); return; }
-                        break;
-                    case Phase.Forward:
-                        foreach (int s in nodes) _owner.ForwardHead(s, Cut[s], _gathers[slot]);
-                        break;
-                    default:
-                        for (int i = nodes.Length - 1; i >= 0; i--) _owner.Backward(nodes[i], _gathers[slot]);
-                        break;
-                }
+                foreach (int s in part.Nodes)
+                    if (!_owner.FactorNode(this, s, _fronts[slot], part.Stack)) { Volatile.Write(ref _failed, 1); return; }
             }
             catch (Exception e)
             {

@@ -275,22 +275,23 @@ public sealed partial class SparseCholesky
     /// <summary>Computes L with P A P^T = L L^T from the current values; allocation-free after the first call at a given
     /// <see cref="MaxDegreeOfParallelism"/>.</summary>
     /// <returns>False when a pivot is not positive (the matrix is not positive definite) or not finite.</returns>
-    /// <remarks>With <see cref="MaxDegreeOfParallelism"/> above 1 the elimination tree is split once into that many sets
-    /// of independent subtrees of balanced work (Geist and Ng 1989's subtree-to-processor mapping) and the fronts above
-    /// them; the subtrees are factorised at the same time, each set with its own front and update stack, then the fronts
-    /// above them in postorder on the calling thread. Every front is assembled and factorised by the same operations in
-    /// the same order as in the sequential factorisation (its entries of A, then its children's updates from the last
-    /// child to the first), so the factor is the same bit for bit.</remarks>
+    /// <remarks>With <see cref="MaxDegreeOfParallelism"/> above 1 the elimination tree is split once into sets of
+    /// independent subtrees of balanced work (after Geist and Ng 1989's subtree-to-processor mapping), four a thread,
+    /// each on its own update stack, and the separator fronts above them; the threads take the sets and then each front
+    /// above once its children are done. Every front is assembled and factorised by the same operations in the same order
+    /// as in the sequential factorisation (its entries of A, then its children's updates from the last child to the
+    /// first), so the factor is the same bit for bit. <see cref="Solve"/> stays sequential: split the same way it was
+    /// slower (its rows above the parts must be updated in the sequential order).</remarks>
     public bool Factorise()
     {
         int parts = _maxDegreeOfParallelism;
         if (parts <= 1 || _supernodes < 2) return FactorNodes(_sequential, _sequential.Top, _sequential.TopFront, _sequential.TopStack);
         var plan = _plan is { Threads: var p } && p == parts ? _plan : (_plan = new ParallelPlan(this, parts));
-        return plan.Run(ParallelPlan.Phase.Factor);
+        return plan.Run();
     }
 
-    /// <summary>Factorises the fronts of <paramref name="nodes"/> in their order (a postorder of whole subtrees) with
-    /// this front and update stack.</summary>
+    /// <summary>Factorises the fronts of <paramref name="nodes"/> in their order (a postorder) with this front and
+    /// update stack.</summary>
     private bool FactorNodes(Plan plan, int[] nodes, double[] front, double[] stack)
     {
         foreach (int s in nodes) if (!FactorNode(plan, s, front, stack)) return false;
@@ -400,94 +401,48 @@ public sealed partial class SparseCholesky
     /// <summary>Solves A x = b with the factor of the last successful <see cref="Factorise"/>; allocation-free.</summary>
     /// <param name="b">Right-hand side, length n.</param>
     /// <param name="x">Solution, length n (may be the same memory as <paramref name="b"/>).</param>
-    /// <remarks>With the parallel schedule of <see cref="Factorise"/> the parts' subtrees are solved at the same time as
-    /// well, with the same operations on every entry in the same order as the sequential solve, so the solution is the
-    /// same bit for bit: forward, each part solves its fronts' own rows, then the rows of the fronts above the parts are
-    /// updated on the calling thread in postorder; backward, the fronts above first, then the parts.</remarks>
     public void Solve(ReadOnlySpan<double> b, Span<double> x)
     {
         int n = Size;
         var y = _work.AsSpan(0, n);
         for (int i = 0; i < n; i++) y[i] = b[_order[i]];
-        var plan = _maxDegreeOfParallelism > 1 && _plan is { Threads: var p } && p == _maxDegreeOfParallelism ? _plan : null;
-        if (plan is null)
+        var factor = _factor.AsSpan();
+        var structure = _structure.AsSpan();
+        // L y = P b, supernode by supernode: gather the supernode's rows, solve densely, scatter back.
+        for (int s = 0; s < _supernodes; s++)
         {
-            // L y = P b, supernode by supernode: gather the supernode's rows, solve densely, scatter back; then
-            // L^T z = y in reverse.
-            for (int s = 0; s < _supernodes; s++) ForwardHead(s, _structStart[s + 1] - _structStart[s], _gather);
-            for (int s = _supernodes - 1; s >= 0; s--) Backward(s, _gather);
-        }
-        else
-        {
-            plan.Run(ParallelPlan.Phase.Forward);
-            foreach (int s in plan.ForwardTail)
+            int f = _superStart[s], k = _superStart[s + 1] - f;
+            int m = _structStart[s + 1] - _structStart[s];
+            var rows = structure.Slice(_structStart[s], m);
+            var block = factor.Slice(_blockStart[s], m * k);
+            var t = _gather.AsSpan(0, m);
+            for (int r = 0; r < m; r++) t[r] = y[rows[r]];
+            for (int j = 0; j < k; j++)
             {
-                int m = _structStart[s + 1] - _structStart[s];
-                if (plan.Owner[s] == plan.Parts.Length) ForwardHead(s, m, _gather);
-                else ForwardTail(s, plan.Cut[s], _gather);
+                var column = block.Slice(j * m, m);
+                double tj = t[j] / column[j];
+                t[j] = tj;
+                if (tj != 0) SubtractOne(t[(j + 1)..], column[(j + 1)..], tj);
             }
-            for (int t = plan.Top.Length - 1; t >= 0; t--) Backward(plan.Top[t], _gather);
-            plan.Run(ParallelPlan.Phase.Backward);
+            for (int r = 0; r < m; r++) y[rows[r]] = t[r];
+        }
+        // L^T z = y, in reverse.
+        for (int s = _supernodes - 1; s >= 0; s--)
+        {
+            int f = _superStart[s], k = _superStart[s + 1] - f;
+            int m = _structStart[s + 1] - _structStart[s];
+            var rows = structure.Slice(_structStart[s], m);
+            var block = factor.Slice(_blockStart[s], m * k);
+            var t = _gather.AsSpan(0, m);
+            for (int r = 0; r < m; r++) t[r] = y[rows[r]];
+            for (int j = k - 1; j >= 0; j--)
+            {
+                var column = block.Slice(j * m, m);
+                t[j] = (t[j] - Dot(column[(j + 1)..], t[(j + 1)..])) / column[j];
+            }
+            for (int j = 0; j < k; j++) y[f + j] = t[j];
         }
         for (int i = 0; i < n; i++) x[_order[i]] = y[i];
-    }
-
-    /// <summary>Forward solve of supernode s on its rows [0, cut): the supernode's own columns divided out and their
-    /// products subtracted from the rows below up to cut (all of them when cut is its row count).</summary>
-    private void ForwardHead(int s, int cut, double[] gather)
-    {
-        var y = _work.AsSpan();
-        int k = _superStart[s + 1] - _superStart[s];
-        int m = _structStart[s + 1] - _structStart[s];
-        var rows = _structure.AsSpan(_structStart[s], cut);
-        var block = _factor.AsSpan(_blockStart[s], m * k);
-        var t = gather.AsSpan(0, cut);
-        for (int r = 0; r < cut; r++) t[r] = y[rows[r]];
-        for (int j = 0; j < k; j++)
-        {
-            var column = block.Slice(j * m, cut);
-            double tj = t[j] / column[j];
-            t[j] = tj;
-            if (tj != 0) SubtractOne(t[(j + 1)..], column[(j + 1)..], tj);
-        }
-        for (int r = 0; r < cut; r++) y[rows[r]] = t[r];
-    }
-
-    /// <summary>The rest of supernode s's forward solve after <see cref="ForwardHead"/> stopped at cut: the products of
-    /// its solved columns subtracted from its rows [cut, m), in the same order as a whole forward step.</summary>
-    private void ForwardTail(int s, int cut, double[] gather)
-    {
-        var y = _work.AsSpan();
-        int f = _superStart[s], k = _superStart[s + 1] - f;
-        int m = _structStart[s + 1] - _structStart[s], w = m - cut;
-        var rows = _structure.AsSpan(_structStart[s] + cut, w);
-        var block = _factor.AsSpan(_blockStart[s], m * k);
-        var t = gather.AsSpan(0, w);
-        for (int r = 0; r < w; r++) t[r] = y[rows[r]];
-        for (int j = 0; j < k; j++)
-        {
-            double tj = y[f + j];
-            if (tj != 0) SubtractOne(t, block.Slice(j * m + cut, w), tj);
-        }
-        for (int r = 0; r < w; r++) y[rows[r]] = t[r];
-    }
-
-    /// <summary>Backward solve of supernode s: its own unknowns from the rows below, which are solved already.</summary>
-    private void Backward(int s, double[] gather)
-    {
-        var y = _work.AsSpan();
-        int f = _superStart[s], k = _superStart[s + 1] - f;
-        int m = _structStart[s + 1] - _structStart[s];
-        var rows = _structure.AsSpan(_structStart[s], m);
-        var block = _factor.AsSpan(_blockStart[s], m * k);
-        var t = gather.AsSpan(0, m);
-        for (int r = 0; r < m; r++) t[r] = y[rows[r]];
-        for (int j = k - 1; j >= 0; j--)
-        {
-            var column = block.Slice(j * m, m);
-            t[j] = (t[j] - Dot(column[(j + 1)..], t[(j + 1)..])) / column[j];
-        }
-        for (int j = 0; j < k; j++) y[f + j] = t[j];
     }
 
     /// <summary>Relaxed supernodes (Ashcraft and Grimes 1989, ACM TOMS 15(4)): a fundamental supernode is merged into the

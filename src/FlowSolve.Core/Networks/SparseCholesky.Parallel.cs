@@ -6,18 +6,19 @@ namespace FlowSolve.Core.Networks;
 public sealed partial class SparseCholesky
 {
     /// <summary>Multiply-adds of one factorisation (<see cref="FactorOperations"/>) from which the default
-    /// <see cref="MaxDegreeOfParallelism"/> is every core: below it handing half the tree to a second thread costs more
-    /// than it saves. Measured with <c>NetworkLinearSolveBenchmarks</c> on the generated grids (see
-    /// docs/performance.md): about 5 million multiply-adds, a grid of some 5 000 pipes.</summary>
-    internal const double ParallelThreshold = 5e6;
+    /// <see cref="MaxDegreeOfParallelism"/> is every core. Measured with <c>NetworkLinearSolveBenchmarks</c> on the
+    /// generated grids (docs/performance.md): two threads took 1.17 times as long at 9 948 pipes (5.9 million
+    /// multiply-adds, under a millisecond, where handing tasks over costs more than it saves) and 0.68 times at 99 912
+    /// (159 million); the threshold sits between, at a grid of about 20 000 pipes, not measured finer.</summary>
+    internal const double ParallelThreshold = 2e7;
 
     private readonly Plan _sequential;
     private ParallelPlan? _plan;
     private int _maxDegreeOfParallelism;
 
     /// <summary>How many threads one <see cref="Factorise"/> may use (at least 1). The default is
-    /// <see cref="Environment.ProcessorCount"/> when the factorisation is large enough to gain from it (about 5 000 pipes
-    /// on a grid and more) and 1 below. Set it to 1 when the caller already runs one solver per core. The factor is the
+    /// <see cref="Environment.ProcessorCount"/> when the factorisation is large enough to gain from it (a grid of about
+    /// 20 000 pipes and more) and 1 below. Set it to 1 when the caller already runs one solver per core. The factor is the
     /// same bit for bit whatever the setting. The first factorisation
     /// after a change sets up the schedule and each thread's work space (allocated once; later factorisations allocate
     /// nothing); thread-pool work items help the calling thread, which itself takes every task that no pool thread has

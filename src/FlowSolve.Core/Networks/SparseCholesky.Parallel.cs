@@ -107,7 +107,8 @@ public sealed partial class SparseCholesky
     private sealed class ParallelPlan : Plan
     {
         /// <summary>Parts for each thread: enough that a held-back thread costs little, few enough that the separators
-        /// above them stay a small share of the work (measured, see docs/performance.md).</summary>
+        /// above them stay a small share of the work (on the 99 912-pipe grid the longest chain of them is 16 percent);
+        /// chosen, not tuned against other counts.</summary>
         public const int PartsPerThread = 4;
 
         public readonly int Threads;

@@ -156,7 +156,8 @@ public abstract class GridLaplacian
 
 /// <summary>One head solve: our supernodal sparse Cholesky (numeric factorisation and triangular solves; the analysis
 /// runs once in set-up, as in a network solve) against our IC(0)-preconditioned conjugate gradients to a residual of
-/// 1e-13 (absolute, as in the network solve's final steps), and the one-off analysis on its own.</summary>
+/// 1e-13 (absolute, as in the network solve's final steps), and the one-off analysis on its own; the Cholesky on one
+/// thread and on two (<see cref="Threads"/>).</summary>
 [MemoryDiagnoser]
 public class NetworkLinearSolveBenchmarks : GridLaplacian
 {
@@ -167,13 +168,18 @@ public class NetworkLinearSolveBenchmarks : GridLaplacian
     [Params(10_000, 100_000)]
     public int Pipes { get; set; }
 
+    /// <summary>The sparse Cholesky's <see cref="SparseCholesky.MaxDegreeOfParallelism"/>: 1 (sequential) or 2 (its
+    /// independent subtrees on both cores); the same factor bit for bit. The other methods ignore it.</summary>
+    [Params(1, 2)]
+    public int Threads { get; set; }
+
     [GlobalSetup]
     public void Setup()
     {
         Build(Pipes);
         _cg = new SymmetricSparseSolver(RowStart, Columns);
         Values.CopyTo(_cg.Values);
-        _direct = new SparseCholesky(RowStart, Columns);
+        _direct = new SparseCholesky(RowStart, Columns) { MaxDegreeOfParallelism = Threads };
         Values.CopyTo(_direct.Values);
     }
 

@@ -20,9 +20,10 @@ namespace FlowSolve.Core.Networks;
 /// trailing Schur complement goes on a stack for the parent. No pivoting is needed for a positive definite matrix; a
 /// pivot that is not positive reports failure.</para>
 /// <para>The values are in the order of the pattern given (<see cref="Values"/>, <see cref="PositionOf"/>), the same
-/// layout as <see cref="SymmetricSparseSolver"/> for the same pattern. Not thread-safe: one instance per solver.</para>
+/// layout as <see cref="SymmetricSparseSolver"/> for the same pattern. Not thread-safe: one instance per solver (a
+/// parallel factorisation uses other threads inside one call, see <see cref="MaxDegreeOfParallelism"/>).</para>
 /// </remarks>
-public sealed class SparseCholesky
+public sealed partial class SparseCholesky
 {
     private readonly int[] _rowStart, _columns;
     private readonly double[] _values;
@@ -35,7 +36,7 @@ public sealed class SparseCholesky
     private readonly int[] _childStart, _children; // children of each supernode, ascending
     private readonly int[] _relativeStart, _relative; // each supernode's update rows as positions in its parent's front
     private readonly int[] _assemblyStart, _assemblySource, _assemblyTarget;
-    private readonly double[] _front, _stack, _work, _gather;
+    private readonly double[] _work, _gather;
 
     /// <summary>Analyses the pattern: ordering, elimination tree, supernodes and storage.</summary>
     /// <param name="rowStart">Row pointers, length n + 1, starting at 0, non-decreasing.</param>
@@ -187,26 +188,14 @@ public sealed class SparseCholesky
         }
         _assemblyStart[s0] = write;
 
-        // 6. The update stack's peak, by replaying the postorder.
-        long depth = 0, peak = 0;
-        for (int s = 0; s < s0; s++)
-        {
-            for (int c = _childStart[s]; c < _childStart[s + 1]; c++) depth -= Update(_children[c]);
-            depth += Update(s);
-            peak = Math.Max(peak, depth);
-        }
+        // 6. The sequential plan: every front in postorder on one update stack (its peak found by replaying the order).
         _factor = new double[_blockStart[s0]];
-        _front = new double[frontMax];
-        _stack = new double[peak];
         _work = new double[n];
         int widest = 0;
         for (int s = 0; s < s0; s++) widest = Math.Max(widest, _structStart[s + 1] - _structStart[s]);
         _gather = new double[widest];
-        long Update(int s)
-        {
-            long u = _structStart[s + 1] - _structStart[s] - (_superStart[s + 1] - _superStart[s]);
-            return u * u;
-        }
+        _sequential = new Plan(this);
+        _maxDegreeOfParallelism = FactorOperations >= ParallelThreshold ? Environment.ProcessorCount : 1;
     }
 
     /// <summary>Order n of the matrix.</summary>
@@ -283,41 +272,64 @@ public sealed class SparseCholesky
         SparsePattern.Multiply(_rowStart, _columns, _values, x, y);
     }
 
-    /// <summary>Computes L with P A P^T = L L^T from the current values; allocation-free.</summary>
+    /// <summary>Computes L with P A P^T = L L^T from the current values; allocation-free after the first call at a given
+    /// <see cref="MaxDegreeOfParallelism"/>.</summary>
     /// <returns>False when a pivot is not positive (the matrix is not positive definite) or not finite.</returns>
+    /// <remarks>With <see cref="MaxDegreeOfParallelism"/> above 1 the elimination tree is split once into sets of
+    /// independent subtrees of balanced work (after Geist and Ng 1989's subtree-to-processor mapping), four a thread,
+    /// each on its own update stack, and the separator fronts above them; the threads take the sets and then each front
+    /// above once its children are done. Every front is assembled and factorised by the same operations in the same order
+    /// as in the sequential factorisation (its entries of A, then its children's updates from the last child to the
+    /// first), so the factor is the same bit for bit. <see cref="Solve"/> stays sequential: split the same way it was
+    /// slower (its rows above the parts must be updated in the sequential order).</remarks>
     public bool Factorise()
     {
+        int parts = _maxDegreeOfParallelism;
+        if (parts <= 1 || _supernodes < 2) return FactorNodes(_sequential, _sequential.Top, _sequential.TopFront, _sequential.TopStack);
+        var plan = _plan is { Threads: var p } && p == parts ? _plan : (_plan = new ParallelPlan(this, parts));
+        return plan.Run();
+    }
+
+    /// <summary>Factorises the fronts of <paramref name="nodes"/> in their order (a postorder) with this front and
+    /// update stack.</summary>
+    private bool FactorNodes(Plan plan, int[] nodes, double[] front, double[] stack)
+    {
+        foreach (int s in nodes) if (!FactorNode(plan, s, front, stack)) return false;
+        return true;
+    }
+
+    /// <summary>Factorises front s in this front space: its entries of A, then its children's updates from the last
+    /// child to the first, read where the plan put them (their owner's stack); its update is written where the plan
+    /// puts it in <paramref name="stackStore"/>.</summary>
+    private bool FactorNode(Plan plan, int s, double[] frontStore, double[] stackStore)
+    {
         var values = _values;
-        var front = _front.AsSpan();
-        var stack = _stack.AsSpan();
-        int top = 0;
-        for (int s = 0; s < _supernodes; s++)
+        var offset = plan.UpdateOffset;
+        var owner = plan.Owner;
+        var stacks = plan.Stacks;
+        int k = _superStart[s + 1] - _superStart[s];
+        int m = _structStart[s + 1] - _structStart[s], u = m - k;
+        var f = frontStore.AsSpan(0, m * m);
+        f.Clear();
+        for (int a = _assemblyStart[s]; a < _assemblyStart[s + 1]; a++) f[_assemblyTarget[a]] += values[_assemblySource[a]];
+        // Extend-add the children's updates, last child first (the order of a sequential update stack).
+        for (int c = _childStart[s + 1] - 1; c >= _childStart[s]; c--)
         {
-            int k = _superStart[s + 1] - _superStart[s];
-            int m = _structStart[s + 1] - _structStart[s], u = m - k;
-            var f = front[..(m * m)];
-            f.Clear();
-            for (int a = _assemblyStart[s]; a < _assemblyStart[s + 1]; a++) f[_assemblyTarget[a]] += values[_assemblySource[a]];
-            // Extend-add the children's updates, last pushed first.
-            for (int c = _childStart[s + 1] - 1; c >= _childStart[s]; c--)
+            int child = _children[c];
+            int cu = _structStart[child + 1] - _structStart[child] - (_superStart[child + 1] - _superStart[child]);
+            var update = stacks[owner[child]].AsSpan(offset[child], cu * cu);
+            var rel = _relative.AsSpan(_relativeStart[child], cu);
+            for (int q = 0; q < cu; q++)
             {
-                int child = _children[c];
-                int cu = _structStart[child + 1] - _structStart[child] - (_superStart[child + 1] - _superStart[child]);
-                top -= cu * cu;
-                var update = stack.Slice(top, cu * cu);
-                var rel = _relative.AsSpan(_relativeStart[child], cu);
-                for (int q = 0; q < cu; q++)
-                {
-                    var column = f[(rel[q] * m)..];
-                    var source = update.Slice(q * cu, cu);
-                    for (int r = q; r < cu; r++) column[rel[r]] += source[r];
-                }
+                var column = f[(rel[q] * m)..];
+                var source = update.Slice(q * cu, cu);
+                for (int r = q; r < cu; r++) column[rel[r]] += source[r];
             }
-            if (!FactorFront(f, m, k)) return false;
-            f[..(m * k)].CopyTo(_factor.AsSpan(_blockStart[s], m * k));
-            for (int q = 0; q < u; q++) f.Slice((k + q) * m + k, u).CopyTo(stack.Slice(top + q * u, u));
-            top += u * u;
         }
+        if (!FactorFront(f, m, k)) return false;
+        f[..(m * k)].CopyTo(_factor.AsSpan(_blockStart[s], m * k));
+        var to = stackStore.AsSpan(offset[s], u * u);
+        for (int q = 0; q < u; q++) f.Slice((k + q) * m + k, u).CopyTo(to.Slice(q * u, u));
         return true;
     }
 

@@ -36,7 +36,8 @@ public readonly record struct NetworkOptions(
 
     /// <summary>Cores a large network's solve may use (0, the default: every core; 1: one). The friction pass of a network
     /// of at least <see cref="NetworkSolver.ParallelLinks"/> links is split across them, each link's loss computed by the
-    /// same operations as on one core, so the answer is the same bit for bit. A caller that already runs solves side by
+    /// same operations as on one core, and so is the factorisation of a large head system
+    /// (<see cref="SparseCholesky.MaxDegreeOfParallelism"/>), the same factor bit for bit: the answer is the same. A caller that already runs solves side by
     /// side (fire flow, one solver per core) sets 1.</summary>
     public int MaxParallelism { get; init; }
 

@@ -296,7 +296,12 @@ public sealed partial class NetworkSolver
         if (_options.LinearSolver == NetworkLinearSolver.ConjugateGradient)
             _iterative = new SymmetricSparseSolver(rowStart, columns);
         else
+        {
             _direct = new SparseCholesky(rowStart, columns);
+            // Every core for a large factorisation by default (its own threshold); the caller's limit when it set one.
+            if (_options.MaxParallelism > 0)
+                _direct.MaxDegreeOfParallelism = Math.Min(_direct.MaxDegreeOfParallelism, _options.MaxParallelism);
+        }
         _residual = _direct is null ? [] : new double[_junctions];
         (_diagFrom, _diagTo, _offFromTo, _offToFrom) = EntryPositions(rowStart, columns);
         _diagJunction = new int[_junctions];
@@ -614,6 +619,7 @@ public sealed partial class NetworkSolver
     {
         _frictionParts = 1;
         _parallel = null;
+        if (_direct is not null) _direct.MaxDegreeOfParallelism = 1;
     }
 
     /// <summary>h and dh/dQ of every open link at the current flows.</summary>

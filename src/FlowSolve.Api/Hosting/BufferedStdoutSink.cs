@@ -50,7 +50,7 @@ public sealed class BufferedStdoutSink : ILogEventSink, IDisposable
     private readonly Slot[] _ring;
     private readonly int _mask;
     private readonly Thread _thread;
-    private readonly ManualResetEventSlim _stop = new();
+    private readonly ManualResetEventSlim _stop = new(false, spinCount: 0); // woken ten times a second: no spinning first
     private readonly StringWriter _text = new(CultureInfo.InvariantCulture);
     private ArrayBufferWriter<byte> _block = new(BlockBytes);
     private long _enqueue;   // the next position a producer claims

@@ -18,15 +18,29 @@ namespace FlowSolve.Api.Hosting;
 /// ids, which are read from the request instead.</para>
 /// <para>Without our sink (a host that configured Serilog otherwise) the same completion is written as a Serilog event.</para>
 /// </remarks>
-public sealed class RequestLog(RequestDelegate next)
+public sealed class RequestLog
 {
     /// <summary>The event's message template, parsed once; the JSON formatter recognises request events by it.</summary>
     public static readonly MessageTemplate Template =
         new MessageTemplateParser().Parse("{RequestMethod} {RequestPath} {StatusCode} {Elapsed:0.000} ms");
 
-    // Captured when the pipeline is built: the sink and logger of this host (tests run several hosts in one process).
-    private readonly BufferedStdoutSink? _sink = Logging.Sink;
+    private readonly RequestDelegate next;
+    private readonly BufferedStdoutSink? _sink;
     private readonly Serilog.ILogger _logger = Serilog.Log.Logger;
+
+    /// <summary>The pipeline's: the sink and logger of this host, captured when the pipeline is built (tests run several
+    /// hosts in one process).</summary>
+    [ActivatorUtilitiesConstructor]
+    public RequestLog(RequestDelegate next) : this(next, Logging.Sink)
+    {
+    }
+
+    /// <summary>With a sink of the caller's; the Serilog logger when it is null.</summary>
+    public RequestLog(RequestDelegate next, BufferedStdoutSink? sink)
+    {
+        this.next = next;
+        _sink = sink;
+    }
 
     public Task InvokeAsync(HttpContext context)
     {

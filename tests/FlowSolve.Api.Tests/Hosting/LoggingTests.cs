@@ -2,6 +2,7 @@ using System.Buffers;
 using System.Diagnostics;
 using System.Text;
 using FlowSolve.Api.Hosting;
+using Microsoft.AspNetCore.Http;
 using Serilog.Events;
 using Serilog.Formatting.Compact;
 using Serilog.Formatting.Display;
@@ -256,5 +257,85 @@ public class LoggingTests
             Assert.Equal(Reference(new CompactJsonFormatter(), old), Utf8Line(new RequestJsonFormatter(), r));
             Assert.Equal(Reference(PlainReference, old), Utf8Line(new PlainLineFormatter(), r));
         }
+    }
+}
+
+/// <summary>The middleware: which requests it logs at which level, and what it hands the sink.</summary>
+public class RequestLogTests
+{
+    private static async Task<(string[] Lines, Exception? Thrown)> Run(LogEventLevel minimum, string path, RequestDelegate next, string format = "plain")
+    {
+        var output = new MemoryStream();
+        var sink = new BufferedStdoutSink(format == "json" ? new RequestJsonFormatter() : new PlainLineFormatter(), output) { MinimumLevel = minimum };
+        var context = new DefaultHttpContext();
+        context.Request.Method = "GET";
+        context.Request.Path = path;
+        context.TraceIdentifier = "conn-7:00000003";
+        context.Connection.Id = "conn-7";
+        Exception? thrown = null;
+        try
+        {
+            await new RequestLog(next, sink).InvokeAsync(context);
+        }
+        catch (Exception e)
+        {
+            thrown = e;
+        }
+        sink.Dispose();
+        return (Encoding.UTF8.GetString(output.ToArray()).Split('\n', StringSplitOptions.RemoveEmptyEntries), thrown);
+    }
+
+    [Fact]
+    public async Task A_request_is_one_Information_line_with_its_status()
+    {
+        var (lines, thrown) = await Run(LogEventLevel.Information, "/v1/friction-factor", c => { c.Response.StatusCode = 422; return Task.CompletedTask; });
+        Assert.Null(thrown);
+        Assert.Matches(@"^\[\d\d:\d\d:\d\d INF\] GET /v1/friction-factor 422 \d+\.\d{3} ms$", Assert.Single(lines));
+    }
+
+    [Fact]
+    public async Task Health_probes_are_Verbose_and_left_out_at_Information()
+    {
+        var (lines, _) = await Run(LogEventLevel.Information, "/health/live", _ => Task.CompletedTask);
+        Assert.Empty(lines);
+        (lines, _) = await Run(LogEventLevel.Verbose, "/health/live", _ => Task.CompletedTask);
+        Assert.Matches(@"^\[\d\d:\d\d:\d\d VRB\] GET /health/live 200 ", Assert.Single(lines));
+    }
+
+    [Fact]
+    public async Task A_5xx_is_an_Error_and_nothing_below_the_minimum_level_is_written()
+    {
+        var (lines, _) = await Run(LogEventLevel.Error, "/v1/pipes/flow", c => { c.Response.StatusCode = 503; return Task.CompletedTask; });
+        Assert.Matches(@"^\[\d\d:\d\d:\d\d ERR\] GET /v1/pipes/flow 503 ", Assert.Single(lines));
+        (lines, _) = await Run(LogEventLevel.Error, "/v1/pipes/flow", c => { c.Response.StatusCode = 404; return Task.CompletedTask; });
+        Assert.Empty(lines);
+    }
+
+    [Fact]
+    public async Task An_exception_thrown_at_once_or_later_is_a_500_Error_with_its_text_and_still_reaches_the_caller()
+    {
+        var (lines, thrown) = await Run(LogEventLevel.Information, "/v1/x", _ => throw new InvalidOperationException("at once"));
+        Assert.IsType<InvalidOperationException>(thrown);
+        Assert.Matches(@"^\[\d\d:\d\d:\d\d ERR\] GET /v1/x 500 ", lines[0]);
+        Assert.StartsWith("System.InvalidOperationException: at once", lines[1]);
+        (lines, thrown) = await Run(LogEventLevel.Information, "/v1/x", async _ => { await Task.Yield(); throw new InvalidOperationException("later"); });
+        Assert.IsType<InvalidOperationException>(thrown);
+        Assert.Matches(@"^\[\d\d:\d\d:\d\d ERR\] GET /v1/x 500 ", lines[0]);
+        Assert.StartsWith("System.InvalidOperationException: later", lines[1]);
+    }
+
+    [Fact]
+    public async Task The_JSON_line_carries_the_request_and_connection_ids_the_log_context_used_to_add()
+    {
+        var (lines, _) = await Run(LogEventLevel.Information, "/v1/fluids/water", _ => Task.CompletedTask, "json");
+        using var line = System.Text.Json.JsonDocument.Parse(Assert.Single(lines));
+        var root = line.RootElement;
+        Assert.Equal("GET", root.GetProperty("RequestMethod").GetString());
+        Assert.Equal("/v1/fluids/water", root.GetProperty("RequestPath").GetString());
+        Assert.Equal(200, root.GetProperty("StatusCode").GetInt32());
+        Assert.True(root.GetProperty("Elapsed").GetDouble() >= 0);
+        Assert.Equal(System.Text.Json.JsonValueKind.Null, root.GetProperty("Route").ValueKind);
+        Assert.Equal("conn-7:00000003", root.GetProperty("RequestId").GetString());
+        Assert.Equal("conn-7", root.GetProperty("ConnectionId").GetString());
     }
 }

@@ -15,15 +15,21 @@ namespace FlowSolve.Api.Hosting;
 /// </remarks>
 public static class Logging
 {
+    /// <summary>The sink of the logger configured last, which <see cref="RequestLog"/> writes request completions to
+    /// directly (captured when the pipeline is built, as the logger itself is).</summary>
+    public static BufferedStdoutSink? Sink { get; private set; }
+
     public static void Configure(IConfiguration configuration, LoggerConfiguration logger)
     {
         var level = configuration.GetValue("FlowSolve:Logging:Level", LogEventLevel.Information);
         bool json = string.Equals(configuration["FlowSolve:Logging:Format"], "json", StringComparison.OrdinalIgnoreCase);
+        var sink = new BufferedStdoutSink(json ? new RequestJsonFormatter() : new PlainLineFormatter()) { MinimumLevel = level };
         logger.MinimumLevel.Is(level)
             .MinimumLevel.Override("Microsoft.AspNetCore", LogEventLevel.Warning)
             .MinimumLevel.Override("Microsoft.Hosting.Lifetime", LogEventLevel.Information)
             .Enrich.FromLogContext()
-            .WriteTo.Sink(new BufferedStdoutSink(json ? new RequestJsonFormatter() : new PlainLineFormatter()));
+            .WriteTo.Sink(sink);
+        Sink = sink;
     }
 
     /// <summary>One completion event per request (see <see cref="RequestLog"/>).</summary>

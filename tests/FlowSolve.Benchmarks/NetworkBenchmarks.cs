@@ -102,6 +102,11 @@ public class NetworkFrictionPassBenchmarks
     [Benchmark(Baseline = true)]
     public int SolveColdPipeByPipe() => NetworkSolver.Solve(_model, _scalar).Iterations;
 
+    /// <summary>The span pass with everything on one core (NetworkOptions.MaxParallelism = 1): the friction pass and
+    /// the factorisation as they ran before both were split across cores.</summary>
+    [Benchmark]
+    public int SolveColdSpanOneCore() => NetworkSolver.Solve(_model, _span with { MaxParallelism = 1 }).Iterations;
+
     [Benchmark]
     public int SolveColdSpan() => NetworkSolver.Solve(_model, _span).Iterations;
 }

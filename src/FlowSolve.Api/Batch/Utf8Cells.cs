@@ -151,24 +151,7 @@ public static class Utf8Cells
     {
         var path = PathOf(responseType, name);
         if (path is null || Writer(path[^1].PropertyType) is not { } leafWriter) return null;
-        var response = Expression.Parameter(typeof(object), "response");
-        var lines = Expression.Parameter(typeof(Utf8Lines), "lines");
-        var end = Expression.Label("end");
-        var variables = new List<ParameterExpression>();
-        var body = new List<Expression>();
-        Expression current = Expression.Convert(response, path[0].DeclaringType!);
-        for (int i = 0; i < path.Length; i++)
-        {
-            var step = Expression.Variable(path[i].PropertyType, "p" + i);
-            variables.Add(step);
-            body.Add(Expression.Assign(step, Expression.Property(current, path[i])));
-            if (i < path.Length - 1 && !path[i].PropertyType.IsValueType)
-                body.Add(Expression.IfThen(Expression.Equal(step, Expression.Constant(null, step.Type)), Expression.Return(end)));
-            current = step;
-        }
-        body.Add(Expression.Call(leafWriter, lines, current));
-        body.Add(Expression.Label(end));
-        return Expression.Lambda<Action<object, Utf8Lines>>(Expression.Block(variables, body), response, lines).Compile();
+        return CellWriter.CompilePath<Utf8Lines>(path, _ => leafWriter);
     }
 
     /// <summary>The properties a dotted camel-case column name reads, as the response's columns were named; null when a

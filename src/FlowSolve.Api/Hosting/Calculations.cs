@@ -127,10 +127,16 @@ internal static class CellWriter
 {
     private static readonly System.Globalization.CultureInfo Invariant = System.Globalization.CultureInfo.InvariantCulture;
 
-    public static Action<object, System.Text.StringBuilder> Compile(System.Reflection.PropertyInfo[] path, bool plain = false)
+    public static Action<object, System.Text.StringBuilder> Compile(System.Reflection.PropertyInfo[] path, bool plain = false) =>
+        CompilePath<System.Text.StringBuilder>(path, type => plain ? PlainAppender(type) : Appender(type));
+
+    /// <summary>Compiles a writer of one response column into a sink: the property path walked from the response (a null
+    /// on the way writes nothing), then <paramref name="leaf"/>'s method for the leaf's type called with (sink, value).
+    /// Shared by the text and CSV cells and the batch's UTF-8 rows.</summary>
+    public static Action<object, TSink> CompilePath<TSink>(System.Reflection.PropertyInfo[] path, Func<Type, System.Reflection.MethodInfo> leaf)
     {
         var response = Expression.Parameter(typeof(object), "response");
-        var cell = Expression.Parameter(typeof(System.Text.StringBuilder), "cell");
+        var sink = Expression.Parameter(typeof(TSink), "sink");
         var end = Expression.Label("end");
         var variables = new List<ParameterExpression>();
         var body = new List<Expression>();
@@ -145,9 +151,9 @@ internal static class CellWriter
                 body.Add(Expression.IfThen(Expression.Equal(step, Expression.Constant(null, step.Type)), Expression.Return(end)));
             current = step;
         }
-        body.Add(Expression.Call(plain ? PlainAppender(current.Type) : Appender(current.Type), cell, current));
+        body.Add(Expression.Call(leaf(current.Type), sink, current));
         body.Add(Expression.Label(end));
-        return Expression.Lambda<Action<object, System.Text.StringBuilder>>(Expression.Block(variables, body), response, cell).Compile();
+        return Expression.Lambda<Action<object, TSink>>(Expression.Block(variables, body), response, sink).Compile();
     }
 
     private static System.Reflection.MethodInfo Appender(Type type)

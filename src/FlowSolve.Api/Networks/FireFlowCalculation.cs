@@ -164,14 +164,7 @@ public sealed class FireFlowCalculation : Calculation<FireFlowRequest, FireFlowR
         }
 
         if (errors.Any || input is null)
-        {
-            var extensions = new Dictionary<string, object?>();
-            if (errors.Elements.Count > 0) extensions["elements"] = errors.Elements.ToArray();
-            return TypedResults.ValidationProblem(fields.ToDictionary(),
-                title: "One or more fields are invalid.",
-                detail: "See errors: each key is a field of the request (the network document or fireFlow), each message about an element begins with its id.",
-                type: "https://flowsolve.example/problems/invalid-input", extensions: extensions);
-        }
+            return errors.Problem("See errors: each key is a field of the request (the network document or fireFlow), each message about an element begins with its id.");
         if (fire.Junctions is null) asked = [.. FireFlow.DefaultJunctions(input.Model)];
         if (asked.Count > limits.NetworkMaxFireFlowJunctions)
             return LimitExceeded(asked.Count, limits.NetworkMaxFireFlowJunctions);

@@ -47,6 +47,16 @@ internal static class NetworkInput
 
         public bool Any => Fields.Any;
 
+        /// <summary>The 400 for these errors: every field with its messages, <c>elements</c> listing the ids named, and
+        /// <paramref name="detail"/> saying what the keys are.</summary>
+        public Microsoft.AspNetCore.Http.HttpResults.ValidationProblem Problem(string detail)
+        {
+            var extensions = new Dictionary<string, object?>();
+            if (Elements.Count > 0) extensions["elements"] = Elements.ToArray();
+            return TypedResults.ValidationProblem(Fields.ToDictionary(), title: "One or more fields are invalid.", detail: detail,
+                type: "https://flowsolve.example/problems/invalid-input", extensions: extensions);
+        }
+
         /// <summary>Runs <paramref name="read"/> on a scratch collector and files what it finds under the element's label.</summary>
         public T Scoped<T>(string label, string? id, Func<FieldErrors, T> read)
         {

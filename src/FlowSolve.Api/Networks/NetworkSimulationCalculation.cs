@@ -136,15 +136,8 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
     /// <summary>A non-negative number of seconds as a whole number for a problem's figures, long.MaxValue beyond it.</summary>
     private static long Whole(double seconds) => seconds >= 9e18 ? long.MaxValue : (long)Math.Ceiling(Math.Max(seconds, 0));
 
-    private static ValidationProblem Invalid(NetworkInput.Errors errors)
-    {
-        var extensions = new Dictionary<string, object?>();
-        if (errors.Elements.Count > 0) extensions["elements"] = errors.Elements.ToArray();
-        return TypedResults.ValidationProblem(errors.Fields.ToDictionary(),
-            title: "One or more fields are invalid.",
-            detail: "See errors: each key is a field of the request (the network document, tanks, patterns, controls or the times), each message about an element begins with its id; elements lists their ids.",
-            type: "https://flowsolve.example/problems/invalid-input", extensions: extensions);
-    }
+    private static ValidationProblem Invalid(NetworkInput.Errors errors) =>
+        errors.Problem("See errors: each key is a field of the request (the network document, tanks, patterns, controls or the times), each message about an element begins with its id; elements lists their ids.");
 
     /// <summary>503 for a run stopped by the request's time budget: how far it got.</summary>
     private static ProblemHttpResult OverBudget(SimulationResult result, SimulationModel model, FlowSolveOptions.LimitSettings limits)

@@ -47,14 +47,7 @@ public sealed class NetworkSolveCalculation : Calculation<NetworkSolveRequest, N
         var errors = new NetworkInput.Errors();
         var input = NetworkInput.Read(request, errors);
         if (errors.Any || input is null)
-        {
-            var extensions = new Dictionary<string, object?>();
-            if (errors.Elements.Count > 0) extensions["elements"] = errors.Elements.ToArray();
-            return TypedResults.ValidationProblem(errors.Fields.ToDictionary(),
-                title: "One or more fields are invalid.",
-                detail: "See errors: each key is a field of the network document, each message begins with the element it belongs to; elements lists their ids.",
-                type: "https://flowsolve.example/problems/invalid-input", extensions: extensions);
-        }
+            return errors.Problem("See errors: each key is a field of the network document, each message begins with the element it belongs to; elements lists their ids.");
 
         // Each load case is solved, turned into its answer (only the rows asked for) and let go before the next, so a
         // request holds one case's full result at a time beside the answer it is building.

@@ -633,8 +633,16 @@ public sealed partial class NetworkSolver
         }
         // Contiguous parts, each gathering its turbulent pipes into its own stretch of the span arrays (a part's pipes
         // fit in the stretch that starts at its first link), so the parts share nothing but _outOfRange (only set).
-        Parallel.For(0, parts, _parallel!, part =>
-            EvaluateLinks((int)((long)_links * part / parts), (int)((long)_links * (part + 1) / parts)));
+        Parallel.For(0, parts, _parallel!, _evaluatePart ??= EvaluatePart);
+    }
+
+    private Action<int>? _evaluatePart; // made once, not a closure at every pass
+
+    /// <summary>Part <paramref name="part"/> of <see cref="_frictionParts"/> contiguous parts of the links.</summary>
+    private void EvaluatePart(int part)
+    {
+        int parts = _frictionParts;
+        EvaluateLinks((int)((long)_links * part / parts), (int)((long)_links * (part + 1) / parts));
     }
 
     /// <summary>h and dh/dQ of the open links in [<paramref name="start"/>, <paramref name="end"/>).</summary>

@@ -77,29 +77,6 @@ public sealed class BatchIdentityTests(ApiFixture api)
         }
     }
 
-    /// <summary>One CSV record's cells (RFC 4180: a quoted cell may hold commas and doubled quotes; no line breaks here).</summary>
-    private static string[] Cells(string line)
-    {
-        var cells = new List<string>();
-        var cell = new StringBuilder();
-        bool quoted = false;
-        for (int k = 0; k < line.Length; k++)
-        {
-            char ch = line[k];
-            if (quoted)
-            {
-                if (ch == '"' && k + 1 < line.Length && line[k + 1] == '"') { cell.Append('"'); k++; }
-                else if (ch == '"') quoted = false;
-                else cell.Append(ch);
-            }
-            else if (ch == '"') quoted = true;
-            else if (ch == ',') { cells.Add(cell.ToString()); cell.Clear(); }
-            else cell.Append(ch);
-        }
-        cells.Add(cell.ToString());
-        return cells.ToArray();
-    }
-
     private async Task<string> Post(string url, string body, string contentType)
     {
         using var content = new StringContent(body, Encoding.UTF8, contentType);
@@ -147,12 +124,12 @@ public sealed class BatchIdentityTests(ApiFixture api)
         foreach (var f in flat)
             csv.Append(string.Join(',', names.Select(n => f!.FirstOrDefault(c => c.Name == n).Text ?? ""))).Append("\r\n");
         var lines = (await Post("/v1/batch/" + name, csv.ToString(), "text/csv")).Split("\r\n", StringSplitOptions.RemoveEmptyEntries);
-        var header = Cells(lines[0]);
+        var header = CsvRecord.Cells(lines[0]);
         Assert.Equal(rows.Count + 1, lines.Length);
         int compared = 0;
         for (int i = 0; i < rows.Count; i++)
         {
-            var cells = Cells(lines[i + 1]);
+            var cells = CsvRecord.Cells(lines[i + 1]);
             Assert.Equal(singles[i].Status.ToString(CultureInfo.InvariantCulture), cells[1]);
             if (singles[i].Status != 200) continue;
             foreach (var property in singles[i].Body.EnumerateObject().Where(p => p.Value.ValueKind == JsonValueKind.Number))

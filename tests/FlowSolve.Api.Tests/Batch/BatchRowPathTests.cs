@@ -196,8 +196,8 @@ public sealed class BatchRowPathTests(ApiFixture api)
         int column = Array.IndexOf(expected[0].Split(','), "frictionFactor");
         for (int i = 1; i < expected.Length - 1; i++)
         {
-            var f = Cells(expected[i]);
-            Assert.Equal([f[0], f[1], f[2], f[column]], Cells(selected[i]));
+            var f = CsvRecord.Cells(expected[i]);
+            Assert.Equal([f[0], f[1], f[2], f[column]], CsvRecord.Cells(selected[i]));
         }
     }
 
@@ -242,8 +242,8 @@ public sealed class BatchRowPathTests(ApiFixture api)
         int answered = 0;
         for (int i = 1; i < full.Length; i++)
         {
-            var f = Cells(full[i]);
-            var s = Cells(selected[i]);
+            var f = CsvRecord.Cells(full[i]);
+            var s = CsvRecord.Cells(selected[i]);
             Assert.Equal(4, s.Length);
             Assert.Equal(f[0], s[0]);
             Assert.Equal(f[1], s[1]);
@@ -277,8 +277,8 @@ public sealed class BatchRowPathTests(ApiFixture api)
         var header = full[0].Split(',');
         for (int i = 1; i < full.Length; i++)
         {
-            var f = Cells(full[i]);
-            var s = Cells(selected[i]);
+            var f = CsvRecord.Cells(full[i]);
+            var s = CsvRecord.Cells(selected[i]);
             Assert.Equal(f[..3], s[..3]);
             for (int k = 0; k < names.Length; k++) Assert.Equal(f[Array.IndexOf(header, names[k])], s[3 + k]);
         }
@@ -317,26 +317,4 @@ public sealed class BatchRowPathTests(ApiFixture api)
         Assert.Contains("batchRows", await refused.Content.ReadAsStringAsync(Ct), StringComparison.Ordinal);
     }
 
-    /// <summary>One CSV record's cells (RFC 4180 quoting, no line breaks inside).</summary>
-    private static string[] Cells(string line)
-    {
-        var cells = new List<string>();
-        var cell = new StringBuilder();
-        bool quoted = false;
-        for (int k = 0; k < line.Length; k++)
-        {
-            char ch = line[k];
-            if (quoted)
-            {
-                if (ch == '"' && k + 1 < line.Length && line[k + 1] == '"') { cell.Append('"'); k++; }
-                else if (ch == '"') quoted = false;
-                else cell.Append(ch);
-            }
-            else if (ch == '"') quoted = true;
-            else if (ch == ',') { cells.Add(cell.ToString()); cell.Clear(); }
-            else cell.Append(ch);
-        }
-        cells.Add(cell.ToString());
-        return cells.ToArray();
-    }
 }

@@ -146,11 +146,25 @@ public sealed partial class NetworkSolver
         return list.ToArray();
     }
 
+    // A timeline solve's looser stopping rule (0: none): see SolveTimeline's stageFlowTolerance.
+    private double _stageFlowTolerance;
+
     /// <summary>One solve at the present demands, known heads and link settings, warm started; the same loop as
     /// <see cref="SolveCase"/> without building a result (the run builds one only at its report times).</summary>
     /// <param name="iterations">Newton iterations of this solve.</param>
     /// <param name="time">The run's time of this solve, s (for the predictor: see <see cref="Predict"/>).</param>
-    internal NetworkStatus SolveTimeline(double time, out int iterations)
+    /// <param name="stageFlowTolerance">0 for the solver's own tolerances; else an open link also meets the stopping rule
+    /// when its energy imbalance would move its flow by at most this, |E| / (dh/dQ) &lt;= tolerance (m3/s), and a junction
+    /// when its continuity error is at most this: a right-hand side for an integration stage, whose accuracy the run
+    /// derives from its level tolerance.</param>
+    internal NetworkStatus SolveTimeline(double time, out int iterations, double stageFlowTolerance = 0)
+    {
+        _stageFlowTolerance = _law is null && _valveOf.Length == 0 ? stageFlowTolerance : 0;
+        try { return SolveTimelineWarm(time, out iterations); }
+        finally { _stageFlowTolerance = 0; }
+    }
+
+    private NetworkStatus SolveTimelineWarm(double time, out int iterations)
     {
         bool warm = _warm;
         if (warm) Predict(time);

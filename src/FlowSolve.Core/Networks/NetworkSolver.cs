@@ -466,7 +466,7 @@ public sealed partial class NetworkSolver
             if (record.Count >= o.MaxIterations) return NetworkStatus.IterationCapReached;
             // Inexact Newton: the head solve need only be accurate to about the error the quadratic model leaves after the
             // step (of order the last flow change squared); the final steps run at a tenth of the flow tolerance.
-            double linearTolerance = Math.Max(0.1 * o.FlowTolerance, Math.Min(1e-6, 1e-3 * maxChange * maxChange));
+            double linearTolerance = Math.Max(0.1 * Math.Max(o.FlowTolerance, _stageFlowTolerance), Math.Min(1e-6, 1e-3 * maxChange * maxChange));
             bool search = _law is not null && steps++ >= FreeSteps;
             if (search)
             {
@@ -818,7 +818,7 @@ public sealed partial class NetworkSolver
                 double a = Math.Abs(e);
                 if (!(a <= imbalance)) imbalance = a; // NaN propagates
                 double floor = Resolution * (Math.Abs(hf) + Math.Abs(ht) + Math.Abs(_headLoss[l]) + aq * _slope[l]);
-                if (!(a <= Math.Max(o.HeadTolerance, floor))) met = false;
+                if (!(a <= Math.Max(o.HeadTolerance, floor)) && !(a <= _stageFlowTolerance * Math.Abs(_slope[l]))) met = false;
             }
         }
         double continuity = 0;
@@ -827,7 +827,7 @@ public sealed partial class NetworkSolver
             if (_dirichlet.Length > 0 && _dirichlet[j]) continue; // a tank at a known head: c[j] is its net inflow
             double e = Math.Abs(c[j]);
             if (!(e <= continuity)) continuity = e;
-            if (!(e <= Math.Max(o.FlowTolerance, Resolution * scale[j]))) met = false;
+            if (!(e <= Math.Max(Math.Max(o.FlowTolerance, _stageFlowTolerance), Resolution * scale[j]))) met = false;
         }
         if (_law is not null) met &= MeasureOutlets(ref imbalance, ref continuity);
         return (imbalance, continuity, met);

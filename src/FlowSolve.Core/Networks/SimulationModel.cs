@@ -77,6 +77,11 @@ public sealed record SimulationOptions(
     /// <summary>Every network solve from the default start instead of the previous state (for measuring what the warm
     /// start saves; slower, same answers to the solve's tolerances).</summary>
     internal bool ColdStarts { get; init; }
+
+    /// <summary>Every stage's network solve to the network's own tolerances instead of the looser stopping rule derived
+    /// from <see cref="LevelTolerance"/> (for the test that holds the two runs together and the benchmark that compares
+    /// them).</summary>
+    internal bool StrictStages { get; init; }
 }
 
 /// <summary>Why an extended-period run stopped.</summary>

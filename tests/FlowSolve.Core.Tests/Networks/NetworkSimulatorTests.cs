@@ -487,8 +487,10 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
         // and takes fewer Newton iterations than starting every solve from the default start.
         var model = BoosterModel(4 * 3600,
             [new NetworkControl("lift", new ControlAction(false, null), new ControlCondition("high", null, 6, null))]);
-        var warm = Simulate(model);
-        var cold = Simulate(model, new SimulationOptions { ColdStarts = true });
+        // Both to the network's own tolerances at every stage: the stages' looser stopping rule would let the two runs
+        // differ by up to a tenth of the level tolerance a step (Run_StageSolvesToTheLevelTolerance_...).
+        var warm = Simulate(model, new SimulationOptions { StrictStages = true });
+        var cold = Simulate(model, new SimulationOptions { ColdStarts = true, StrictStages = true });
         Assert.True(warm.Completed && cold.Completed);
         Assert.Equal(warm.Reports.Count, cold.Reports.Count);
         for (int k = 0; k < warm.Reports.Count; k++)
@@ -497,6 +499,72 @@ public sealed class NetworkSimulatorTests(ITestOutputHelper output)
         int warmIterations = warm.Steps.Sum(s => s.NetworkIterations), coldIterations = cold.Steps.Sum(s => s.NetworkIterations);
         output.WriteLine($"Newton iterations in the steps: warm {warmIterations} ({warm.NetworkSolves} solves), cold {coldIterations} ({cold.NetworkSolves} solves)");
         Assert.True(warmIterations < coldIterations);
+    }
+
+    // Vandrel Vale's lower zone (an invented layout): a 6 x 6 grid of 300 m pipes fed from the works reservoir at 62 m,
+    // with two tanks (bottoms 48 m and 47 m, 12 m and 9 m across) on 200 mm links, and every junction on one day's
+    // pattern of hourly multipliers.
+    private static SimulationModel ZoneModel(double duration)
+    {
+        var junctions = new List<Junction>();
+        var pipes = new List<NetworkPipe>();
+        for (int r = 0; r < 6; r++)
+            for (int c = 0; c < 6; c++)
+            {
+                junctions.Add(new($"z{r}{c}", 20 + r, 0.0015 * (1 + (r + 2 * c) % 3)));
+                if (c < 5) pipes.Add(new($"e{r}{c}", $"z{r}{c}", $"z{r}{c + 1}", 300, 0.15 + 0.05 * (r % 2), 0.1e-3));
+                if (r < 5) pipes.Add(new($"s{r}{c}", $"z{r}{c}", $"z{r + 1}{c}", 300, 0.15, 0.1e-3, MinorLossCoefficient: 0.5));
+            }
+        pipes.Add(new("works-main", "works", "z00", 200, 0.3, 0.1e-3));
+        pipes.Add(new("north-link", "north", "z05", 150, 0.2, 0.1e-3));
+        pipes.Add(new("south-link", "south", "z52", 150, 0.2, 0.1e-3));
+        double[] day = [0.5, 0.5, 0.4, 0.4, 0.5, 0.7, 1.1, 1.5, 1.4, 1.2, 1.1, 1.0, 1.0, 1.0, 1.0, 1.1, 1.2, 1.4, 1.6, 1.4, 1.1, 0.9, 0.7, 0.6];
+        return Run(Network(junctions.ToArray(), [new Reservoir("works", 62)], pipes.ToArray()),
+            [new Tank("north", 48, 4, 0.5, 9, 12), new Tank("south", 47, 3, 0.5, 8, 9)], duration, 1800,
+            patterns: [new DemandPattern("day", day)], junctionPatterns: junctions.ToDictionary(j => j.Id, _ => "day"));
+    }
+
+    [Fact]
+    public void Run_StageSolvesToTheLevelTolerance_KeepTheLevelsAndReportBalancedStates()
+    {
+        // Property: the integration stages' network solves stop on a flow criterion derived from the level tolerance
+        // (a tenth of it over the step, at the smallest tank's area), so they move no level by more than a small part of
+        // the level tolerance, take fewer Newton iterations than solves to the network's own tolerances, and leave every
+        // reported network state to those tolerances: continuity and energy recomputed from the reported flows and heads
+        // with FlowSolve.Core.Pipes (NetworkChecks).
+        var model = ZoneModel(12 * 3600);
+        var options = new SimulationOptions();
+        var loose = Simulate(model, options);
+        var strict = Simulate(model, options with { StrictStages = true });
+        Assert.True(loose.Completed && strict.Completed);
+        Assert.Equal(strict.Reports.Count, loose.Reports.Count);
+        double worst = 0;
+        for (int k = 0; k < loose.Reports.Count; k++)
+            for (int i = 0; i < 2; i++)
+                worst = Math.Max(worst, Math.Abs(loose.Reports[k].Tanks[i].Level - strict.Reports[k].Tanks[i].Level));
+        int looseIterations = loose.Steps.Sum(s => s.NetworkIterations), strictIterations = strict.Steps.Sum(s => s.NetworkIterations);
+        output.WriteLine($"zone, 12 h: largest level difference {worst:E3} m; Newton iterations in the steps {looseIterations} " +
+            $"against {strictIterations} ({loose.NetworkSolves} and {strict.NetworkSolves} solves, {loose.Steps.Count} and {strict.Steps.Count} steps)");
+        Assert.True(worst <= 0.5 * options.LevelTolerance, $"levels moved by {worst} m");
+        Assert.True(looseIterations < strictIterations);
+
+        var network = NetworkSimulator.WithTanks(model);
+        foreach (var report in loose.Reports)
+        {
+            var result = report.Network;
+            Assert.True(result.Converged);
+            var net = network.Junctions.Where(j => j.Id is not ("north" or "south")).ToDictionary(j => j.Id, j => -result.Junction(j.Id).DeliveredDemand);
+            foreach (var p in network.Pipes)
+            {
+                double q = result.Pipe(p.Id).Flow;
+                if (net.ContainsKey(p.From)) net[p.From] -= q;
+                if (net.ContainsKey(p.To)) net[p.To] += q;
+                double across = NetworkChecks.Head(result, p.From) - NetworkChecks.Head(result, p.To);
+                Assert.True(Math.Abs(across - NetworkChecks.IndependentHeadLoss(p, network.KinematicViscosity, q)) <= 1e-9,
+                    $"energy on {p.Id} at {report.Time} s");
+            }
+            foreach (var (id, error) in net) Assert.True(Math.Abs(error) <= 1e-9, $"continuity at {id} at {report.Time} s: {error}");
+        }
     }
 
     public static TheoryData<string> ExtremeCases => ["tiny tank", "huge demand", "subnormal levels", "huge elevation", "long run"];

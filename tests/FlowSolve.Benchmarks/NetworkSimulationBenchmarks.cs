@@ -62,7 +62,8 @@ public class NetworkSimulationBenchmarks
 /// <summary>What the warm start saves on the 10 000-pipe day of <see cref="NetworkSimulationBenchmarks"/>: the same run
 /// with every network solve from the default start; and what one analysis for the whole run saves: the set-up of a
 /// solver for the run's network (validation, indexes, ordering and symbolic analysis), which a run building a solver
-/// per solve would pay at every solve.</summary>
+/// per solve would pay at every solve; and what the stages' looser stopping rule saves (every solve to the network's own
+/// tolerances instead).</summary>
 [MemoryDiagnoser]
 public class NetworkSimulationWarmStartBenchmarks
 {
@@ -76,6 +77,7 @@ public class NetworkSimulationWarmStartBenchmarks
         _network = NetworkSimulator.WithTanks(_model);
         Console.WriteLine("// warm: " + NetworkSimulationBenchmarks.Describe(NetworkSimulator.Run(_model)));
         Console.WriteLine("// cold: " + NetworkSimulationBenchmarks.Describe(NetworkSimulator.Run(_model, new SimulationOptions { ColdStarts = true })));
+        Console.WriteLine("// strict stages: " + NetworkSimulationBenchmarks.Describe(NetworkSimulator.Run(_model, new SimulationOptions { StrictStages = true })));
     }
 
     /// <summary>Warm starts (the default).</summary>
@@ -85,6 +87,11 @@ public class NetworkSimulationWarmStartBenchmarks
     /// <summary>Every solve from the default start.</summary>
     [Benchmark]
     public int Cold() => NetworkSimulationBenchmarks.Check(NetworkSimulator.Run(_model, new SimulationOptions { ColdStarts = true })).NetworkSolves;
+
+    /// <summary>Every stage's network solve to the network's own tolerances (what the stages' looser stopping rule,
+    /// derived from the level tolerance, saves).</summary>
+    [Benchmark]
+    public int StrictStages() => NetworkSimulationBenchmarks.Check(NetworkSimulator.Run(_model, new SimulationOptions { StrictStages = true })).NetworkSolves;
 
     /// <summary>One solver's set-up for the run's network.</summary>
     [Benchmark]

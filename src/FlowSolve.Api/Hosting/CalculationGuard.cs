@@ -67,7 +67,7 @@ public static class CalculationGuard
 
     /// <summary>Whether the query asks for <c>strict=true</c> (the strict-query rules have already refused other values).</summary>
     public static bool IsStrict(HttpContext http) =>
-        string.Equals(http.Request.Query["strict"].FirstOrDefault(), "true", StringComparison.OrdinalIgnoreCase);
+        OutputOptions.Flag(http.Request.Query, "strict");
 
     /// <summary>Finds the first number in an answer that is NaN or infinite, by a checker compiled once per type.</summary>
     public static class Finite

@@ -115,4 +115,37 @@ public sealed class AnswerCacheTests(ApiFixture api)
         // The service's build identity is the module version ids of its assemblies, which every compilation renews.
         Assert.Contains(typeof(AnswerCache).Assembly.ManifestModule.ModuleVersionId.ToString("N"), AnswerCache.BuildOf(typeof(AnswerCache)));
     }
+
+    /// <summary>The tag is the quoted lower-case hexadecimal XXH128 (System.IO.Hashing) of the canonical request, built
+    /// here on its own from its definition: the build, the path, then every parameter as name=value, names lower-cased,
+    /// sorted by name (case-insensitive) and value, one per line. Queries with repeats, empty and non-ASCII values, more
+    /// pairs than a cell has, and a value long enough to leave the stack buffer.</summary>
+    [Theory]
+    [InlineData("?reynolds=75000&relativeRoughness=0.005&format=text")]
+    [InlineData("?relativeRoughness=0.005&Reynolds=75000&format=text&select=frictionFactor")]
+    [InlineData("?b=2&a=1&a=0&c=&d")]
+    [InlineData("?name=%C3%A9t%C3%A9&Z=%E2%82%AC")]
+    [InlineData("?p01=1&p02=2&p03=3&p04=4&p05=5&p06=6&p07=7&p08=8&p09=9&p10=10&p11=11&p12=12&p13=13&p14=14&p15=15&p16=16&p17=17&P18=18&p19=19&a=0")]
+    [InlineData("LONG")]
+    public void The_tag_is_the_XXH128_of_the_canonical_request(string query)
+    {
+        if (query == "LONG") query = "?select=" + new string('x', 3000) + "&format=text";
+        const string build = "build-1/generation";
+        var request = new DefaultHttpContext().Request;
+        request.Path = "/v1/friction-factor";
+        request.QueryString = new QueryString(query);
+        var pairs = new List<(string Name, string Value)>();
+        foreach (var (name, values) in Microsoft.AspNetCore.WebUtilities.QueryHelpers.ParseQuery(query))
+        {
+            if (values.Count == 0) pairs.Add((name, ""));
+            foreach (var value in values) pairs.Add((name, value ?? ""));
+        }
+        pairs.Sort((a, b) => string.Compare(a.Name, b.Name, StringComparison.OrdinalIgnoreCase) is var c && c != 0 ? c : string.CompareOrdinal(a.Value, b.Value));
+        var canonical = new System.Text.StringBuilder(build).Append('\n').Append("/v1/friction-factor").Append('\n');
+        foreach (var (name, value) in pairs) canonical.Append(name.ToLowerInvariant()).Append('=').Append(value).Append('\n');
+        var hash = System.IO.Hashing.XxHash128.Hash(System.Text.Encoding.UTF8.GetBytes(canonical.ToString()));
+        // XxHash128.Hash gives the big-endian bytes of the 128-bit value: their hexadecimal is the value's, most significant first.
+        string expected = "\"" + Convert.ToHexStringLower(hash) + "\"";
+        Assert.Equal(expected, new AnswerCache(build, 60).Tag(request));
+    }
 }

@@ -212,6 +212,8 @@ internal static class CsvRows
         {
             var slot = ring[block % ring.Length];
             slot.Block = block;
+            // Without RunContinuationsAsynchronously: the thread that finishes the block the writer awaits goes on as the
+            // writer, rather than handing it to the pool's queue behind the blocks in hand.
             slot.Solved = new TaskCompletionSource<bool>();
             // The pool's shared queue runs blocks first in, first out, so the block the writer waits for comes first.
             _ = Task.Factory.StartNew(() =>
@@ -227,18 +229,18 @@ internal static class CsvRows
             {
                 if (ct.IsCancellationRequested)
                 {
-                    slot.Solved.SetResult(false);
+                    slot.Solved.TrySetResult(false);
                     return;
                 }
                 int first = block * BlockRows;
                 slot.Worker ??= job.NewWorker();
                 job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), slot.Worker, slot.Output,
                     out slot.Ok, out slot.Refused);
-                slot.Solved.SetResult(true);
+                slot.Solved.TrySetResult(true);
             }
             catch (Exception e)
             {
-                slot.Solved.SetException(e);
+                slot.Solved.TrySetException(e);
             }
         }
 

@@ -173,12 +173,13 @@ internal static class CsvRows
     }
 
     /// <summary>One place in the ring of blocks in hand: the block's answer lines as UTF-8, the worker that solves it,
-    /// and what its solve gave (false when the time budget ran out before it started).</summary>
+    /// the block it holds, and what its solve gave (false when the time budget ran out before it started).</summary>
     private sealed class Slot
     {
         public readonly Utf8Lines Output = new();
         public Worker? Worker;
-        public Task<bool> Solved = Task.FromResult(false);
+        public int Block;
+        public TaskCompletionSource<bool> Solved = new();
         public int Ok;
         public int Refused;
     }
@@ -186,9 +187,11 @@ internal static class CsvRows
     /// <summary>Solves every row in blocks handed to the thread pool in their order, each block encoded to UTF-8 by the
     /// thread that solves it, and writes the blocks in order, each as soon as it and those before it are done. At most
     /// a ring of cores x 4 blocks is in hand (solving, solved or being written); a block's place, with its buffer and
-    /// worker, goes to the next block once it is written. No pool thread waits for another: a block runs from start to
-    /// end, and the writer awaits. Stops, as the text path does, with a final error row naming the first row not
-    /// written when the time budget runs out.</summary>
+    /// worker, goes to the next block once it is written. Each block is claimed once, by whichever thread comes to it
+    /// first: a pool thread, or the writer, which solves the block it needs next itself when no pool thread has started
+    /// it (and, while a pool thread solves that one, a later block in hand) rather than wait for the pool to reach it,
+    /// which on a busy machine can take longer than the block. No thread waits for another: the writer awaits. Stops, as
+    /// the text path does, with a final error row naming the first row not written when the time budget runs out.</summary>
     public static async Task Run(Job job, byte[] body, int bodyLength, (int Start, int Length)[] lines, int rowCount, Stream output,
         string calculation, double timeBudget, CancellationToken ct, CancellationToken aborted, int columnCount)
     {
@@ -197,26 +200,48 @@ internal static class CsvRows
         int cores = Math.Max(1, Environment.ProcessorCount);
         var ring = new Slot[Math.Min(blocks, cores * 4)];
         for (int i = 0; i < ring.Length; i++) ring[i] = new Slot();
+        // 1 once a thread has taken the block (to solve it, or, on the way out, so that nobody does).
+        var claimed = new int[blocks];
         var okRows = SolverMetrics.BatchRows.WithLabels(calculation, "ok");
         var errorRows = SolverMetrics.BatchRows.WithLabels(calculation, "error");
         int started = 0;
 
+        bool Claim(int block) => Interlocked.Exchange(ref claimed[block], 1) == 0;
+
         void Start(int block)
         {
             var slot = ring[block % ring.Length];
+            slot.Block = block;
+            // Without RunContinuationsAsynchronously: the thread that finishes the block the writer awaits goes on as the
+            // writer, rather than handing it to the pool's queue behind the blocks in hand.
+            slot.Solved = new TaskCompletionSource<bool>();
             // The pool's shared queue runs blocks first in, first out, so the block the writer waits for comes first.
-            slot.Solved = Task.Factory.StartNew(() => Solve(block, slot), CancellationToken.None, TaskCreationOptions.PreferFairness,
-                TaskScheduler.Default);
+            _ = Task.Factory.StartNew(() =>
+            {
+                if (Claim(block)) Solve(block, slot);
+            }, CancellationToken.None, TaskCreationOptions.PreferFairness, TaskScheduler.Default);
         }
 
-        bool Solve(int block, Slot slot)
+        // Solves a claimed block into its slot and completes the slot (with false when the budget ran out first).
+        void Solve(int block, Slot slot)
         {
-            if (ct.IsCancellationRequested) return false;
-            int first = block * BlockRows;
-            slot.Worker ??= job.NewWorker();
-            job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), slot.Worker, slot.Output,
-                out slot.Ok, out slot.Refused);
-            return true;
+            try
+            {
+                if (ct.IsCancellationRequested)
+                {
+                    slot.Solved.TrySetResult(false);
+                    return;
+                }
+                int first = block * BlockRows;
+                slot.Worker ??= job.NewWorker();
+                job.Solve(body.AsSpan(0, bodyLength), lines, first, Math.Min(BlockRows, rowCount - first), slot.Worker, slot.Output,
+                    out slot.Ok, out slot.Refused);
+                slot.Solved.TrySetResult(true);
+            }
+            catch (Exception e)
+            {
+                slot.Solved.TrySetException(e);
+            }
         }
 
         try
@@ -225,7 +250,11 @@ internal static class CsvRows
             for (int k = 0; k < blocks; k++)
             {
                 var slot = ring[k % ring.Length];
-                bool solved = await slot.Solved;
+                if (Claim(k)) Solve(k, slot);
+                // A pool thread has this block: solve a later block in hand that none has started, while it works.
+                for (int later = k + 1; later < started && !slot.Solved.Task.IsCompleted; later++)
+                    if (Claim(later)) Solve(later, ring[later % ring.Length]);
+                bool solved = await slot.Solved.Task;
                 int first = k * BlockRows;
                 if (!solved || ct.IsCancellationRequested)
                 {
@@ -244,12 +273,15 @@ internal static class CsvRows
         }
         finally
         {
-            // The blocks read the body: every way out waits for them all before the body's buffer goes back to the pool.
+            // The blocks read the body: every way out makes sure no block is being solved, or will be, before the body's
+            // buffer goes back to the pool. A block in hand that nobody has taken is taken here, so it never runs; one a
+            // thread has taken is waited for.
             foreach (var slot in ring)
             {
+                if (slot.Block < started && Claim(slot.Block)) continue;
                 try
                 {
-                    await slot.Solved;
+                    await slot.Solved.Task;
                 }
                 catch (Exception)
                 {

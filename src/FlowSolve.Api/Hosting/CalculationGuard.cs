@@ -124,17 +124,36 @@ public static class CalculationGuard
 
         private static string? Items(IEnumerable items)
         {
+            if (items is IList list)
+            {
+                // A list (an answer's validity checks, say) by index, without an enumerator object, and with the checker of
+                // the items' type looked up once for a run of items of one type rather than once per item.
+                Type? lastType = null;
+                Func<object, string?>? checker = null;
+                for (int k = 0; k < list.Count; k++)
+                {
+                    if (list[k] is not { } item) continue;
+                    var type = item.GetType();
+                    if (type != lastType) (lastType, checker) = (type, Checkers.GetOrAdd(type, Build));
+                    if (checker!(item) is { } inner) return Where(item, k, inner);
+                }
+                return null;
+            }
             int i = 0;
             foreach (var item in items)
             {
-                if (FirstNonFinite(item) is { } inner)
-                    return item is { } o && o.GetType().IsGenericType && o.GetType().GetGenericTypeDefinition() == typeof(KeyValuePair<,>)
-                        ? "." + o.GetType().GetProperty("Key")!.GetValue(o) + (inner.StartsWith("value", StringComparison.Ordinal) ? inner[5..] : inner)
-                        : $"[{i}]" + (inner.Length == 0 || inner[0] is '[' or '.' ? inner : "." + inner);
+                if (FirstNonFinite(item) is { } inner) return Where(item!, i, inner);
                 i++;
             }
             return null;
         }
+
+        /// <summary>The path of a non-finite number found in the item at <paramref name="index"/> of a list (or the entry
+        /// of a dictionary).</summary>
+        private static string Where(object item, int index, string inner) =>
+            item.GetType().IsGenericType && item.GetType().GetGenericTypeDefinition() == typeof(KeyValuePair<,>)
+                ? "." + item.GetType().GetProperty("Key")!.GetValue(item) + (inner.StartsWith("value", StringComparison.Ordinal) ? inner[5..] : inner)
+                : $"[{index}]" + (inner.Length == 0 || inner[0] is '[' or '.' ? inner : "." + inner);
 
         /// <summary>False for types that cannot hold a floating-point number (a warning, an assumption), so their
         /// lists are not walked at all.</summary>

@@ -32,6 +32,21 @@ internal sealed class PipeProblem
 
     private static readonly CultureInfo C = CultureInfo.InvariantCulture;
 
+    // The assumptions whose texts never vary, made once: a batch reads thousands of rows that default the same fields,
+    // and the answer carries the same records (immutable) either way.
+    private static readonly AssumptionDto UnitsDefault = new("units", "si", "SI units (default)");
+    private static readonly AssumptionDto Gravity = new("gravity", "9.80665 m/s2", "standard gravity (3rd CGPM, 1901), used everywhere in FlowSolve");
+    private static readonly AssumptionDto SurfaceConditionDefault = new("surfaceCondition", "new", "new pipe (default)");
+    private static readonly AssumptionDto ElevationDefault = new("elevationChange", "0", "outlet at the inlet's elevation (default)");
+    private static readonly AssumptionDto MethodDefault = new("method", "darcy-weisbach", "Darcy-Weisbach with the exact Colebrook-White friction factor (default)");
+    private static readonly AssumptionDto MinorLossDefault = new("minorLossCoefficient", "0", "no fittings: friction loss only (default)");
+    private static readonly AssumptionDto WaterGiven = new("fluid", "water", "liquid water at 1 atm at the given temperature, IAPWS-IF97 and IAPWS 2008");
+    private static readonly AssumptionDto WaterDefaultSi = WaterByDefault("20 degrees C");
+    private static readonly AssumptionDto WaterDefaultUs = WaterByDefault("68 degrees F");
+
+    private static AssumptionDto WaterByDefault(string at) => new("fluid", "water at " + at,
+        "no kinematicViscosity, density or temperature given: liquid water at 1 atm, IAPWS-IF97 and IAPWS 2008 (default)");
+
     public required UnitSystem Units { get; init; }
     public required FlowUnit FlowUnit { get; init; }
     public required double Length { get; init; }
@@ -59,10 +74,13 @@ internal sealed class PipeProblem
     public static PipeProblem Read(IPipeRequest r, FieldErrors errors, bool allowHazenWilliams = true)
     {
         var units = UnitSystem.Parse(r.Units, errors);
-        var flowUnit = FlowUnit.Parse(r.FlowUnit, units, errors);
-        var assumptions = new List<AssumptionDto>();
-        if (r.Units is null) assumptions.Add(new("units", "si", "SI units (default)"));
-        assumptions.Add(new("gravity", "9.80665 m/s2", "standard gravity (3rd CGPM, 1901), used everywhere in FlowSolve"));
+        // Without a flowUnit the parse answers the system's default before it could record an error: taken directly, no
+        // error callback is made for the row.
+        var flowUnit = r.FlowUnit is null ? FlowUnit.DefaultFor(units) : FlowUnit.Parse(r.FlowUnit, units, errors);
+        // Room for the usual defaults (units, gravity, minor losses, elevation, fluid, method) without growing.
+        var assumptions = new List<AssumptionDto>(6);
+        if (r.Units is null) assumptions.Add(UnitsDefault);
+        assumptions.Add(Gravity);
 
         double length = units.LengthToSi(errors.Required("length", r.Length, 0, units.Length(MaxLength), minExclusive: true, unit: units.LengthUnit));
 
@@ -92,7 +110,7 @@ internal sealed class PipeProblem
                 assumptions.Add(new("roughness", string.Create(C, $"{units.Length(roughness):R} {units.LengthUnit}"),
                     $"{material.Description} ({(condition == SurfaceCondition.New ? "new" : "aged")}), from {RoughnessTable.Source} ({RoughnessTable.Provenance})"));
                 if (r.SurfaceCondition is null)
-                    assumptions.Add(new("surfaceCondition", "new", "new pipe (default)"));
+                    assumptions.Add(SurfaceConditionDefault);
             }
         }
         else
@@ -106,7 +124,7 @@ internal sealed class PipeProblem
         double minorLoss = ReadMinorLosses(r, errors, assumptions);
 
         double elevation = 0;
-        if (r.ElevationChange is null) assumptions.Add(new("elevationChange", "0", "outlet at the inlet's elevation (default)"));
+        if (r.ElevationChange is null) assumptions.Add(ElevationDefault);
         else elevation = units.LengthToSi(errors.Required("elevationChange", r.ElevationChange, -units.Length(MaxHead), units.Length(MaxHead), unit: units.LengthUnit));
 
         var fluid = ReadFluid(r, units, errors, assumptions, out double? waterCelsius);
@@ -115,7 +133,7 @@ internal sealed class PipeProblem
         double c = double.NaN;
         if (r.Method is null || r.Method.Equals("darcy-weisbach", StringComparison.OrdinalIgnoreCase))
         {
-            if (r.Method is null) assumptions.Add(new("method", "darcy-weisbach", "Darcy-Weisbach with the exact Colebrook-White friction factor (default)"));
+            if (r.Method is null) assumptions.Add(MethodDefault);
             if (r.HazenWilliamsC is not null) errors.Add("hazenWilliamsC", "applies only with method=hazen-williams");
         }
         else if (r.Method.Equals("hazen-williams", StringComparison.OrdinalIgnoreCase))
@@ -165,7 +183,7 @@ internal sealed class PipeProblem
         {
             if (r.MinorLossCoefficient is null)
             {
-                assumptions.Add(new("minorLossCoefficient", "0", "no fittings: friction loss only (default)"));
+                assumptions.Add(MinorLossDefault);
                 return 0;
             }
             return errors.Required("minorLossCoefficient", r.MinorLossCoefficient, 0, MaxMinorLoss);
@@ -215,12 +233,12 @@ internal sealed class PipeProblem
                 : errors.Required("temperature", r.Temperature, Water.MinimumTemperature, Water.MaximumTemperature, unit: "degrees C");
             if (errors.Has("temperature")) return default;
             waterCelsius = Math.Clamp(units.TemperatureToCelsius(t), Water.MinimumTemperature, Water.MaximumTemperature);
-            return WaterAt(units.TemperatureToCelsius(t), assumptions, null);
+            return WaterAt(units.TemperatureToCelsius(t), assumptions, WaterGiven);
         }
         if (r.KinematicViscosity is null && r.Density is null)
         {
             waterCelsius = DefaultWaterTemperature;
-            return WaterAt(DefaultWaterTemperature, assumptions, units.IsUs ? "68 degrees F" : "20 degrees C");
+            return WaterAt(DefaultWaterTemperature, assumptions, units.IsUs ? WaterDefaultUs : WaterDefaultSi);
         }
         double nu = units.KinematicViscosityToSi(errors.Required("kinematicViscosity", r.KinematicViscosity,
             units.KinematicViscosity(MinViscosity), units.KinematicViscosity(MaxViscosity), unit: units.KinematicViscosityUnit));
@@ -229,16 +247,12 @@ internal sealed class PipeProblem
         return new FluidProperties(nu, rho);
     }
 
-    private static FluidProperties WaterAt(double celsius, List<AssumptionDto> assumptions, string? defaulted)
+    private static FluidProperties WaterAt(double celsius, List<AssumptionDto> assumptions, AssumptionDto assumption)
     {
         // Clamp only against rounding of the F to C conversion at the ends of the range (212 F is exactly 100 C).
         celsius = Math.Clamp(celsius, Water.MinimumTemperature, Water.MaximumTemperature);
         var p = Water.At(celsius);
-        if (defaulted is not null)
-            assumptions.Add(new("fluid", "water at " + defaulted,
-                "no kinematicViscosity, density or temperature given: liquid water at 1 atm, IAPWS-IF97 and IAPWS 2008 (default)"));
-        else
-            assumptions.Add(new("fluid", "water", "liquid water at 1 atm at the given temperature, IAPWS-IF97 and IAPWS 2008"));
+        assumptions.Add(assumption);
         return new FluidProperties(p.KinematicViscosity, p.Density);
     }
 
@@ -253,16 +267,29 @@ internal sealed class PipeProblem
     /// <summary>A validity check in the response's units (lengths, velocities, viscosities converted).</summary>
     public ValidityDto Validity(ValidityCheck v)
     {
-        Func<double, double> convert = v.Quantity switch
-        {
-            "diameter" => Units.Length,
-            "velocity" => Units.Velocity,
-            "kinematicViscosity" => Units.KinematicViscosity,
-            _ => x => x,
-        };
-        return new ValidityDto(v.Method, v.Quantity, convert(v.Minimum),
-            double.IsPositiveInfinity(v.Maximum) ? null : convert(v.Maximum), convert(v.Value), v.InRange, v.Source);
+        int quantity = v.Quantity switch { "diameter" => 1, "velocity" => 2, "kinematicViscosity" => 3, _ => 0 };
+        return new ValidityDto(v.Method, v.Quantity, Convert(quantity, v.Minimum),
+            double.IsPositiveInfinity(v.Maximum) ? null : Convert(quantity, v.Maximum), Convert(quantity, v.Value), v.InRange, v.Source);
     }
+
+    /// <summary>The checks in the response's units, in their order (a loop rather than a query: a batch builds these for
+    /// every row).</summary>
+    public List<ValidityDto> Validity(IReadOnlyList<ValidityCheck> checks)
+    {
+        var list = new List<ValidityDto>(checks.Count);
+        for (int i = 0; i < checks.Count; i++) list.Add(Validity(checks[i]));
+        return list;
+    }
+
+    /// <summary>A value of a validity check in the response's unit: 1 a length, 2 a velocity, 3 a kinematic viscosity,
+    /// 0 a number without a unit.</summary>
+    private double Convert(int quantity, double x) => quantity switch
+    {
+        1 => Units.Length(x),
+        2 => Units.Velocity(x),
+        3 => Units.KinematicViscosity(x),
+        _ => x,
+    };
 
     /// <summary>ρ g h in the response's pressure unit, or null without a density.</summary>
     public double? Pressure(double? si) => si is double p ? Units.Pressure(p) : null;
@@ -271,6 +298,11 @@ internal sealed class PipeProblem
     public double? DensityOut => Fluid.Density is double rho ? Units.Density(rho) : null;
 
     /// <summary>The Core's coded warnings as wire records (their messages quote SI values).</summary>
-    public static List<WarningDto> Warnings(IEnumerable<CalculationWarning> warnings) =>
-        warnings.Select(WarningDto.From).ToList();
+    public static List<WarningDto> Warnings(IEnumerable<CalculationWarning> warnings)
+    {
+        if (warnings is not IReadOnlyList<CalculationWarning> list) return warnings.Select(WarningDto.From).ToList();
+        var dtos = new List<WarningDto>(list.Count);
+        for (int i = 0; i < list.Count; i++) dtos.Add(WarningDto.From(list[i]));
+        return dtos;
+    }
 }

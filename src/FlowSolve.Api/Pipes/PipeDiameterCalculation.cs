@@ -63,6 +63,7 @@ public sealed class PipeDiameterCalculation : Calculation<PipeDiameterRequest, P
                 if (trace is not null) PipeDiameter.Solve(input.Length, input.Roughness, input.MinorLossCoefficient, input.Fluid, flow, allowed, null, trace);
                 if (pick.Status == PipeStatus.NoListedSize) return NoListedSize(pick, table, allowed, input);
             }
+            if (r.Status == PipeStatus.OutsideRange && RoughnessExceedsAnswer(input, flow, allowed) is { } rough) return rough;
             if (PipeOutcomes.NoAnswer(r.Status, allowed, input) is { } problem) return problem;
 
             var s = r.State;
@@ -117,6 +118,31 @@ public sealed class PipeDiameterCalculation : Calculation<PipeDiameterRequest, P
         }
     }
 
+
+    /// <summary>The 422 for a diameter the friction relations cannot reach because it would be smaller than the wall
+    /// roughness: a pipe whose inside diameter equals the roughness already loses no more than the allowance at this
+    /// flow (its head loss is computed there, at relative roughness just below 1, the largest the relations accept).
+    /// Null when that is not why the solve found no answer.</summary>
+    private static ProblemHttpResult? RoughnessExceedsAnswer(PipeProblem input, double flow, double allowed)
+    {
+        double e = input.Roughness;
+        if (!(e > 0)) return null;
+        double d = e * (1 + 1e-9);
+        double loss;
+        try
+        {
+            loss = PipeHeadLoss.Compute(new PipeGeometry(input.Length, d, e, input.MinorLossCoefficient), input.Fluid, flow).HeadLoss;
+        }
+        catch (ArgumentException)
+        {
+            return null;
+        }
+        if (!(loss <= allowed)) return null;
+        var u = input.Units;
+        return ProblemResults.NoAnswer("No diameter meets the allowed head loss.", string.Create(C,
+            $"A pipe whose inside diameter equals the wall roughness ({u.Length(e):G6} {u.LengthUnit}) already loses only {u.Length(loss):G6} {u.LengthUnit} at this flow, less than the {u.Length(allowed):G6} {u.LengthUnit} allowed: the diameter that uses the allowance would be smaller than the roughness, where the friction relations do not apply (relative roughness must be below 1). Check the roughness and its unit, or the allowance."),
+            new Dictionary<string, object?> { ["pipeStatus"] = PipeStatus.OutsideRange.Code() });
+    }
     private static ProblemHttpResult NoListedSize(in SizeSelectionResult pick, PipeSizeTable table, double allowed, PipeProblem input)
     {
         var u = input.Units;

@@ -58,6 +58,31 @@ public sealed class EdgeCaseEndpointsTests(ApiFixture api)
     }
 
     [Fact]
+    public async Task Diameter_NeededBelowTheRoughness_Is422NamingTheRoughness()
+    {
+        // 1 L/s through 10 m of pipe with 50 m to spend and 50 mm of wall roughness (metres typed for millimetres, say):
+        // a pipe of inside diameter 50 mm loses far less than 50 m (turbulent there, Re about 25 000), so the diameter
+        // that uses the allowance is below the roughness, outside the friction relations (e/D < 1). Reference:
+        // Darcy-Weisbach with Colebrook (1939) solved by MathNet's Brent at D = e (e/D taken as just below 1).
+        const double q = 1e-3, length = 10, allowed = 50, e = 0.05;
+        var r = await api.GetJson($"/v1/pipes/diameter?flow={q}&length={length}&headLoss={allowed}&roughness={e}&kinematicViscosity={Nu}");
+        Assert.Equal(422, r.Status);
+        Assert.Equal("outside-range", r.Body.GetProperty("pipeStatus").GetString());
+        string detail = r.Body.GetProperty("detail").GetString()!;
+        Assert.Contains("roughness", detail);
+        double area = Math.PI * e * e / 4, v = q / area, re = v * e / Nu;
+        double x = Brent.FindRoot(x => x + 2 * Math.Log10(1 / (1 + 1e-9) / 3.7 + 2.51 * x / re), 0.1, 40, 1e-14, 200);
+        double loss = Math.Pow(x, -2) * length / e * v * v / (2 * G);
+        Assert.True(re > 4000 && loss < allowed, $"the reference at D = e: Re {re}, loss {loss} m");
+        Assert.Contains(loss.ToString("G6", System.Globalization.CultureInfo.InvariantCulture), detail);
+
+        // With a tenth of that roughness the diameter lies above it and is answered (the case is otherwise the same).
+        var ok = await api.GetJson($"/v1/pipes/diameter?flow={q}&length={length}&headLoss={allowed}&roughness={e / 10}&kinematicViscosity={Nu}");
+        Assert.Equal(200, ok.Status);
+        Assert.True(ok.Body.GetProperty("diameter").GetDouble() > e / 10);
+    }
+
+    [Fact]
     public async Task DutyPoint_HugePipeDiameter_IsThePumpAtTheStaticHead()
     {
         // A pipe of 1e308 m loses nothing (Hagen-Poiseuille: 128 nu L Q/(pi g D^4) underflows to 0), so the pump meets

@@ -163,6 +163,14 @@ public static class CalculationGuard
             if (t.IsPrimitive || t == typeof(string) || t.IsEnum || depth > 6) return false;
             if (t.IsArray) return MayHoldNumbers(t.GetElementType()!, depth + 1);
             if (t.IsGenericType && typeof(IEnumerable).IsAssignableFrom(t)) return t.GetGenericArguments().Any(a => MayHoldNumbers(a, depth + 1));
+            if (typeof(IEnumerable).IsAssignableFrom(t))
+            {
+                // A sequence whose own type is not generic (a compiler-made iterator, say): by the item types of the
+                // IEnumerable<T> it implements; one that implements none may hold anything.
+                var itemTypes = t.GetInterfaces().Where(i => i.IsGenericType && i.GetGenericTypeDefinition() == typeof(IEnumerable<>))
+                    .Select(i => i.GetGenericArguments()[0]).ToArray();
+                return itemTypes.Length == 0 || itemTypes.Any(a => MayHoldNumbers(a, depth + 1));
+            }
             if (t.IsGenericType && t.GetGenericTypeDefinition() == typeof(KeyValuePair<,>)) return MayHoldNumbers(t.GetGenericArguments()[1], depth + 1);
             if (t.IsInterface || t.IsAbstract) return true;
             return t.GetProperties(BindingFlags.Public | BindingFlags.Instance).Any(p => p.GetIndexParameters().Length == 0 && MayHoldNumbers(p.PropertyType, depth + 1));

@@ -42,6 +42,22 @@ public class FiniteAnswerGuardTests
     public void FirstNonFinite_ASequenceThatIsNotAList_NamesTheItemsPosition() =>
         Assert.Equal("points[2].x", CalculationGuard.Finite.FirstNonFinite(Clean() with { Points = Queued(2) }));
 
+    [Fact]
+    public void FirstNonFinite_ACompilerMadeIterator_IsWalkedByItsItemType()
+    {
+        // A sequence whose runtime type is not generic (the class the compiler makes for an iterator method) is walked as
+        // the IEnumerable<Point> it implements, not skipped as a type without numbers.
+        var sequence = Yielded(1);
+        Assert.False(sequence.GetType().IsGenericType);
+        Assert.Equal("points[1].x", CalculationGuard.Finite.FirstNonFinite(Clean() with { Points = sequence }));
+        Assert.Null(CalculationGuard.Finite.FirstNonFinite(Clean() with { Points = Yielded(-1) }));
+    }
+
+    private static IEnumerable<Point> Yielded(int bad)
+    {
+        for (int i = 0; i < 3; i++) yield return new Point(i == bad ? double.NaN : i, null);
+    }
+
     /// <summary>Three points in a queue (a sequence that is not a list), the one at <paramref name="bad"/> not finite.</summary>
     private static Queue<Point> Queued(int bad) => new(Enumerable.Range(0, 3).Select(i => new Point(i == bad ? double.NaN : i, null)));
 

@@ -138,6 +138,10 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
     where TQuery : class where TRequest : class where TResponse : class
 {
     [ThreadStatic] private static StringBuilder? t_cell;
+
+    /// <summary>The thread's own builder for a cell, emptied: written and read within one answer, before this thread
+    /// serves anything else.</summary>
+    private static StringBuilder CellBuilder() => (t_cell ??= new StringBuilder(32)).Clear();
     private IReadOnlyDictionary<string, ResponseColumn>? _columns;
     private IReadOnlyDictionary<string, Func<TRequest, double?>>? _shortcuts;
     private SolverMetrics.For? _metrics;
@@ -308,9 +312,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
             return new TextAnswer(answer is IWarned w ? string.Join(",", w.WarningCodes()) : "", StatusCodes.Status200OK);
         if (Columns.TryGetValue(field, out var column))
         {
-            // The cell's builder is the thread's own: written and read here, before this thread serves anything else.
-            var cell = t_cell ??= new StringBuilder(32);
-            cell.Clear();
+            var cell = CellBuilder();
             column.WriteText(answer, cell);
             string value = cell.ToString();
             if (cell.Capacity > 4096) t_cell = null; // do not keep a long text field's builder per thread
@@ -351,8 +353,7 @@ public abstract class Calculation<TQuery, TRequest, TResponse> : ICalculation
             return null; // the full solve gives the answer this input gets (a 422, as a rule)
         }
         if (value is not { } v || !double.IsFinite(v)) return null;
-        var cell = t_cell ??= new StringBuilder(32);
-        cell.Clear();
+        var cell = CellBuilder();
         CellWriter.Append(cell, v);
         return new TextAnswer(cell.ToString(), StatusCodes.Status200OK);
     }

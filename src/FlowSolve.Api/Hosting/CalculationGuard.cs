@@ -65,10 +65,6 @@ public static class CalculationGuard
             extensions);
     }
 
-    /// <summary>Whether the query asks for <c>strict=true</c> (the strict-query rules have already refused other values).</summary>
-    public static bool IsStrict(HttpContext http) =>
-        OutputOptions.Flag(http.Request.Query, "strict");
-
     /// <summary>Finds the first number in an answer that is NaN or infinite, by a checker compiled once per type.</summary>
     public static class Finite
     {

@@ -58,7 +58,7 @@ public sealed class PipeHeadLossCalculation : Calculation<PipeHeadLossRequest, P
                     u.Length(input.Length), u.Length(input.Roughness), input.MinorLossCoefficient,
                     u.KinematicViscosity(input.Fluid.KinematicViscosity), input.DensityOut,
                     result.Iterations, result.Converged, s.FrictionResidualAtAnswer, result.Status.Code(), input.MethodCode, u.Code, input.FlowUnit.Code,
-                    validity, Warnings(result), input.Assumptions, null) { Trace = TraceStepDto.From(trace) };
+                    validity, PipeProblem.Warnings(result.DescribeWarnings()), input.Assumptions, null) { Trace = TraceStepDto.From(trace) };
                 if (context.Sensitivities && result.Converged)
                 {
                     var spread = PipeSensitivityTables.Spread("headLoss", input, e =>
@@ -99,11 +99,4 @@ public sealed class PipeHeadLossCalculation : Calculation<PipeHeadLossRequest, P
             return PipeOutcomes.DefectGuard(ex, context.Services);
         }
     }
-
-    /// <summary>The answer's warnings; without a flag raised there are none to describe (the common row of a batch), and
-    /// the descriptions, which format their numbers into text, are not built.</summary>
-    private static List<WarningDto> Warnings(in HeadLossResult result) =>
-        result.Warnings == PipeWarnings.None && result.State.FrictionWarnings == FrictionWarnings.None
-            ? []
-            : PipeProblem.Warnings(result.DescribeWarnings());
 }

@@ -267,9 +267,8 @@ internal sealed class PipeProblem
     /// <summary>A validity check in the response's units (lengths, velocities, viscosities converted).</summary>
     public ValidityDto Validity(ValidityCheck v)
     {
-        int quantity = v.Quantity switch { "diameter" => 1, "velocity" => 2, "kinematicViscosity" => 3, _ => 0 };
-        return new ValidityDto(v.Method, v.Quantity, Convert(quantity, v.Minimum),
-            double.IsPositiveInfinity(v.Maximum) ? null : Convert(quantity, v.Maximum), Convert(quantity, v.Value), v.InRange, v.Source);
+        return new ValidityDto(v.Method, v.Quantity, Convert(v.Quantity, v.Minimum),
+            double.IsPositiveInfinity(v.Maximum) ? null : Convert(v.Quantity, v.Maximum), Convert(v.Quantity, v.Value), v.InRange, v.Source);
     }
 
     /// <summary>The checks in the response's units, in their order (a loop rather than a query: a batch builds these for
@@ -281,13 +280,12 @@ internal sealed class PipeProblem
         return list;
     }
 
-    /// <summary>A value of a validity check in the response's unit: 1 a length, 2 a velocity, 3 a kinematic viscosity,
-    /// 0 a number without a unit.</summary>
-    private double Convert(int quantity, double x) => quantity switch
+    /// <summary>A value of a validity check's quantity in the response's unit (numbers without a unit as they are).</summary>
+    private double Convert(string quantity, double x) => quantity switch
     {
-        1 => Units.Length(x),
-        2 => Units.Velocity(x),
-        3 => Units.KinematicViscosity(x),
+        "diameter" => Units.Length(x),
+        "velocity" => Units.Velocity(x),
+        "kinematicViscosity" => Units.KinematicViscosity(x),
         _ => x,
     };
 

@@ -50,6 +50,8 @@ internal sealed class SimulationRun
     private readonly sbyte[] _held;             // +1 held full, -1 held empty, 0 moving
     private readonly bool[] _fullArmed, _emptyArmed;
     private readonly double _band;
+    private readonly double _smallestArea;      // the smallest tank's area, m2 (for the stages' stopping rule)
+    private bool _lastLoose;                    // the last solve stopped on the stages' rule, not the network's tolerances
 
     private readonly List<SimulationReport> _reports = [];
     private readonly List<SimulationEvent> _events = [];
@@ -99,6 +101,7 @@ internal sealed class SimulationRun
             _max[i] = t.MaximumLevel;
         }
         _band = Math.Max(10 * options.LevelTolerance, 1e-6);
+        _smallestArea = _tankCount == 0 ? 0 : _area.Min();
 
         var patterns = model.Patterns ?? [];
         var patternIndex = new Dictionary<string, int>(StringComparer.Ordinal);
@@ -397,19 +400,13 @@ internal sealed class SimulationRun
     private double StageFlowTolerance(double h)
     {
         if (_options.StrictStages || _tankCount == 0 || !(h > 0)) return 0;
-        double area = double.PositiveInfinity;
-        for (int i = 0; i < _tankCount; i++)
-        {
-            if (_held[i] != 0) return 0;
-            area = Math.Min(area, _area[i]);
-        }
-        double tolerance = StageAccuracy * _options.LevelTolerance * area / h;
+        for (int i = 0; i < _tankCount; i++) if (_held[i] != 0) return 0;
+        double tolerance = StageAccuracy * _options.LevelTolerance * _smallestArea / h;
         return double.IsFinite(tolerance) ? tolerance : 0;
     }
 
     /// <summary>The share of the level tolerance a stage's inexact network solve may move a level by over its step.</summary>
     internal const double StageAccuracy = 0.1;
-    private bool _lastLoose;
 
     /// <summary>An event condition: a tank reaching a limit (index -1 - tank for full, -1 - tankCount - tank for empty) or
     /// a control's threshold (index c &gt;= 0).</summary>

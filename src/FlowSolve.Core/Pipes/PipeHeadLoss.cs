@@ -50,6 +50,8 @@ public readonly record struct PipeState(
     /// <param name="options">Options used; <see cref="PipeOptions.Default"/> when omitted.</param>
     public IReadOnlyList<CalculationWarning> Describe(PipeWarnings warnings, PipeOptions? options = null)
     {
+        // Without a flag raised there is nothing to describe (the common case of a batch row): no list, no message text.
+        if (warnings == PipeWarnings.None && FrictionWarnings == FrictionWarnings.None) return [];
         var o = options ?? PipeOptions.Default;
         var list = new List<CalculationWarning>(
             DarcyFriction.Describe(FrictionWarnings, Reynolds, RelativeRoughness, Relation, o.Friction));
